@@ -1,0 +1,1 @@
+"""File readers: each turns one kind of sheet into plain rows with their row numbers."""

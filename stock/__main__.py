@@ -1,0 +1,3 @@
+from stock.cli import main
+
+main()

@@ -1,0 +1,77 @@
+"""The `stock` command: a thin shell over the library, one file per command group.
+
+Each command module exposes ``register(app)`` and is listed in :data:`COMMAND_MODULES`; the
+library does the work, the command formats and prints. :class:`_Boundary` turns every
+:class:`~stock.errors.StockError` into one line on stderr and its exit code.
+"""
+
+from __future__ import annotations
+
+import importlib
+import os
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Annotated
+
+import typer
+from typer.core import TyperGroup
+
+from stock.errors import StockError
+
+# Command modules in the order their commands appear in `stock --help`.
+COMMAND_MODULES: tuple[str, ...] = (
+    "stock.cli.decode_cmd",
+)
+
+
+class _Boundary(TyperGroup):
+    """The one place a user error becomes a message and an exit code, never a traceback."""
+
+    def invoke(self, ctx):  # type: ignore[override]
+        try:
+            return super().invoke(ctx)
+        except StockError as exc:
+            typer.echo(f"stock: {exc}", err=True)
+            raise typer.Exit(code=exc.exit_code) from None
+
+
+@dataclass
+class CliState:
+    """Options shared by every command."""
+
+    db_path: Path
+
+
+app = typer.Typer(
+    cls=_Boundary,
+    no_args_is_help=True,
+    add_completion=False,
+    pretty_exceptions_show_locals=False,
+    help="Capacitor bins: decode markings, grade parts for the job, find, kit and export.",
+)
+
+
+@app.callback()
+def _global_options(
+    ctx: typer.Context,
+    db: Annotated[Path, typer.Option("--db", envvar="STOCK_DB",
+                                     help="The stock database file (SQLite).")] = Path("stock.db"),
+) -> None:
+    ctx.obj = CliState(db_path=db)
+
+
+def state(ctx: typer.Context) -> CliState:
+    """The shared options of the running command (``--db``)."""
+    root = ctx.find_root()
+    if isinstance(root.obj, CliState):
+        return root.obj
+    return CliState(db_path=Path(os.environ.get("STOCK_DB", "stock.db")))
+
+
+for _name in COMMAND_MODULES:
+    importlib.import_module(_name).register(app)
+
+
+def main() -> None:
+    """Console-script entry point."""
+    app()
