@@ -21,6 +21,9 @@ from stock.errors import StockError
 # Command modules in the order their commands appear in `stock --help`.
 COMMAND_MODULES: tuple[str, ...] = (
     "stock.cli.decode_cmd",
+    "stock.cli.import_cmd",
+    "stock.cli.bins_cmd",
+    "stock.cli.export_cmd",
     "stock.cli.check_cmd",
 )
 

@@ -1,0 +1,659 @@
+"""Intake: turn the rows of a read sheet into stored bins, parts, ledger movements and flags.
+
+The readers in :mod:`importers` give raw rows; this module decodes each row's marking, checks it
+against any explicit value or label, and stores the result in one transaction per file. Every
+row read is accounted for exactly once: stored (perhaps with flags), unchanged (already stored
+that way), or quarantined with its reason. Nothing is dropped and nothing is silently changed.
+
+Bin identity: ``bin_key`` is ``"<cabinet>/<location>"``, lower-cased with runs of white space
+made single, where *cabinet* is the cabinet column if the sheet has one, else the sheet name
+(xlsx) or the file name without its extension (csv); and *location* is the location column,
+else the label, else the marking text. Re-importing an edited sheet finds its bins by that key.
+
+Quantity rules (common practice in stock-keeping, no published source): whole numbers only; a
+blank cell means "not counted" (``on_hand`` NULL, an ``unknown-quantity`` flag), never zero;
+a negative or non-numeric count quarantines the row.
+
+>>> bin_key("Cabinet  1", " A2 ")
+'cabinet 1/a2'
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import re
+from collections.abc import Callable, Iterable
+from dataclasses import dataclass, field, replace
+from datetime import date, datetime
+from decimal import Decimal, InvalidOperation
+from functools import lru_cache
+from pathlib import Path
+from typing import Any
+
+from stock.decoded import Alternative, Flag, Marking
+from stock.errors import BadSheet, BadValue
+from stock.store import Store, now
+
+# Fields of the "bins" vocabulary whose text joins the marking, in the order it is written.
+MARKING_FIELDS = ("marking", "colours", "dielectric", "tolerance", "voltage", "safety_class",
+                  "polarity")
+# Fields that can carry the part's reading; a sheet with none of them cannot be imported.
+READING_FIELDS = ("marking", "value", "colours")
+BATCH = 2000
+PROGRESS_EVERY = 1000
+
+# Why a row was quarantined, and what the user can do about it (shown by `stock quarantine`).
+QUARANTINE_FIXES: dict[str, str] = {
+    "bad-quantity": "write the count as a whole number (or leave it blank if not counted), then import again",
+    "no-capacitance": "correct the marking or value (e.g. 104, 4n7, 100pF, brown black red), then import again",
+    "duplicate-row": "give each bin its own location (or merge the two rows into one), then import again",
+}
+
+
+@dataclass(frozen=True)
+class SheetReport:
+    """What one sheet of one file did (or would do, in a dry run) to the store."""
+
+    path: str
+    sheet: str | None
+    rows: int = 0
+    stored: int = 0
+    quarantined: int = 0
+    flagged: int = 0
+    unchanged: int = 0
+    new_bins: int = 0
+    updated_bins: int = 0
+    count_movements: int = 0
+    flags_raised: int = 0
+    same_file: bool = False
+    mapping: tuple[str, ...] = ()
+    import_id: int | None = None
+
+    def to_json(self) -> dict[str, Any]:
+        return {
+            "path": self.path, "sheet": self.sheet, "rows": self.rows, "stored": self.stored,
+            "quarantined": self.quarantined, "flagged": self.flagged, "unchanged": self.unchanged,
+            "new_bins": self.new_bins, "updated_bins": self.updated_bins,
+            "count_movements": self.count_movements, "flags_raised": self.flags_raised,
+            "same_file": self.same_file, "mapping": list(self.mapping),
+        }
+
+
+@dataclass(frozen=True)
+class ImportReport:
+    """The sheets of one imported file; ``dry_run`` says nothing was kept."""
+
+    path: str
+    sheets: tuple[SheetReport, ...]
+    dry_run: bool = False
+
+    def to_json(self) -> dict[str, Any]:
+        return {"files": [s.to_json() | {"dry_run": self.dry_run} for s in self.sheets]}
+
+
+def normalise(text: str) -> str:
+    """Bin-key form of a name: trimmed, white space made single, lower case."""
+    return " ".join(str(text).split()).casefold()
+
+
+def bin_key(cabinet: str, location: str) -> str:
+    """The identity of a bin: ``"<cabinet>/<location>"`` normalised (see the module docstring)."""
+    return f"{normalise(cabinet)}/{normalise(location)}"
+
+
+@lru_cache(maxsize=65536)
+def decode_cached(text: str) -> Marking:
+    """:func:`stock.markings.decode` remembered per text: sheets repeat their markings a lot."""
+    from stock.markings import decode
+    return decode(text)
+
+
+def cell_text(value: Any) -> str:
+    """A cell as the text a person would read: 104.0 is "104", 2.2e-05 is "0.000022".
+
+    >>> cell_text(104.0), cell_text(2.2e-05), cell_text("  4n7 "), cell_text(None)
+    ('104', '0.000022', '4n7', '')
+    """
+    if value is None:
+        return ""
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, float):
+        if value.is_integer():
+            return str(int(value))
+        return format(Decimal(repr(value)), "f")
+    if isinstance(value, (datetime, date)):
+        return value.isoformat()
+    return " ".join(str(value).split())
+
+
+_NUMBER = re.compile(r"^[+-]?(\d+(\.\d*)?|\.\d+)$")
+_WHOLE = re.compile(r"^\+?\d+(\.0*)?$")
+
+
+def read_quantity(value: Any) -> int | None:
+    """A count cell as a whole number; None for a blank. Raises ValueError with the reason.
+
+    >>> read_quantity(10.0), read_quantity(" 25 "), read_quantity(None)
+    (10, 25, None)
+    """
+    if value is None or (isinstance(value, str) and not value.strip()):
+        return None
+    if isinstance(value, bool):
+        raise ValueError(f"quantity {cell_text(value)!r} is not a number")
+    if isinstance(value, int):
+        number = value
+    elif isinstance(value, float):
+        if not value.is_integer():
+            raise ValueError(f"quantity {cell_text(value)!r} is not a whole number")
+        number = int(value)
+    else:
+        text = str(value).strip()
+        if _WHOLE.match(text):
+            number = int(Decimal(text))
+        elif _NUMBER.match(text):
+            number = int(Decimal(text)) if Decimal(text) == Decimal(text).to_integral() else None
+            if number is None:
+                raise ValueError(f"quantity {text!r} is not a whole number")
+        else:
+            raise ValueError(f"quantity {text!r} is not a number")
+    if number < 0:
+        raise ValueError(f"quantity {cell_text(value)!r} is negative")
+    return number
+
+
+def _with_unit(text: str, unit: str | None) -> str:
+    """A bare number from a column whose header names a unit gets that unit ("100" + "pF")."""
+    if unit and _NUMBER.match(text):
+        return f"{text}{unit}"
+    return text
+
+
+def _part_columns(m: Marking) -> tuple[Any, ...]:
+    """The flat parts columns of a marking, in the order of :data:`_PART_COLUMNS`."""
+    tol, diel = m.tolerance, m.dielectric
+
+    def f(v: Decimal | None) -> float | None:
+        return None if v is None else float(v)
+
+    return (
+        f(m.capacitance_pf),
+        f(tol.minus) if tol else None, f(tol.plus) if tol else None,
+        tol.unit if tol else None, tol.code if tol else None,
+        f(m.voltage_v), m.voltage_kind,
+        diel.code if diel else None, diel.family if diel else None, diel.klass if diel else None,
+        f(diel.tempco_ppm_per_k) if diel else None, f(diel.tempco_tol_ppm_per_k) if diel else None,
+        f(diel.temp_min_c) if diel else None, f(diel.temp_max_c) if diel else None,
+        f(diel.change_minus_pct) if diel else None, f(diel.change_plus_pct) if diel else None,
+        m.safety_class, m.polarity, f(m.rated_temp_c),
+    )
+
+
+_PART_COLUMNS = ("capacitance_pf", "tol_minus", "tol_plus", "tol_unit", "tol_code", "voltage_v",
+                 "voltage_kind", "dielectric_code", "family", "class", "tempco_ppm_per_k",
+                 "tempco_tol_ppm_per_k", "temp_min_c", "temp_max_c", "change_minus_pct",
+                 "change_plus_pct", "safety_class", "polarity", "rated_temp_c")
+_INSERT_PART = (
+    f"INSERT INTO parts (bin_id, marking, {', '.join(_PART_COLUMNS)}, package, mounting,"
+    f" decoded_json) VALUES ({', '.join('?' * (len(_PART_COLUMNS) + 5))})")
+_UPDATE_PART = (
+    f"UPDATE parts SET marking = ?, {', '.join(c + ' = ?' for c in _PART_COLUMNS)},"
+    " package = COALESCE(?, package), mounting = COALESCE(?, mounting), decoded_json = ?"
+    " WHERE bin_id = ?")
+_INSERT_BIN = ("INSERT INTO bins (id, bin_key, label, location, cabinet, notes, minimum, date_code,"
+               " on_hand, created_at, updated_at) VALUES (?,?,?,?,?,?,?,?,?,?,?)")
+_INSERT_SOURCE = ("INSERT INTO source_rows (id, import_id, sheet, row_number, raw_json, status,"
+                  " reasons_json, bin_id) VALUES (?,?,?,?,?,?,?,?)")
+_INSERT_LEDGER = ("INSERT INTO ledger (bin_id, delta, kind, ref, note, actor, at)"
+                  " VALUES (?, ?, 'import', ?, NULL, NULL, ?)")
+
+
+@lru_cache(maxsize=65536)
+def _stored_form(m: Marking) -> tuple[tuple[Any, ...], str]:
+    """Flat columns and JSON of a marking, remembered: identical markings repeat in a sheet."""
+    return _part_columns(m), json.dumps(m.to_json())
+
+
+def _same_value(a: Decimal, b: Decimal) -> bool:
+    return abs(a - b) <= abs(b) * Decimal("1e-9")
+
+
+_VALUE_TOKEN = re.compile(r"\d[\d.,]*\s*(?:[pnuµμm]\s*F?|F)\b|\d+[pnuµμR]\d+", re.IGNORECASE)
+
+
+def _label_value(label: str) -> tuple[str, Decimal] | None:
+    """A capacitance written in a bin label ("10nF", "Box 4n7 C0G"), if it states one."""
+    from stock.units import parse_capacitance
+    for match in _VALUE_TOKEN.finditer(label):
+        token = match.group(0).replace(" ", "")
+        try:
+            return token, parse_capacitance(token, what="label")
+        except (BadValue, ValueError):
+            continue
+    return None
+
+
+@dataclass
+class _Row:
+    """One sheet row on its way into the store."""
+
+    number: int
+    raw: str
+    cells: dict[str, str] = field(default_factory=dict)
+
+
+@dataclass
+class _Existing:
+    id: int
+    on_hand: int | None
+    label: str | None
+    location: str | None
+    notes: str | None
+    minimum: int | None
+    date_code: str | None
+    marking: str | None
+    settled_json: str | None
+
+
+class _SheetIntake:
+    """Stores the rows of one sheet inside the file's transaction."""
+
+    def __init__(self, store: Store, path: Path, raw_sheet: Any, header_map: Any,
+                 import_id: int, seen_keys: dict[str, tuple[str | None, int]],
+                 ids: dict[str, int], progress: Callable[[int], None] | None):
+        self.store = store
+        self.conn = store.db.conn
+        self.path = path
+        self.sheet = raw_sheet
+        self.map = header_map
+        self.import_id = import_id
+        self.seen = seen_keys
+        self.ids = ids
+        self.progress = progress
+        self.stamp = now()
+        self.existing: dict[str, dict[str, _Existing]] = {}
+        self.counts = dict(rows=0, stored=0, quarantined=0, flagged=0, unchanged=0, new_bins=0,
+                           updated_bins=0, count_movements=0, flags_raised=0)
+        self.touched: list[int] = []
+        self._bins: list[tuple] = []
+        self._parts: list[tuple] = []
+        self._ledger: list[tuple] = []
+        self._sources: list[tuple] = []
+        self._flags: list[dict[str, Any]] = []
+        units = getattr(header_map, "units", None) or {}
+        self.units: dict[str, str] = dict(units)
+        self.index = dict(header_map.field_to_index)
+        self.default_cabinet = raw_sheet.sheet if raw_sheet.sheet else path.stem
+        self.headers = self._unique_headers(raw_sheet.headers)
+
+    @staticmethod
+    def _unique_headers(headers: Iterable[Any]) -> list[str]:
+        out: list[str] = []
+        for i, h in enumerate(headers, start=1):
+            name = cell_text(h) or f"column {i}"
+            while name in out:
+                name = f"{name} ({i})"
+            out.append(name)
+        return out
+
+    def _field(self, cells: tuple[Any, ...], name: str) -> str:
+        i = self.index.get(name)
+        if i is None or i >= len(cells):
+            return ""
+        return cell_text(cells[i])
+
+    def _raw_cell(self, cells: tuple[Any, ...], name: str) -> Any:
+        i = self.index.get(name)
+        return None if i is None or i >= len(cells) else cells[i]
+
+    def _existing_for(self, cabinet_key: str) -> dict[str, _Existing]:
+        """Every stored bin of one cabinet, read once (no per-row SELECT)."""
+        found = self.existing.get(cabinet_key)
+        if found is None:
+            lo = cabinet_key + "/"
+            hi = cabinet_key + "0"  # "0" follows "/" in code-point order: the key range of this cabinet
+            found = {}
+            for r in self.conn.execute(
+                    "SELECT b.id, b.bin_key, b.on_hand, b.label, b.location, b.notes, b.minimum,"
+                    " b.date_code, p.marking, p.settled_json FROM bins b"
+                    " LEFT JOIN parts p ON p.bin_id = b.id WHERE b.bin_key >= ? AND b.bin_key < ?",
+                    (lo, hi)):
+                found[r[1]] = _Existing(r[0], r[2], r[3], r[4], r[5], r[6], r[7], r[8], r[9])
+            self.existing[cabinet_key] = found
+        return found
+
+    def run(self) -> None:
+        for raw_row in self.sheet.rows:
+            cells = tuple(raw_row.cells)
+            if all(c is None or (isinstance(c, str) and not c.strip()) for c in cells):
+                continue  # a blank line is not a row
+            self.counts["rows"] += 1
+            self._row(raw_row.number, cells)
+            if len(self._sources) >= BATCH:
+                self._flush()
+            if self.progress and self.counts["rows"] % PROGRESS_EVERY == 0:
+                self.progress(self.counts["rows"])
+        self._flush()
+        if self.progress:
+            self.progress(self.counts["rows"])
+
+    def _raw_json(self, cells: tuple[Any, ...]) -> str:
+        return json.dumps({h: c for h, c in zip(self.headers, cells) if c is not None and c != ""},
+                          default=str, ensure_ascii=False)
+
+    def _next_id(self, table: str) -> int:
+        self.ids[table] += 1
+        return self.ids[table]
+
+    def _quarantine(self, number: int, cells: tuple[Any, ...], kind: str, message: str) -> None:
+        self.counts["quarantined"] += 1
+        reasons = json.dumps([{"kind": kind, "message": message}], ensure_ascii=False)
+        self._sources.append((self._next_id("source_rows"), self.import_id, self.sheet.sheet, number,
+                              self._raw_json(cells), "quarantined", reasons, None))
+
+    def _marking_text(self, cells: tuple[Any, ...]) -> tuple[str, str]:
+        """(marking text to decode, the explicit value text or "")."""
+        pieces = []
+        for name in MARKING_FIELDS:
+            text = self._field(cells, name)
+            if not text:
+                continue
+            if name == "voltage":
+                text = _with_unit(text, self.units.get(name) or "V")
+            elif name == "tolerance":
+                text = _with_unit(text, self.units.get(name) or "%")
+            elif name == "marking":
+                text = _with_unit(text, self.units.get(name))
+            pieces.append(text)
+        value = self._field(cells, "value")
+        if value:
+            value = _with_unit(value, self.units.get("value"))
+        if not self._field(cells, "marking") and not self._field(cells, "colours") and value:
+            return " ".join([value, *pieces]), ""  # the value column is the marking
+        return " ".join(pieces), value
+
+    def _row(self, number: int, cells: tuple[Any, ...]) -> None:
+        try:
+            quantity = read_quantity(self._raw_cell(cells, "quantity"))
+        except ValueError as exc:
+            self._quarantine(number, cells, "bad-quantity", str(exc))
+            return
+        text, value_text = self._marking_text(cells)
+        marking = decode_cached(text) if text else None
+        if marking is None or (marking.capacitance_pf is None
+                               and not any(a.capacitance_pf is not None for a in marking.alternatives)):
+            shown = text or cell_text(next((c for c in cells if c not in (None, "")), ""))
+            self._quarantine(number, cells, "no-capacitance",
+                             f"no capacitance could be read from {shown!r}")
+            return
+        label = self._field(cells, "label")
+        location = self._field(cells, "location")
+        cabinet = self._field(cells, "cabinet") or self.default_cabinet
+        key = bin_key(cabinet, location or label or text)
+        first = self.seen.get(key)
+        if first is not None:
+            where = f"row {first[1]}" + (f" of sheet {first[0]!r}" if first[0] != self.sheet.sheet else "")
+            self._quarantine(number, cells, "duplicate-row",
+                             f"bin {key!r} already came from {where} of this file")
+            return
+        self.seen[key] = (self.sheet.sheet, number)
+
+        marking, extra_flags = self._cross_check(key, text, marking, value_text, label)
+        self._store(number, cells, key, cabinet, label, location or None, text, marking,
+                    extra_flags, quantity)
+
+    def _cross_check(self, key: str, text: str, marking: Marking, value_text: str,
+                     label: str) -> tuple[Marking, list[tuple[str, str, str]]]:
+        """Compare the marking's reading with an explicit value and a label; keep the marking's."""
+        found: list[tuple[str, str, str]] = []  # (kind, message, fingerprint)
+        nominal = marking.capacitance_pf
+        if nominal is None:
+            return marking, found
+        from stock.units import format_capacitance
+        claims: list[tuple[str, str, Decimal]] = []
+        if value_text:
+            other = decode_cached(value_text).capacitance_pf
+            if other is not None:
+                claims.append(("the value column", value_text, other))
+        if label:
+            said = _label_value(label)
+            if said is not None:
+                claims.append(("the label", said[0], said[1]))
+        for where, raw, other in claims:
+            if _same_value(other, nominal):
+                continue
+            message = (f"{where} says {format_capacitance(other)} ({raw!r}), the marking {text!r}"
+                       f" says {format_capacitance(nominal)}; kept the marking's reading")
+            marking = replace(marking, alternatives=marking.alternatives + (
+                Alternative(reason=f"{where} says {raw}", capacitance_pf=other),),
+                flags=marking.flags + (Flag("label-conflict", message),))
+            found.append(("label-conflict", message, f"{key}|label-conflict|{text}|{raw}"))
+        return marking, found
+
+    def _flags_for(self, key: str, text: str, marking: Marking,
+                   extra: list[tuple[str, str, str]], quantity: int | None,
+                   ) -> list[tuple[str, str, str]]:
+        out: list[tuple[str, str, str]] = []
+        seen: dict[str, int] = {}
+        extra_messages = {m for _, m, _ in extra}
+        for f in marking.flags:
+            if f.message in extra_messages:
+                continue
+            n = seen.get(f.kind, 0)
+            seen[f.kind] = n + 1
+            fp = f"{key}|{f.kind}|{text}" + (f"|{n}" if n else "")
+            out.append((f.kind, f.message, fp))
+        out.extend(extra)
+        if quantity is None:
+            out.append(("unknown-quantity", f"bin {key!r} has no count in the sheet (blank is"
+                        " not zero); count it", f"{key}|unknown-quantity"))
+        return out
+
+    def _store(self, number: int, cells: tuple[Any, ...], key: str, cabinet: str, label: str,
+               location: str | None, text: str, marking: Marking,
+               extra: list[tuple[str, str, str]], quantity: int | None) -> None:
+        existing = self._existing_for(normalise(cabinet)).get(key)
+        notes = self._field(cells, "notes") or None
+        date_code = self._field(cells, "date_code") or None
+        try:
+            minimum = read_quantity(self._raw_cell(cells, "minimum"))
+        except ValueError:
+            minimum = None  # a bad minimum is no reason to lose the row; the raw cell is kept
+        package = self._field(cells, "package") or None
+        mounting = self._field(cells, "mounting") or None
+        known = quantity if existing is None or quantity is not None else existing.on_hand
+        flags = self._flags_for(key, text, marking, extra, known)
+        source_id = self._next_id("source_rows")
+        status = "flagged" if flags else "stored"
+        reasons = json.dumps([{"kind": k, "message": m} for k, m, _ in flags], ensure_ascii=False)
+
+        if existing is None:
+            bin_id = self._next_id("bins")
+            columns, decoded = (_stored_form(marking) if not extra else
+                                (_part_columns(marking), json.dumps(marking.to_json())))
+            self._bins.append((bin_id, key, label or None, location, cabinet, notes, minimum,
+                               date_code, quantity, self.stamp, self.stamp))
+            self._parts.append((bin_id, text, *columns, package, mounting, decoded))
+            if quantity is not None:
+                # A new bin's count arrives as one 'import' movement in the same transaction as
+                # the bin row, so on_hand equals the ledger sum from the start.
+                self._ledger.append((bin_id, quantity, f"import:{self.import_id}", self.stamp))
+            self.counts["new_bins"] += 1
+            self.counts["stored"] += 1
+            self.touched.append(bin_id)
+            self._existing_for(normalise(cabinet))[key] = _Existing(
+                bin_id, quantity, label or None, location, notes, minimum, date_code, text, None)
+        else:
+            bin_id = existing.id
+            changed = self._update(existing, label, location, notes, minimum, date_code, text,
+                                   marking, extra, quantity, package, mounting)
+            self.counts["stored" if changed else "unchanged"] += 1
+            if changed:
+                self.counts["updated_bins"] += 1
+                self.touched.append(bin_id)
+        if flags:
+            self.counts["flagged"] += 1
+            for kind, message, fp in flags:
+                self._flags.append(dict(kind=kind, message=message, fingerprint=fp, bin_id=bin_id,
+                                        source_row_id=source_id,
+                                        details={"marking": text, "row": number,
+                                                 "sheet": self.sheet.sheet,
+                                                 "file": self.path.name}))
+        self._sources.append((source_id, self.import_id, self.sheet.sheet, number,
+                              self._raw_json(cells), status, reasons, bin_id))
+
+    def _update(self, old: _Existing, label: str, location: str | None, notes: str | None,
+                minimum: int | None, date_code: str | None, text: str, marking: Marking,
+                extra: list, quantity: int | None, package: str | None,
+                mounting: str | None) -> bool:
+        """Bring a stored bin in line with its edited row; True when anything changed."""
+        changed = False
+        new_label = label or None
+        if (new_label, location, notes, minimum, date_code) != (
+                old.label, old.location, old.notes, old.minimum, old.date_code):
+            self.conn.execute(
+                "UPDATE bins SET label = ?, location = ?, notes = ?, minimum = ?, date_code = ?,"
+                " updated_at = ? WHERE id = ?",
+                (new_label, location, notes, minimum, date_code, self.stamp, old.id))
+            old.label, old.location, old.notes, old.minimum, old.date_code = (
+                new_label, location, notes, minimum, date_code)
+            changed = True
+        if text != old.marking:
+            shown = marking
+            if old.settled_json:
+                # A settled decision outlives re-imports: the flat columns follow it, the new
+                # decoding is kept beside it in decoded_json.
+                from stock.bins import part_marking
+                shown = part_marking({"decoded_json": json.dumps(marking.to_json()),
+                                      "settled_json": old.settled_json})
+            columns = _part_columns(shown)
+            decoded = json.dumps(marking.to_json())
+            if old.marking is None:
+                self.conn.execute(_INSERT_PART, (old.id, text, *columns, package, mounting, decoded))
+            else:
+                self.conn.execute(_UPDATE_PART, (text, *columns, package, mounting, decoded, old.id))
+            old.marking = text
+            changed = True
+        if quantity is not None and quantity != old.on_hand:
+            self.store.set_count(old.id, quantity, "count", ref=f"import:{self.import_id}",
+                                 note=f"count in {self.path.name}")
+            old.on_hand = quantity
+            self.counts["count_movements"] += 1
+            changed = True
+        return changed
+
+    def _flush(self) -> None:
+        conn = self.conn
+        if self._bins:
+            conn.executemany(_INSERT_BIN, self._bins)
+            conn.executemany(_INSERT_PART, self._parts)
+            self._bins.clear()
+            self._parts.clear()
+        if self._ledger:
+            conn.executemany(_INSERT_LEDGER, self._ledger)
+            self._ledger.clear()
+        if self._sources:
+            conn.executemany(_INSERT_SOURCE, self._sources)
+            self._sources.clear()
+        for f in self._flags:
+            if self.store.raise_flag(**f) is not None:
+                self.counts["flags_raised"] += 1
+        self._flags.clear()
+
+
+class _DryRun(Exception):
+    """Raised inside the transaction of a dry run so that nothing is kept."""
+
+
+def file_sha256(path: Path) -> str:
+    digest = hashlib.sha256()
+    with path.open("rb") as fh:
+        for chunk in iter(lambda: fh.read(1 << 20), b""):
+            digest.update(chunk)
+    return digest.hexdigest()
+
+
+def _check_readable(raw_sheet: Any, header_map: Any, path: Path) -> None:
+    if not any(f in header_map.field_to_index for f in READING_FIELDS):
+        found = ", ".join(repr(cell_text(h)) for h in raw_sheet.headers if cell_text(h)) or "none"
+        raise BadSheet(str(path), f"no column carries a value or marking (headers found: {found})",
+                       sheet=raw_sheet.sheet, row=raw_sheet.header_row,
+                       hint="a column such as 'Marking', 'Value' or 'Colours', or --map marking=HEADER")
+
+
+def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
+                overrides: dict[str, str] | None = None, dry_run: bool = False,
+                progress: Callable[[int], None] | None = None) -> ImportReport:
+    """Import one CSV or XLSX file (every sheet, or ``sheet``) in one transaction.
+
+    Args:
+        store: the open store.
+        path: the file.
+        sheet: import only this sheet of a workbook.
+        overrides: ``{field: header}`` from ``--map`` to correct the automatic header mapping.
+        dry_run: do everything, then roll back; the report says what would have changed.
+        progress: called with the number of rows done so far, every few hundred rows.
+
+    Returns:
+        An :class:`ImportReport` with one :class:`SheetReport` per sheet.
+
+    Raises:
+        BadSheet: the file cannot be read, or no column carries a value or marking. The store is
+            unchanged.
+    """
+    from importers.headers import map_headers
+    from importers.sheet import read_sheets
+
+    path = Path(path)
+    sheets = read_sheets(path, sheet)
+    sha = file_sha256(path)
+    reports: list[SheetReport] = []
+    seen: dict[str, tuple[str | None, int]] = {}
+    try:
+        with store.writing():
+            ids = {t: store.one(f"SELECT COALESCE(MAX(id), 0) AS n FROM {t}")["n"]
+                   for t in ("bins", "source_rows")}
+            touched: list[int] = []
+            for raw_sheet in sheets:
+                header_map = map_headers(raw_sheet.headers, vocabulary="bins",
+                                         overrides=overrides or {})
+                _check_readable(raw_sheet, header_map, path)
+                mapping = tuple(header_map.describe())
+                before = store.one(
+                    "SELECT rows FROM imports WHERE sha256 = ? AND sheet IS ? ORDER BY id DESC LIMIT 1",
+                    (sha, raw_sheet.sheet))
+                if before is not None:
+                    reports.append(SheetReport(str(path), raw_sheet.sheet, rows=before["rows"],
+                                               unchanged=before["rows"], same_file=True,
+                                               mapping=mapping))
+                    continue
+                cur = store.db.conn.execute(
+                    "INSERT INTO imports (path, file_name, sha256, sheet, at, mapping_json)"
+                    " VALUES (?, ?, ?, ?, ?, ?)",
+                    (str(path.resolve()), path.name, sha, raw_sheet.sheet, now(),
+                     json.dumps(list(mapping), ensure_ascii=False)))
+                intake = _SheetIntake(store, path, raw_sheet, header_map, cur.lastrowid, seen, ids,
+                                      progress)
+                intake.run()
+                c = intake.counts
+                store.db.conn.execute(
+                    "UPDATE imports SET rows = ?, stored = ?, quarantined = ?, flagged = ?,"
+                    " unchanged = ? WHERE id = ?",
+                    (c["rows"], c["stored"], c["quarantined"], c["flagged"], c["unchanged"],
+                     cur.lastrowid))
+                touched.extend(intake.touched)
+                reports.append(SheetReport(str(path), raw_sheet.sheet, mapping=mapping,
+                                           import_id=None if dry_run else cur.lastrowid, **c))
+            if touched and not dry_run:
+                from stock.grading import refresh_stored_grades
+                refresh_stored_grades(store, touched)
+            if dry_run:
+                raise _DryRun
+    except _DryRun:
+        pass
+    return ImportReport(str(path), tuple(reports), dry_run=dry_run)
+
+
+__all__ = ["ImportReport", "QUARANTINE_FIXES", "SheetReport", "bin_key", "cell_text",
+           "decode_cached", "import_file", "normalise", "read_quantity"]

@@ -1,0 +1,734 @@
+"""Bins that need a human: what each flag means, what would settle it, and the decision kept.
+
+The tool cannot measure a part; the person at the bench can. Every flag names its bin, the
+readings the decoder considered and the one look or measurement that would settle it.
+:func:`settle` records the answer without losing anything: ``parts.marking`` and
+``parts.decoded_json`` keep what the sheet said, ``parts.settled_json`` holds the reading the
+human chose (the flat part columns follow it), the ledger keeps who decided what and when (a
+``settle`` movement of zero parts with a JSON note), and the flag closes for good. A closed flag
+never returns on re-import, because :meth:`~stock.store.Store.raise_flag` ignores a fingerprint
+it has seen. :func:`reopen` undoes a decision, again with a ledger note.
+
+Readings are numbered: 0 is the decoder's own choice, 1…n its alternatives in order.
+
+Stock checks (:func:`raise_stock_flags`) turn state into flags: unknown quantity, below the bin's
+minimum, and aluminium electrolytics older than a shelf-life rule. Duplicates and merging live in
+:mod:`stock.duplicates`.
+
+>>> FLAG_KINDS["ambiguous-code"].settled_by
+'reading'
+>>> flag_kind("no-such-kind").meaning.startswith("a flag kind this version")
+True
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import re
+from collections.abc import Iterable, Mapping
+from dataclasses import dataclass, field, replace
+from datetime import date
+from decimal import Decimal
+from typing import Any, Literal
+
+from stock.decoded import Marking, Tolerance
+from stock.errors import BadValue, NotFound, Refused
+from stock.store import Store, now
+
+SettledBy = Literal["reading", "count", "note"]
+
+
+@dataclass(frozen=True)
+class FlagKind:
+    """One kind of flag: what it means and what would settle it.
+
+    ``settle`` is a template; ``{choices}``, ``{marking}``, ``{label}``, ``{value}``,
+    ``{unparsed}``, ``{bins}``, ``{bin}``, ``{on_hand}``, ``{minimum}``, ``{date_code}`` and
+    ``{age}`` are filled from the flag's bin and readings. ``settled_by`` says which decision
+    closes it: a reading (``--reading``/``--value``/``--marking``), a count, or a note.
+    """
+
+    kind: str
+    meaning: str
+    settle: str
+    settled_by: SettledBy
+
+
+_KINDS: tuple[FlagKind, ...] = (
+    FlagKind("unit-assumed",
+             "a number without a unit was read with the unit a convention assumes",
+             "measure it: {choices}?", "reading"),
+    FlagKind("ambiguous-code",
+             "the code has more than one reading in use (e.g. 47K: 47 pF ±10 % or 47 nF)",
+             "measure it: {choices}?", "reading"),
+    FlagKind("tolerance-by-value",
+             "the tolerance letter means pF or % depending on the value, or the sources differ",
+             "check the maker's series, or measure it: {choices}?", "reading"),
+    FlagKind("disputed-code",
+             "published tables disagree on this code; the majority reading was taken",
+             "check the maker's datasheet: {choices}?", "reading"),
+    FlagKind("spelling-corrected",
+             "the marking was read as a correction of what was typed (O for 0, u for µ ...)",
+             "look at the part: does it say {marking}? (--reading 0 keeps the correction,"
+             " --marking gives what it really says)", "reading"),
+    FlagKind("unreadable",
+             "nothing in the marking could be read as a capacitor value",
+             "look at the part again and give --marking, or measure it and give --value", "reading"),
+    FlagKind("unparsed",
+             "part of the marking was not understood and was kept as written",
+             "look at the part: what do {unparsed} mean? Give --marking with what it says,"
+             " or --reading 0 if the rest is right", "reading"),
+    FlagKind("both-ends",
+             "a colour code reads as a valid value from either end",
+             "check which end the bands start from: {choices}?", "reading"),
+    FlagKind("layout-ambiguous",
+             "the colour dots or bands fit more than one layout (EIA/military mica, 5-band tubular)",
+             "check the layout (arrows, the wide band, the first dot): {choices}?", "reading"),
+    FlagKind("label-conflict",
+             "the bin label or an explicit value column contradicts the decoded marking",
+             "the label says {label}, the code {marking} says {value}: measure it, then --value"
+             " (or --reading 0 if the code is right)", "reading"),
+    FlagKind("duplicate",
+             "the same part (or a probable mistyped copy) sits in several bins",
+             "bins {bins}: `stock merge FROM INTO` moves the stock together; if they really"
+             " differ, `stock settle BIN --flag ID --note why`", "note"),
+    FlagKind("unknown-quantity",
+             "the sheet gave no quantity for this bin (blank is unknown, not zero)",
+             "count the bin: `stock settle {bin} --count N`", "count"),
+    FlagKind("below-minimum",
+             "the bin holds fewer parts than its minimum",
+             "holds {on_hand}, minimum {minimum}: reorder, then `stock settle {bin} --note ...`",
+             "note"),
+    FlagKind("shelf-life",
+             "an aluminium electrolytic older than the shelf-life rule (or with an unreadable date"
+             " code); its oxide may need reforming",
+             "date code {date_code} ({age}): test the leakage current or reform it before use"
+             " (slowly, through a series resistor, following the maker's procedure; it stores"
+             " charge, so discharge it before handling), then `stock settle {bin} --note ...`",
+             "note"),
+)
+
+#: Every flag kind this version knows, by kind (the README table is made from this).
+FLAG_KINDS: Mapping[str, FlagKind] = {k.kind: k for k in _KINDS}
+
+_UNKNOWN_KIND = FlagKind(
+    "?", "a flag kind this version does not document; read its message",
+    "read the message, then `stock settle {bin} --flag ID --note ...`", "note")
+
+
+def flag_kind(kind: str) -> FlagKind:
+    """The documented kind, or a generic entry for a kind this version does not know.
+
+    >>> flag_kind("both-ends").settle.startswith("check which end")
+    True
+    """
+    return FLAG_KINDS.get(kind) or replace(_UNKNOWN_KIND, kind=kind)
+
+
+@dataclass(frozen=True)
+class Reading:
+    """One reading of a marking: number 0 is the decoder's choice, 1…n its alternatives."""
+
+    number: int
+    capacitance_pf: Decimal | None
+    tolerance: Tolerance | None
+    voltage_v: Decimal | None
+    dielectric_code: str | None
+    reason: str
+
+    def describe(self) -> str:
+        """The reading in engineering units, e.g. ``"47 pF ±10 %"``; "no value" when none."""
+        from stock.units import format_capacitance, format_tolerance, format_voltage
+
+        words = [format_capacitance(self.capacitance_pf) if self.capacitance_pf is not None
+                 else "no value"]
+        if self.tolerance is not None:
+            words.append(format_tolerance(self.tolerance))
+        if self.voltage_v is not None:
+            words.append(format_voltage(self.voltage_v, "DC"))
+        if self.dielectric_code:
+            words.append(self.dielectric_code)
+        return " ".join(words)
+
+    def to_json(self) -> dict[str, Any]:
+        return {
+            "number": self.number,
+            "capacitance_pf": None if self.capacitance_pf is None else float(self.capacitance_pf),
+            "tolerance": self.tolerance.to_json() if self.tolerance else None,
+            "voltage_v": None if self.voltage_v is None else float(self.voltage_v),
+            "dielectric": self.dielectric_code,
+            "reason": self.reason,
+            "text": self.describe(),
+        }
+
+
+def readings(marking: Marking) -> tuple[Reading, ...]:
+    """The decoder's reading (number 0) and each alternative, filled in from the chosen reading
+    where the alternative leaves a fact out."""
+    found = [Reading(0, marking.capacitance_pf, marking.tolerance, marking.voltage_v,
+                     marking.dielectric.code if marking.dielectric else None,
+                     "the decoder's reading")]
+    for n, alt in enumerate(marking.alternatives, start=1):
+        picked = pick_reading(marking, n)
+        found.append(Reading(n, picked.capacitance_pf, picked.tolerance, picked.voltage_v,
+                             picked.dielectric.code if picked.dielectric else None, alt.reason))
+    return tuple(found)
+
+
+def pick_reading(marking: Marking, number: int) -> Marking:
+    """The marking as it reads with alternative ``number`` chosen (0 keeps the decoder's choice).
+
+    The alternative's facts replace the chosen ones; facts it leaves out stay as decoded. The
+    result has no alternatives left and loses the flags a reading decision settles.
+
+    Raises:
+        BadValue: no such reading.
+    """
+    if not 0 <= number <= len(marking.alternatives):
+        choices = "0" if not marking.alternatives else f"0 to {len(marking.alternatives)}"
+        raise BadValue("--reading", str(number), f"a reading number {choices} as listed by `stock flags`")
+    chosen = marking
+    if number:
+        alt = marking.alternatives[number - 1]
+        chosen = replace(
+            marking,
+            capacitance_pf=alt.capacitance_pf if alt.capacitance_pf is not None else marking.capacitance_pf,
+            tolerance=alt.tolerance or marking.tolerance,
+            voltage_v=alt.voltage_v if alt.voltage_v is not None else marking.voltage_v,
+            dielectric=alt.dielectric or marking.dielectric)
+    return _decided(chosen)
+
+
+def _decided(marking: Marking) -> Marking:
+    keep = tuple(f for f in marking.flags if flag_kind(f.kind).settled_by != "reading")
+    return replace(marking, alternatives=(), flags=keep)
+
+
+def current_marking(part: Mapping[str, Any]) -> Marking:
+    """The reading in force for a ``parts`` row: the settled one if a human chose, else the decoder's."""
+    text = part.get("settled_json") or part["decoded_json"]
+    return Marking.from_json(json.loads(text))
+
+
+def part_columns(marking: Marking) -> dict[str, Any]:
+    """The flat ``parts`` columns that follow a marking (floats, as SQL stores them)."""
+    def num(v: Decimal | None) -> float | None:
+        return None if v is None else float(v)
+
+    tol, die = marking.tolerance, marking.dielectric
+    return {
+        "capacitance_pf": num(marking.capacitance_pf),
+        "tol_minus": num(tol.minus) if tol else None, "tol_plus": num(tol.plus) if tol else None,
+        "tol_unit": tol.unit if tol else None, "tol_code": tol.code if tol else None,
+        "voltage_v": num(marking.voltage_v), "voltage_kind": marking.voltage_kind,
+        "dielectric_code": die.code if die else None, "family": die.family if die else None,
+        "class": die.klass if die else None,
+        "tempco_ppm_per_k": num(die.tempco_ppm_per_k) if die else None,
+        "tempco_tol_ppm_per_k": num(die.tempco_tol_ppm_per_k) if die else None,
+        "temp_min_c": num(die.temp_min_c) if die else None,
+        "temp_max_c": num(die.temp_max_c) if die else None,
+        "change_minus_pct": num(die.change_minus_pct) if die else None,
+        "change_plus_pct": num(die.change_plus_pct) if die else None,
+        "safety_class": marking.safety_class, "polarity": marking.polarity,
+        "rated_temp_c": num(marking.rated_temp_c),
+    }
+
+
+def reading_summary(marking: Marking) -> dict[str, Any]:
+    """A short JSON record of a reading, as the ledger keeps it."""
+    data = marking.to_json()
+    return {"text": data["text"], "capacitance_pf": data["capacitance_pf"],
+            "tolerance": data["tolerance"], "voltage_v": data["voltage_v"],
+            "dielectric": marking.dielectric.code if marking.dielectric else None,
+            "safety_class": data["safety_class"]}
+
+
+@dataclass(frozen=True)
+class FlagView:
+    """One flag as a person reads it: where, what, the readings and what would settle it."""
+
+    id: int
+    kind: str
+    status: str
+    message: str
+    meaning: str
+    hint: str
+    bin_id: int | None
+    bin_key: str | None
+    location: str | None
+    label: str | None
+    marking: str | None
+    readings: tuple[Reading, ...]
+    details: dict[str, Any]
+    opened_at: str
+    settled_by: SettledBy
+
+    def to_json(self) -> dict[str, Any]:
+        return {
+            "id": self.id, "kind": self.kind, "status": self.status, "message": self.message,
+            "meaning": self.meaning, "settle": self.hint, "settled_by": self.settled_by,
+            "bin": self.bin_key, "bin_id": self.bin_id, "location": self.location,
+            "label": self.label, "marking": self.marking,
+            "readings": [r.to_json() for r in self.readings],
+            "details": self.details, "opened_at": self.opened_at,
+        }
+
+
+class _Blank(dict):
+    def __missing__(self, key: str) -> str:
+        return "?"
+
+
+def _or_list(items: list[str]) -> str:
+    unique = list(dict.fromkeys(items))
+    return unique[0] if len(unique) == 1 else ", ".join(unique[:-1]) + " or " + unique[-1]
+
+
+def _hint(kind: FlagKind, row: Mapping[str, Any], found: tuple[Reading, ...],
+          marking: Marking | None, details: Mapping[str, Any]) -> str:
+    label = details.get("label") or row.get("label")
+    if details.get("label_pf") is not None:
+        from stock.units import format_capacitance
+        label = format_capacitance(Decimal(str(details["label_pf"])))
+    fields = _Blank(
+        choices=_or_list([r.describe() for r in found]) if found else "what value is it",
+        marking=(marking.text if marking else row.get("marking")) or "?",
+        label=label or "?",
+        value=found[0].describe() if found else "?",
+        unparsed=", ".join(repr(u) for u in marking.unparsed) if marking and marking.unparsed else "the rest",
+        bins=", ".join(details.get("bins", [])) or (row.get("bin_key") or "?"),
+        bin=row.get("bin_key") or "BIN",
+        on_hand=row.get("on_hand") if row.get("on_hand") is not None else "?",
+        minimum=row.get("minimum") if row.get("minimum") is not None else "?",
+        date_code=details.get("date_code") or row.get("date_code") or "?",
+        age=details.get("age") or "age unknown",
+    )
+    return kind.settle.format_map(fields)
+
+
+_FLAG_QUERY = """
+SELECT f.id, f.kind, f.status, f.message, f.details_json, f.opened_at, f.bin_id,
+       b.bin_key, b.location, b.label, b.on_hand, b.minimum, b.date_code,
+       p.marking, p.decoded_json, p.settled_json
+FROM flags f LEFT JOIN bins b ON b.id = f.bin_id LEFT JOIN parts p ON p.bin_id = f.bin_id
+"""
+
+
+def _view(row: Mapping[str, Any]) -> FlagView:
+    kind = flag_kind(row["kind"])
+    details = json.loads(row["details_json"] or "{}")
+    marking = Marking.from_json(json.loads(row["decoded_json"])) if row.get("decoded_json") else None
+    found = readings(marking) if marking is not None and kind.settled_by == "reading" else ()
+    return FlagView(
+        id=row["id"], kind=row["kind"], status=row["status"], message=row["message"],
+        meaning=kind.meaning, hint=_hint(kind, row, found, marking, details),
+        bin_id=row["bin_id"], bin_key=row["bin_key"], location=row["location"],
+        label=row["label"], marking=row["marking"], readings=found, details=details,
+        opened_at=row["opened_at"], settled_by=kind.settled_by)
+
+
+def list_flags(store: Store, *, kind: str | None = None, status: str = "open",
+               check: bool = False, today: date | None = None) -> list[FlagView]:
+    """Every flag with the given status (open by default), by bin, then by age.
+
+    Args:
+        kind: only flags of this kind.
+        status: ``"open"`` or ``"settled"``.
+        check: run the stock and duplicate checks first, so their flags are current.
+        today: the date the shelf-life rule counts from (tests pin it).
+    """
+    if status not in ("open", "settled"):
+        raise BadValue("--status", status, "open or settled")
+    if check:
+        from stock.duplicates import raise_duplicate_flags
+
+        raise_stock_flags(store, today=today)
+        raise_duplicate_flags(store)
+    sql = _FLAG_QUERY + " WHERE f.status = ?"
+    params: list[Any] = [status]
+    if kind:
+        sql += " AND f.kind = ?"
+        params.append(kind)
+    sql += " ORDER BY b.bin_key IS NULL, b.bin_key, f.id"
+    return [_view(r) for r in store.rows(sql, params)]
+
+
+def who(by: str | None = None) -> str:
+    """The person deciding: ``--by``, else the login name, else "unknown"."""
+    return by or os.environ.get("USER") or os.environ.get("USERNAME") or "unknown"
+
+
+def ledger_note(store: Store, bin_id: int, kind: str, ref: str, note: dict[str, Any],
+                actor: str) -> int:
+    """A movement of zero parts that records a decision; returns its ledger id.
+
+    Written directly rather than through :meth:`Store.move`, which would turn an unknown
+    quantity (NULL) into 0: a decision about a marking says nothing about how many there are.
+    """
+    cur = store.db.conn.execute(
+        "INSERT INTO ledger (bin_id, delta, kind, ref, note, actor, at) VALUES (?, 0, ?, ?, ?, ?, ?)",
+        (bin_id, kind, ref, json.dumps(note, default=str, ensure_ascii=False), actor, now()))
+    return int(cur.lastrowid)
+
+
+def close_flags(store: Store, flag_ids: Iterable[int], decision: dict[str, Any]) -> None:
+    """Mark flags settled with the decision that settled them (inside a write transaction)."""
+    stamp = now()
+    text = json.dumps(decision, default=str, ensure_ascii=False)
+    for fid in flag_ids:
+        store.db.conn.execute(
+            "UPDATE flags SET status = 'settled', closed_at = ?, decision_json = ? WHERE id = ?",
+            (stamp, text, fid))
+
+
+def _refresh_grades(store: Store, bin_ids: list[int]) -> None:
+    from stock.grading import refresh_stored_grades
+
+    refresh_stored_grades(store, bin_ids)
+
+
+@dataclass(frozen=True)
+class Settlement:
+    """What :func:`settle` or :func:`reopen` did."""
+
+    bin_key: str
+    decision: str
+    closed: tuple[int, ...]
+    reopened: tuple[int, ...] = ()
+    old: dict[str, Any] | None = None
+    new: dict[str, Any] | None = None
+    ledger_id: int | None = None
+    warnings: tuple[str, ...] = field(default_factory=tuple)
+
+    def to_json(self) -> dict[str, Any]:
+        return {"bin": self.bin_key, "decision": self.decision, "closed": list(self.closed),
+                "reopened": list(self.reopened), "old": self.old, "new": self.new,
+                "ledger_id": self.ledger_id, "warnings": list(self.warnings)}
+
+
+def _open_flags_for(store: Store, bin_id: int) -> list[dict[str, Any]]:
+    return store.rows(
+        "SELECT id, kind, details_json FROM flags WHERE status = 'open' AND (bin_id = ?"
+        " OR (kind = 'duplicate' AND EXISTS (SELECT 1 FROM json_each(details_json, '$.bin_ids')"
+        " WHERE value = ?))) ORDER BY id", (bin_id, bin_id))
+
+
+def settle(store: Store, bin_ref: str, *, reading: int | None = None, value: str | Decimal | None = None,
+           marking: str | None = None, count: int | None = None, note: str | None = None,
+           flag_id: int | None = None, by: str | None = None) -> Settlement:
+    """Record a person's decision about a bin, re-decode with it, and close the flags it settles.
+
+    Give at most one of ``reading`` (a number from :func:`readings`), ``value`` (a capacitance,
+    any syntax the decoder reads) or ``marking`` (the marking as it really reads). ``count``
+    settles an unknown quantity with a count movement. With none of these, a ``note`` settles
+    the flags a note settles (duplicate, below-minimum, shelf-life, unknown kinds). ``flag_id``
+    narrows the decision to one flag.
+
+    Raises:
+        NotFound: no such bin, or no such open flag on it.
+        BadValue: an unreadable value or reading number, or two decisions at once.
+        Refused: nothing to settle, or a flag that needs a decision the call did not give.
+    """
+    given = [name for name, v in (("--reading", reading), ("--value", value), ("--marking", marking))
+             if v is not None]
+    if len(given) > 1:
+        raise BadValue(" and ".join(given), "both", "one of --reading, --value or --marking")
+    if count is not None and count < 0:
+        raise BadValue("--count", str(count), "a whole number of parts, 0 or more")
+    actor = who(by)
+    bin_row = store.find_bin(bin_ref)
+    bin_id, key = bin_row["id"], bin_row["bin_key"]
+    part = store.one("SELECT * FROM parts WHERE bin_id = ?", (bin_id,))
+    if given and part is None:
+        raise Refused(f"settle the reading of bin {key}", "it holds no decoded part")
+
+    open_flags = _open_flags_for(store, bin_id)
+    if flag_id is not None:
+        open_flags = [f for f in open_flags if f["id"] == flag_id]
+        if not open_flags:
+            raise NotFound(f"open flag on bin {key} numbered", str(flag_id),
+                           f"a flag id listed by `stock flags` for bin {key}")
+    wanted: set[str] = set()
+    if given:
+        wanted.add("reading")
+    if count is not None:
+        wanted.add("count")
+    if not given and count is None:
+        wanted.add("note")
+    targets = [f for f in open_flags if flag_kind(f["kind"]).settled_by in wanted]
+    if flag_id is not None and not targets:
+        need = flag_kind(open_flags[0]["kind"]).settled_by
+        words = {"reading": "a reading: --reading N (0 keeps the decoder's), --value or --marking",
+                 "count": "a count: --count N", "note": "a --note (or a merge)"}
+        raise Refused(f"settle flag {flag_id} ({open_flags[0]['kind']})", f"it is settled by {words[need]}")
+    if not targets and not given and count is None:
+        pending = ", ".join(f"{f['id']} {f['kind']}" for f in open_flags) or "none"
+        raise Refused(f"settle bin {key}", "nothing to settle with a note alone"
+                      f" (open flags: {pending}); give --reading, --value, --marking or --count")
+
+    decision: dict[str, Any] = {"via": "settle", "bin_id": bin_id, "by": actor, "note": note}
+    old = new = None
+    warnings: list[str] = []
+    chosen: Marking | None = None
+    if given:
+        decoded = Marking.from_json(json.loads(part["decoded_json"]))
+        before = current_marking(part)
+        if reading is not None:
+            if reading == 0 and decoded.capacitance_pf is None:
+                raise Refused(f"keep the decoder's reading of bin {key}",
+                              "it found no value; give --value or --marking")
+            chosen = pick_reading(decoded, reading)
+            decision["decision"] = f"reading {reading}"
+        elif value is not None:
+            pf = value if isinstance(value, Decimal) else _parse_value(str(value))
+            chosen = _decided(replace(before, capacitance_pf=pf))
+            decision["decision"] = f"value {value}"
+        else:
+            from stock.markings import decode
+
+            chosen = decode(str(marking))
+            if chosen.alternatives or any(flag_kind(f.kind).settled_by == "reading" for f in chosen.flags):
+                warnings.append(f"the marking {marking!r} still has doubts"
+                                f" ({', '.join(sorted(chosen.flag_kinds())) or 'alternatives'});"
+                                " recorded as given")
+            if chosen.capacitance_pf is None:
+                raise Refused(f"settle bin {key} with the marking {marking!r}",
+                              "no value can be read from it; give --value")
+            decision["decision"] = f"marking {marking}"
+        old, new = reading_summary(before), reading_summary(chosen)
+        decision["old"], decision["new"] = old, new
+    elif count is not None:
+        decision["decision"] = f"count {count}"
+    else:
+        decision["decision"] = "note"
+
+    ids = [f["id"] for f in targets]
+    decision["flags"] = ids
+    with store.writing():
+        ledger_id = None
+        if chosen is not None:
+            cols = part_columns(chosen)
+            sets = ", ".join(f'"{c}" = ?' for c in cols)
+            store.db.conn.execute(f"UPDATE parts SET {sets}, settled_json = ? WHERE bin_id = ?",
+                                  (*cols.values(), json.dumps(chosen.to_json(), ensure_ascii=False), bin_id))
+        if count is not None:
+            store.set_count(bin_id, count, "count", ref="settle",
+                            note=json.dumps(decision, default=str, ensure_ascii=False))
+            ledger_id = store.one("SELECT MAX(id) AS id FROM ledger WHERE bin_id = ?", (bin_id,))["id"]
+        if chosen is not None or count is None:
+            ledger_id = ledger_note(store, bin_id, "settle", ref="flags:" + ",".join(map(str, ids)),
+                                    note=decision, actor=actor)
+        decision["ledger_id"] = ledger_id
+        close_flags(store, ids, decision)
+        if chosen is not None:
+            _refresh_grades(store, [bin_id])
+    return Settlement(key, decision["decision"], tuple(ids), old=old, new=new,
+                      ledger_id=ledger_id, warnings=tuple(warnings))
+
+
+def _parse_value(text: str) -> Decimal:
+    from stock.units import parse_capacitance
+
+    return parse_capacitance(text, what="--value")
+
+
+def reopen(store: Store, bin_ref: str, *, note: str | None = None, by: str | None = None) -> Settlement:
+    """Undo the decisions on a bin: drop the settled reading and reopen the flags settled on it.
+
+    Flags closed by a merge or by a stock check (no longer true) stay closed.
+
+    Raises:
+        NotFound: no such bin.
+        Refused: nothing on the bin was settled.
+    """
+    actor = who(by)
+    bin_row = store.find_bin(bin_ref)
+    bin_id, key = bin_row["id"], bin_row["bin_key"]
+    part = store.one("SELECT * FROM parts WHERE bin_id = ?", (bin_id,))
+    settled = store.rows(
+        "SELECT id FROM flags WHERE status = 'settled' AND json_extract(decision_json, '$.via') = 'settle'"
+        " AND json_extract(decision_json, '$.bin_id') = ? ORDER BY id", (bin_id,))
+    if (part is None or part["settled_json"] is None) and not settled:
+        raise Refused(f"reopen bin {key}", "nothing on it was settled")
+    ids = [f["id"] for f in settled]
+    record: dict[str, Any] = {"via": "reopen", "by": actor, "note": note, "flags": ids}
+    old = new = None
+    if part is not None and part["settled_json"] is not None:
+        original = Marking.from_json(json.loads(part["decoded_json"]))
+        old, new = reading_summary(current_marking(part)), reading_summary(original)
+        record["old"], record["new"] = old, new
+    with store.writing():
+        if old is not None:
+            cols = part_columns(Marking.from_json(json.loads(part["decoded_json"])))
+            sets = ", ".join(f'"{c}" = ?' for c in cols)
+            store.db.conn.execute(f"UPDATE parts SET {sets}, settled_json = NULL WHERE bin_id = ?",
+                                  (*cols.values(), bin_id))
+        for fid in ids:
+            store.db.conn.execute(
+                "UPDATE flags SET status = 'open', closed_at = NULL, decision_json = NULL WHERE id = ?",
+                (fid,))
+        ledger_id = ledger_note(store, bin_id, "settle", ref="reopen", note=record, actor=actor)
+        if old is not None:
+            _refresh_grades(store, [bin_id])
+    return Settlement(key, "reopen", (), reopened=tuple(ids), old=old, new=new, ledger_id=ledger_id)
+
+
+# Shelf life of aluminium electrolytics stored without voltage: after about two years the oxide
+# may need reforming before full voltage is applied. # common practice, no published source
+# (makers' datasheets state 1-3 years for their own series; check the part's datasheet).
+SHELF_LIFE_YEARS = 2
+SHELF_LIFE_FAMILIES = ("aluminium-electrolytic", "bipolar-electrolytic")
+
+
+@dataclass(frozen=True)
+class DateCode:
+    """A date code read as a date (the first day of its week, month or year) and how it was read."""
+
+    raw: str
+    date: date | None
+    how: str
+
+
+def parse_date_code(raw: str, today: date | None = None) -> DateCode:
+    """Read a YYWW, YYYY-MM or YYYY date code; four digits that fit both take the older date.
+
+    >>> parse_date_code("1832").date
+    datetime.date(2018, 7, 30)
+    >>> parse_date_code("2019-04").date
+    datetime.date(2019, 4, 1)
+    >>> parse_date_code("2012", today=date(2026, 12, 1)).how
+    'read as the year 2012 (it could also be 2020 week 12)'
+    >>> parse_date_code("Q3").date is None
+    True
+    """
+    today = today or date.today()
+    text = raw.strip()
+    m = re.fullmatch(r"(\d{4})[-/.](\d{1,2})", text)
+    if m and 1 <= int(m[2]) <= 12:
+        return DateCode(raw, date(int(m[1]), int(m[2]), 1), f"read as {m[1]}-{int(m[2]):02d}")
+    if re.fullmatch(r"\d{4}", text):
+        yy, ww = int(text[:2]), int(text[2:])
+        year = 2000 + yy if 2000 + yy <= today.year else 1900 + yy
+        week = None
+        if 1 <= ww <= 53:
+            try:
+                week = date.fromisocalendar(year, ww, 1)
+            except ValueError:
+                week = None
+        as_year = date(int(text), 1, 1) if 1950 <= int(text) <= today.year else None
+        if week and as_year:
+            older = min(week, as_year)
+            if older == as_year:
+                return DateCode(raw, as_year, f"read as the year {text} (it could also be {year} week {ww})")
+            return DateCode(raw, week, f"read as {year} week {ww} (it could also be the year {text})")
+        if week:
+            return DateCode(raw, week, f"read as {year} week {ww}")
+        if as_year:
+            return DateCode(raw, as_year, f"read as the year {text}")
+    return DateCode(raw, None, "not understood (expected YYWW, YYYY-MM or YYYY)")
+
+
+def _age(since: date, today: date) -> str:
+    months = (today.year - since.year) * 12 + today.month - since.month
+    return f"about {months // 12} years {months % 12} months old" if months >= 12 else f"{months} months old"
+
+
+@dataclass(frozen=True)
+class FlagRun:
+    """What a check did: flags raised (new), and flags closed because they are no longer true."""
+
+    raised: int
+    closed: int
+
+
+def sync_flags(store: Store, kinds: Iterable[str], wanted: list[dict[str, Any]],
+               reason: str) -> FlagRun:
+    """Raise the wanted flags and close open flags of these kinds that are no longer wanted.
+
+    Each wanted flag is a dict of :meth:`Store.raise_flag` arguments. A flag a person settled is
+    not raised again (its fingerprint is known); an open one whose condition has gone is closed
+    with a decision saying so.
+    """
+    kinds = tuple(kinds)
+    prints = {w["fingerprint"] for w in wanted}
+    raised = closed = 0
+    with store.writing():
+        for w in wanted:
+            if store.raise_flag(**w) is not None:
+                raised += 1
+        marks = ",".join("?" * len(kinds))
+        stale = [r["id"] for r in store.rows(
+            f"SELECT id, fingerprint FROM flags WHERE status = 'open' AND kind IN ({marks})", kinds)
+            if r["fingerprint"] not in prints]
+        close_flags(store, stale, {"via": "check", "by": "stock", "note": reason})
+        closed = len(stale)
+    return FlagRun(raised, closed)
+
+
+def _below_since(store: Store) -> dict[int, int | None]:
+    """For each bin below its minimum, the ledger id where it last went below (None: always was)."""
+    rows = store.rows("""
+        WITH run AS (SELECT bin_id, id, SUM(delta) OVER (PARTITION BY bin_id ORDER BY id) AS total
+                     FROM ledger)
+        SELECT b.id AS bin_id,
+               (SELECT MIN(r.id) FROM run r WHERE r.bin_id = b.id AND r.id >
+                   COALESCE((SELECT MAX(r2.id) FROM run r2 WHERE r2.bin_id = b.id
+                             AND r2.total >= b.minimum), 0)) AS since
+        FROM bins b WHERE b.minimum IS NOT NULL AND b.on_hand IS NOT NULL AND b.on_hand < b.minimum
+    """)
+    return {r["bin_id"]: r["since"] for r in rows}
+
+
+def raise_stock_flags(store: Store, *, today: date | None = None) -> FlagRun:
+    """Flag unknown quantities, bins below their minimum and electrolytics past their shelf life.
+
+    Open flags whose condition no longer holds (the bin was counted, refilled, restocked with a
+    newer date code) are closed with a note saying so.
+    """
+    today = today or date.today()
+    wanted: list[dict[str, Any]] = []
+    for b in store.rows("SELECT id, bin_key FROM bins WHERE on_hand IS NULL ORDER BY id"):
+        wanted.append(dict(kind="unknown-quantity", bin_id=b["id"],
+                           fingerprint=f"unknown-quantity|{b['bin_key']}",
+                           message=f"bin {b['bin_key']}: the quantity is unknown"))
+    since = _below_since(store)
+    for b in store.rows("SELECT id, bin_key, on_hand, minimum FROM bins WHERE minimum IS NOT NULL"
+                        " AND on_hand IS NOT NULL AND on_hand < minimum ORDER BY id"):
+        episode = since.get(b["id"]) or "start"
+        wanted.append(dict(
+            kind="below-minimum", bin_id=b["id"],
+            fingerprint=f"below-minimum|{b['bin_key']}|{b['minimum']}|{episode}",
+            message=f"bin {b['bin_key']} holds {b['on_hand']}, below its minimum of {b['minimum']}",
+            details={"on_hand": b["on_hand"], "minimum": b["minimum"]}))
+    families = ",".join("?" * len(SHELF_LIFE_FAMILIES))
+    for b in store.rows(
+            f"SELECT b.id, b.bin_key, b.date_code, p.family FROM bins b JOIN parts p ON p.bin_id = b.id"
+            f" WHERE b.date_code IS NOT NULL AND TRIM(b.date_code) != '' AND p.family IN ({families})"
+            " ORDER BY b.id", SHELF_LIFE_FAMILIES):
+        code = parse_date_code(b["date_code"], today)
+        if code.date is None:
+            message = f"bin {b['bin_key']}: date code {b['date_code']!r} {code.how}; its age is unknown"
+            age = "age unknown"
+        else:
+            limit = date(code.date.year + SHELF_LIFE_YEARS, code.date.month, 1)
+            if today < limit:
+                continue
+            age = _age(code.date, today)
+            message = (f"bin {b['bin_key']}: {b['family']} with date code {b['date_code']}"
+                       f" ({code.how}) is {age}, past the {SHELF_LIFE_YEARS}-year shelf-life rule")
+        wanted.append(dict(kind="shelf-life", bin_id=b["id"],
+                           fingerprint=f"shelf-life|{b['bin_key']}|{b['date_code']}",
+                           message=message,
+                           details={"date_code": b["date_code"], "read": code.how, "age": age,
+                                    "rule_years": SHELF_LIFE_YEARS}))
+    return sync_flags(store, ("unknown-quantity", "below-minimum", "shelf-life"), wanted,
+                      "no longer true at the last stock check")
+
+
+__all__ = [
+    "FLAG_KINDS", "DateCode", "FlagKind", "FlagRun", "FlagView", "Reading", "SHELF_LIFE_YEARS",
+    "Settlement", "close_flags", "current_marking", "flag_kind", "ledger_note", "list_flags",
+    "parse_date_code", "part_columns", "pick_reading", "raise_stock_flags", "readings",
+    "reading_summary", "reopen", "settle", "sync_flags", "who",
+]
