@@ -9,10 +9,10 @@ alone gets about two headers in three right; the alias table is what makes mappi
 The aliases are common practice in shop sheets and BOM exports, no published source. Two trade
 spellings are old but still met: ``MFD`` meant µF and ``MMFD`` (micro-micro-farad) meant pF.
 
->>> hm = map_headers(("Bin #", "Cap.", "Value (pF)", "Qty on hand", "Supplier"))
+>>> hm = map_headers(("Bin #", "Value (pF)", "Qty on hand", "Supplier"))
 >>> hm.field_to_index["location"], hm.field_to_index["quantity"], hm.units
-(0, 3, {'value': 'pF'})
->>> hm.describe()[2]
+(0, 2, {'value': 'pF'})
+>>> hm.describe()[1]
 "'Value (pF)' → value (alias, unit pF)"
 """
 
@@ -28,14 +28,14 @@ Vocabulary = Literal["bins", "bom"]
 
 FUZZY_CUTOFF = 85          # WRatio score a fuzzy match must reach (libraries.md: cutoff 85)
 AMBIGUOUS_MARGIN = 3.0     # two fields scoring within this of each other: ask the user instead
-MIN_PLAIN_RATIO = 60       # WRatio rewards containment ("part" in "supplier part number"); demand likeness too
+MIN_PLAIN_RATIO = 70       # WRatio rewards containment ("part" in "supplier part number"); demand likeness too
 MIN_FUZZY_LENGTH = 3       # very short aliases ("v", "c", "no") match exactly or not at all
 
 # Aliases per field; common practice in shop sheets, no published source. The field's own name
 # (with "_" as a space) is always an alias. Keep one spelling per line group, lower case.
 BIN_ALIASES: dict[str, tuple[str, ...]] = {
     "marking": ("marking", "markings", "mark", "code", "marking code", "marking/code", "part marking",
-                "printed code", "body code", "code on part", "text on part", "print", "stamp",
+                "printed code", "body code", "code on part", "text on part", "marking text",
                 "cap code"),
     "value": ("value", "val", "capacitance", "cap", "capacity", "c", "nominal", "nominal value",
               "cap value", "farads", "capacitor value"),
@@ -62,8 +62,8 @@ BIN_ALIASES: dict[str, tuple[str, ...]] = {
                 "smd size"),
     "mounting": ("mounting", "mount", "smd/tht", "smd tht", "tht/smd", "through hole", "leads",
                  "lead style", "style", "axial/radial", "radial/axial", "termination"),
-    "date_code": ("date code", "datecode", "date", "dc", "lot", "batch", "year", "mfg date",
-                  "manufactured", "date of manufacture"),
+    "date_code": ("date code", "datecode", "date", "dc", "lot", "batch", "year", "mfg date"),
+    # (no "manufactured" / "date of manufacture": they fuzzily catch a "Manufacturer" column)
     "safety_class": ("safety class", "safety", "safety rating", "x/y class", "xy class", "x/y",
                      "mains class", "iec class"),
     "polarity": ("polarity", "polarised", "polarized", "polar", "pol", "+ lead", "bipolar"),
@@ -108,6 +108,7 @@ _UNIT_WORDS: dict[str, str] = {
 _UNIT_RE = re.compile(r"(?<![0-9a-zµμ])(" + "|".join(sorted(map(re.escape, _UNIT_WORDS), key=len, reverse=True))
                       + r")(?![0-9a-z])")
 _NON_WORD = re.compile(r"[^0-9a-zµμ°#+/]+")
+_BRACKETED = re.compile(r"[(\[{][^)\]}]*[)\]}]")
 SYNTHETIC_HEADER = re.compile(r"^column \d+( \(\d+\))?$")  # made by the readers for blank headers
 
 
@@ -200,16 +201,19 @@ def _guess(header: str, index: Mapping[str, str]) -> Guess:
         return Guess("value", 100.0, "alias", unit)      # a bare "uF" or "(pF)" column holds values
     if text in index:
         return Guess(index[text], 100.0, "alias", unit)
-    if text.replace(" ", "") in index:                    # "date code" typed "datecode", "bin#"
-        return Guess(index[text.replace(" ", "")], 100.0, "alias", unit)
+    unbracketed = split_unit(_BRACKETED.sub(" ", str(header)))[0]     # "Qty (pcs)" → "qty"
+    for variant in (text.replace("/", " "), text.replace(" ", ""), unbracketed):   # "cap/code", "bin#"
+        if variant in index:
+            return Guess(index[variant], 100.0, "alias", unit)
     if len(text) < MIN_FUZZY_LENGTH:
         return Guess(None, 0.0, "none", unit)
-    choices = [a for a in index if len(a) >= MIN_FUZZY_LENGTH]
+    choices = _fuzzy_choices(index)
     best: dict[str, float] = {}
-    for alias, score, _ in process.extract(text, choices, scorer=fuzz.WRatio, limit=None,
+    # Plain ratio first: it is the cheap filter, and a WRatio match must pass it anyway.
+    alike = [a for a, _, _ in process.extract(text, choices, scorer=fuzz.ratio, limit=None,
+                                              score_cutoff=MIN_PLAIN_RATIO)]
+    for alias, score, _ in process.extract(text, alike, scorer=fuzz.WRatio, limit=None,
                                            score_cutoff=FUZZY_CUTOFF):
-        if fuzz.ratio(text, alias) < MIN_PLAIN_RATIO:
-            continue
         name = index[alias]
         best[name] = max(best.get(name, 0.0), score)
     if not best:
@@ -220,6 +224,16 @@ def _guess(header: str, index: Mapping[str, str]) -> Guess:
     if rivals:
         return Guess(None, round(top_score, 1), "ambiguous", unit, (top_field, *rivals))
     return Guess(top_field, round(top_score, 1), "fuzzy", unit)
+
+
+_CHOICES: dict[int, list[str]] = {}
+
+
+def _fuzzy_choices(index: Mapping[str, str]) -> list[str]:
+    key = id(index)
+    if key not in _CHOICES:
+        _CHOICES[key] = [a for a in index if len(a) >= MIN_FUZZY_LENGTH]
+    return _CHOICES[key]
 
 
 def header_row_score(cells: Sequence[Any], limit: int = 200) -> int:

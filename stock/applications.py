@@ -68,8 +68,8 @@ DEFAULT_TABLE: dict[str, dict[str, Any]] = {
     },
     "timing": {
         "description": "RC timers, integrators",
-        "drift_fit_pct": "3", "drift_marginal_pct": "8",
-        "total_fit_pct": "10", "total_marginal_pct": "25",
+        "drift_fit_pct": "4", "drift_marginal_pct": "10",     # tantalum over 0…50 °C ≈ 3.1 %: fit
+        "total_fit_pct": "15", "total_marginal_pct": "30",     # a ±10 % film part is fit
         "sides": "both",
         "kinds": {"ceramic-1": "fit", "ceramic-2": "marginal", "polystyrene": "fit",
                   "polypropylene": "fit", "polycarbonate": "fit", "ptfe": "fit", "mica": "fit",
@@ -127,9 +127,10 @@ DEFAULT_TABLE: dict[str, dict[str, Any]] = {
     },
     "mains": {
         "description": "across the line or line to earth (X/Y safety class required)",
-        "drift_fit_pct": "60", "drift_marginal_pct": "95",
-        "total_fit_pct": "70", "total_marginal_pct": "95",
-        "sides": "both",
+        # the value hardly matters across the mains: the safety class and the AC rating decide
+        "drift_fit_pct": "100", "drift_marginal_pct": "100",
+        "total_fit_pct": "100", "total_marginal_pct": "100",
+        "sides": "loss",
         "kinds": {"ceramic-1": "fit", "ceramic-2": "fit", **{f: "fit" for f in _FILMS},
                   "paper": "fit", "mica": "fit", "glass": "fit"},
         "polarised": "unfit",      # mains is AC

@@ -220,57 +220,284 @@ def _quantity(text: str) -> int:
     return int(number)
 
 
+class Unreadable(StockError, ValueError):
+    """A requirement cell that does not read; ``column`` is the field name."""
+
+    def __init__(self, column: str, raw: str, reason: str):
+        super().__init__(f"{column}: {reason}")
+        self.column, self.raw, self.reason = column, raw, reason
+
+
+# Words BOMs use for the job a part does, mapped onto grading's applications
+# (common practice, no published source).
+APPLICATION_WORDS: dict[str, str] = {
+    "tank": "tuned", "resonant": "tuned", "rf": "tuned", "oscillator": "tuned",
+    "timer": "timing", "rc": "timing",
+    "coupling": "signal", "audio": "signal", "filter": "signal",
+    "decoupling": "bypass", "decouple": "bypass",
+    "reservoir": "bulk", "smoothing": "bulk", "storage": "bulk",
+    "safety": "mains", "line": "mains", "emi": "mains",
+}
+# Decoder doubts that make a BOM value unusable for planning (a guess would pick parts).
+DOUBTFUL_FLAGS = ("ambiguous-code", "disputed-code", "unparsed", "unreadable")
+# Families whose parts have a polarity (from memory of maker datasheets).
+POLARISED_FAMILIES = ("tantalum", "tantalum-polymer", "aluminium-electrolytic", "double-layer")
+_POLAR_WORDS = re.compile(r"\b(polari[sz]ed|electrolytic|elko|elco|tantalum|tant)\b", re.IGNORECASE)
+
+
+def _application(text: str) -> str:
+    from stock.grading import APPLICATIONS
+
+    word = text.strip().lower()
+    word = APPLICATION_WORDS.get(word, word)
+    if word not in APPLICATIONS:
+        raise Unreadable("application", text, f"unknown application {text!r} (expected one of "
+                         f"{', '.join(APPLICATIONS)})")
+    return word
+
+
+def _dielectric_token(text: str) -> Dielectric | None:
+    from stock.ceramic_codes import decode_dielectric
+    from stock.families import decode_family
+
+    return decode_dielectric(text.strip()) or decode_family(text.strip())
+
+
+def _tolerance_pct(text: str, capacitance_pf: Decimal) -> Decimal:
+    from stock.units import parse_percent
+
+    cleaned = text.replace("±", "").replace("+/-", "").strip()
+    absolute = re.fullmatch(r"(\d+(?:\.\d+)?)\s*pF", cleaned, re.IGNORECASE)
+    if absolute:
+        return Decimal(absolute.group(1)) * 100 / capacitance_pf
+    try:
+        return parse_percent(cleaned, "tolerance")
+    except BadValue:
+        pass
+    from stock.markings import decode
+
+    # A bare tolerance letter (J, K, M ...): read it the way a marking's letter is read.
+    if re.fullmatch(r"[A-Za-z]", cleaned):
+        marking = decode(f"104{cleaned.upper()}")
+        tol = marking.tolerance.as_percent(capacitance_pf) if marking.tolerance else None
+        if tol is not None:
+            return max(tol)
+    raise Unreadable("tolerance", text, f"cannot read tolerance {text!r} (expected ±5 %, 10%, "
+                     "±0.25 pF or a letter code such as J or K)")
+
+
+def read_requirement(value_text: str, marking_text: str, columns: dict[str, str],
+                     notes: str = "") -> dict[str, Any]:
+    """The requirement fields of a capacitor line, from its value/marking and other columns.
+
+    Returns a dict of :class:`BomLine` field values. The value column reads as a user value first
+    (``100n``, ``4n7``, ``0.1uF``), then as a marking (``104K 100V``, ``2u2 50V X7R``), whose
+    tolerance, voltage, dielectric and safety class count unless a column says otherwise.
+
+    Raises:
+        Unreadable: a cell cannot be read; ``column`` names the field.
+
+    >>> r = read_requirement("150p", "", {"tolerance": "5%", "voltage": "100V", "dielectric": "NP0"})
+    >>> r["capacitance_pf"], r["tol_pct"], r["voltage_v"], r["dielectric"].code
+    (Decimal('150'), Decimal('5'), Decimal('100'), 'NP0')
+    """
+    from stock.markings import decode
+    from stock.units import parse_capacitance, parse_voltage
+
+    out: dict[str, Any] = {}
+    remarks: list[str] = []
+    marking = None
+    capacitance: Decimal | None = None
+    first_failure: Unreadable | None = None
+    for text, column in ((value_text, "value"), (marking_text, "marking")):
+        if not text:
+            continue
+        decoded = decode(text)
+        doubt = next((f for f in decoded.flags if f.kind in DOUBTFUL_FLAGS), None)
+        if doubt is not None:
+            # A plan built on a guessed value could pull the wrong part: ask for a clear one.
+            raise Unreadable(column, text, f"{doubt.message}; write the value with its unit"
+                             " (150p, 4n7, 0.1u)")
+        try:
+            value = parse_capacitance(text, what=column)
+        except BadValue as exc:
+            value = decoded.capacitance_pf
+            if value is None:
+                first_failure = first_failure or Unreadable(column, text, str(exc))
+                continue
+            remarks.extend(f.message for f in decoded.flags)
+        if capacitance is not None and value != capacitance:
+            from stock.units import format_capacitance
+
+            raise Unreadable(column, text, f"marking {text!r} reads {format_capacitance(value)},"
+                             f" the value says {format_capacitance(capacitance)}")
+        capacitance = capacitance if capacitance is not None else value
+        if marking is None or column == "marking":
+            marking = decoded
+    if capacitance is None:
+        raise first_failure or Unreadable("value", value_text, "no value or marking given")
+    if capacitance <= 0:
+        raise Unreadable("value", value_text, "a capacitance must be more than zero")
+    out["capacitance_pf"] = capacitance
+    if marking is not None:
+        if marking.tolerance is not None:
+            tol = marking.tolerance.as_percent(capacitance)
+            out["tol_pct"] = max(tol) if tol else None
+        out["voltage_v"] = marking.voltage_v
+        out["voltage_kind"] = marking.voltage_kind if marking.voltage_v is not None else None
+        out["dielectric"] = marking.dielectric
+        out["safety_class"] = marking.safety_class
+        out["polarised"] = marking.polarity is not None
+    if columns.get("tolerance"):
+        out["tol_pct"] = _tolerance_pct(columns["tolerance"], capacitance)
+    if columns.get("voltage"):
+        text = columns["voltage"]
+        try:
+            out["voltage_v"] = parse_voltage(text, "voltage")
+        except BadValue as exc:
+            raise Unreadable("voltage", text, f"cannot read voltage {text!r} (expected 50V,"
+                             " 250 V AC, 1kV)") from exc
+        out["voltage_kind"] = "AC" if re.search(r"AC|~|VAC", text, re.IGNORECASE) else "DC"
+    for column in ("dielectric",):
+        text = columns.get(column, "")
+        if not text:
+            continue
+        for token in re.split(r"[,;/\s]+", text):
+            if not token:
+                continue
+            safety = SAFETY_CLASS_RE.fullmatch(token)
+            if safety:
+                out["safety_class"] = safety.group(1).upper()
+                continue
+            dielectric = _dielectric_token(token)
+            if dielectric is not None:
+                out["dielectric"] = dielectric
+                continue
+            if _POLAR_WORDS.fullmatch(token):
+                out["polarised"] = True
+                continue
+            try:
+                window = _tempco_window(token)
+            except BadValue as exc:
+                raise Unreadable(column, text, f"cannot read {token!r} as a dielectric, tempco or"
+                                 " safety class (expected C0G, X7R, N750, 0±30, polypropylene,"
+                                 " X2 ...)") from exc
+            out["tempco_min"], out["tempco_max"] = window
+    if columns.get("tempco"):
+        try:
+            out["tempco_min"], out["tempco_max"] = _tempco_window(columns["tempco"])
+        except BadValue as exc:
+            raise Unreadable("tempco", columns["tempco"], str(exc)) from exc
+    dielectric = out.get("dielectric")
+    if (dielectric is not None and dielectric.klass == 1 and "tempco_min" not in out
+            and dielectric.tempco_ppm_per_k is not None and dielectric.tempco_tol_ppm_per_k is not None):
+        out["tempco_min"] = dielectric.tempco_ppm_per_k - dielectric.tempco_tol_ppm_per_k
+        out["tempco_max"] = dielectric.tempco_ppm_per_k + dielectric.tempco_tol_ppm_per_k
+    if dielectric is not None and dielectric.family in POLARISED_FAMILIES:
+        out["polarised"] = True
+    if _POLAR_WORDS.search(f"{value_text} {notes}") and not (dielectric and dielectric.family in
+                                                             ("bipolar-electrolytic",)):
+        out["polarised"] = True
+    if columns.get("application"):
+        out["application"] = _application(columns["application"])
+    if out.get("safety_class") and out.get("application") in (None, "mains"):
+        out["application"] = "mains"
+    elif out.get("safety_class"):
+        raise Unreadable("application", columns.get("application", ""),
+                         f"a {out['safety_class']} safety part is a mains part, not "
+                         f"{out['application']!r}")
+    if out.get("application") == "mains" and not out.get("safety_class"):
+        raise Unreadable("application", columns.get("application", "mains"),
+                         "a mains line must name its safety class (X1, X2, Y1, Y2 ...): the class"
+                         " decides which parts may go there")
+    out["remarks"] = tuple(remarks)
+    return {k: v for k, v in out.items() if v is not None}
+
+
+def _tempco_window(text: str) -> tuple[Decimal, Decimal]:
+    from stock.search import parse_tempco_window
+
+    return parse_tempco_window(text)
+
+
 class _LineReader:
     """Turns the cells of one row into a :class:`BomLine` (one object per BOM, holding the map)."""
 
-    def __init__(self, field_to_index: dict[str, int], headers: tuple[str, ...]):
+    def __init__(self, field_to_index: dict[str, int], headers: tuple[str, ...],
+                 units: dict[str, str]):
         self.index = field_to_index
         self.headers = headers
+        self.units = units
 
     def header(self, name: str) -> str | None:
         i = self.index.get(name)
         return self.headers[i] if i is not None and i < len(self.headers) else None
 
-    def cell(self, cells: tuple[Any, ...], *names: str) -> tuple[str, str | None]:
-        for name in names:
-            i = self.index.get(name)
-            if i is not None and i < len(cells):
-                text = _cell_text(cells[i])
-                if text:
-                    return text, name
-        return "", None
+    def cell(self, cells: tuple[Any, ...], name: str) -> str:
+        i = self.index.get(name)
+        return _cell_text(cells[i]) if i is not None and i < len(cells) else ""
+
+    def value(self, cells: tuple[Any, ...], name: str) -> str:
+        """A value cell, with the unit its header names ("Value (nF)") put after a bare number."""
+        text = self.cell(cells, name)
+        unit = self.units.get(name)
+        if text and unit and re.fullmatch(r"\d+(?:[.,]\d+)?", text):
+            text += unit.replace("µ", "u")
+        return text
 
     def read(self, number: int, cells: tuple[Any, ...]) -> BomLine | None:
-        refs_text, _ = self.cell(cells, "refs")
-        qty_text, _ = self.cell(cells, "qty")
-        value_text, value_col = self.cell(cells, "value", "marking")
-        marking_text, marking_col = self.cell(cells, "marking")
-        kind_text, _ = self.cell(cells, "kind", "description")
-        notes, _ = self.cell(cells, "notes")
-        if not (refs_text or qty_text or value_text or kind_text or notes):
+        refs_text = self.cell(cells, "refs")
+        qty_text = self.cell(cells, "qty")
+        value_text = self.value(cells, "value")
+        marking_text = self.value(cells, "marking")
+        kind_text = self.cell(cells, "part_type")
+        notes = self.cell(cells, "notes")
+        if not (refs_text or qty_text or value_text or marking_text or kind_text or notes):
             return None                     # an empty row carries nothing to lose
+        shown = value_text or marking_text
         refs = expand_refs(refs_text)
-        kind = part_kind(refs, value_text, kind_text if self.index.get("kind") is not None else "")
-        if kind in ("unknown", "mixed") and self.index.get("description") is not None:
-            kind = part_kind((), value_text, kind_text) if kind_text else kind
+        kind = part_kind(refs, shown, kind_text)
+        if kind == "unknown" and notes:     # "Description: ceramic capacitor" in the notes column
+            kind = "capacitor" if any(w in notes.lower() for w in CAPACITOR_KIND_WORDS) else kind
         try:
             qty = _quantity(qty_text) if qty_text else len(refs)
         except ValueError as exc:
-            return BomLine(number, refs, len(refs), value_text, kind == "capacitor", kind,
-                           notes=notes, problem=BomProblem(number, "qty", qty_text, str(exc)))
+            return BomLine(number, refs, len(refs), shown, kind == "capacitor", kind,
+                           notes=notes, problem=BomProblem(number, self.header("qty"), qty_text,
+                                                           str(exc)))
         if kind != "capacitor":
-            return BomLine(number, refs, qty, value_text or marking_text, False, kind, notes=notes)
-        columns = {name: self.cell(cells, name)[0] for name in
-                   ("tolerance", "voltage", "dielectric", "tempco", "application", "safety")}
-        names = {name: self.header(name) for name in ("value", "marking", *columns)}
+            return BomLine(number, refs, qty, shown, False, kind, notes=notes)
+        if qty == 0 and not refs:
+            return BomLine(number, refs, qty, shown, True, kind, notes=notes,
+                           problem=BomProblem(number, self.header("qty"), qty_text,
+                                              "no quantity and no designators"))
+        columns = {name: self.cell(cells, name) for name in
+                   ("tolerance", "voltage", "dielectric", "tempco", "application")}
         try:
-            need = read_requirement(value_text, marking_text if marking_col != value_col else "",
-                                    columns, notes)
+            need = read_requirement(value_text, marking_text, columns, notes)
         except Unreadable as exc:
-            return BomLine(number, refs, qty, value_text, True, "capacitor", notes=notes,
-                           problem=BomProblem(number, names.get(exc.column) or exc.column,
+            return BomLine(number, refs, qty, shown, True, "capacitor", notes=notes,
+                           problem=BomProblem(number, self.header(exc.column) or exc.column,
                                               exc.raw, exc.reason))
-        return BomLine(number, refs, qty, value_text, True, "capacitor", notes=notes, **need)
+        return BomLine(number, refs, qty, shown, True, "capacitor", notes=notes, **need)
+
+
+def parse_mappings(pairs: Iterable[str]) -> dict[str, str]:
+    """``--map FIELD=HEADER`` options as a dict; ``FIELD=`` leaves a field unmapped.
+
+    Raises:
+        BadValue: an item is not FIELD=HEADER.
+
+    >>> parse_mappings(["value=Cap.", "notes="])
+    {'value': 'Cap.', 'notes': ''}
+    """
+    out: dict[str, str] = {}
+    for pair in pairs:
+        name, sep, header = pair.partition("=")
+        if not sep or not name.strip():
+            raise BadValue("--map", pair, 'FIELD=HEADER, e.g. value="Cap." or refs=Designator')
+        out[name.strip()] = header.strip()
+    return out
 
 
 def read_bom(path: str | Path, *, sheet: str | None = None,
@@ -280,7 +507,7 @@ def read_bom(path: str | Path, *, sheet: str | None = None,
     Args:
         path: the BOM file.
         sheet: the sheet of a workbook to read (default: the first).
-        overrides: header → field mappings that override the fuzzy header match.
+        overrides: field → header mappings (``--map FIELD=HEADER``) that win over the guess.
 
     Raises:
         BadSheet: the file cannot be read, or no column holds a value or marking.
@@ -302,7 +529,7 @@ def read_bom(path: str | Path, *, sheet: str | None = None,
         raise BadSheet(raw.file, "no column holds the designators or a quantity", sheet=raw.sheet,
                        row=raw.header_row,
                        hint="a header such as Designator, Refs, Qty or Quantity")
-    reader = _LineReader(index, tuple(raw.headers))
+    reader = _LineReader(index, tuple(raw.headers), dict(mapping.units))
     lines: list[BomLine] = []
     for row in raw.rows:
         try:
@@ -316,4 +543,5 @@ def read_bom(path: str | Path, *, sheet: str | None = None,
                header_notes=tuple(mapping.describe()))
 
 
-__all__ = ["Bom", "BomLine", "BomProblem", "REF_KINDS", "expand_refs", "part_kind", "read_bom"]
+__all__ = ["Bom", "BomLine", "BomProblem", "REF_KINDS", "Unreadable", "expand_refs", "parse_mappings",
+           "part_kind", "read_bom", "read_requirement"]

@@ -25,8 +25,13 @@ Decimal('-300')
 
 from __future__ import annotations
 
+import bisect
+import heapq
+import math
+from collections.abc import Iterable
+from dataclasses import dataclass
 from decimal import Decimal
-from typing import Literal
+from typing import Literal, NamedTuple
 
 PairKind = Literal["parallel", "series"]
 PAIR_KINDS: tuple[PairKind, ...] = ("parallel", "series")
@@ -223,7 +228,204 @@ def series_complement(target: Decimal, c1: Decimal) -> Decimal | None:
     return c1 * target / (c1 - target)
 
 
-__all__ = ["PAIR_KINDS", "PairKind", "band", "pair_bounds", "pair_tempco", "pair_tempco_spread",
-           "pair_tolerance_pct", "pair_value", "pair_voltage_rating", "parallel_complement",
-           "parallel_tempco", "parallel_value", "part_voltages", "series_complement", "series_tempco",
-           "series_value", "series_voltage_split", "worst_deviation_pct"]
+class PairItem(NamedTuple):
+    """One part as the pair index sees it: floats, for a fast first pass re-checked exactly later.
+
+    Value first, so plain tuples of the same layout sort by value, then key.
+
+    ``tol_minus``/``tol_plus`` are % magnitudes (None when not marked), ``alpha``/``alpha_tol`` ppm/K
+    (``alpha`` None when the part has no linear tempco), ``volts`` the rating (None when not marked),
+    ``double`` whether the same bin can give both parts of a pair.
+    """
+
+    c: float
+    key: int
+    tol_minus: float | None = None
+    tol_plus: float | None = None
+    alpha: float | None = None
+    alpha_tol: float = 0.0
+    volts: float | None = None
+    double: bool = False
+
+
+@dataclass(frozen=True)
+class PairQuery:
+    """What a proposed pair must meet: nominal inside [lo, hi] and, optionally, more."""
+
+    kind: PairKind
+    target: float
+    lo: float
+    hi: float
+    worst_case: bool = False        # the tolerance bands' corners must stay inside [lo, hi] too
+    tempco_lo: float = -math.inf    # the net tempco band must lie in [tempco_lo, tempco_hi]
+    tempco_hi: float = math.inf
+    working_v: float | None = None  # each part's share must not exceed its rating
+
+    @property
+    def wants_tempco(self) -> bool:
+        return not (math.isinf(self.tempco_lo) and math.isinf(self.tempco_hi))
+
+
+_BUDGET = 256  # partners looked at per part and group before moving on (bounds the worst case)
+_SLACK = 1e-9  # relative margin so float rounding never drops a pair the exact check would keep
+_EMPTY = (1.0, 0.0)
+
+
+def _linear(a: float, b: float, lo: float, hi: float) -> tuple[float, float]:
+    """Narrow [lo, hi] to the x with a·x + b ≤ 0."""
+    margin = _SLACK * (abs(b) + 1.0)
+    if a > 0:
+        return lo, min(hi, (-b + margin) / a)
+    if a < 0:
+        return max(lo, (-b - margin) / a), hi
+    return (lo, hi) if b <= margin else _EMPTY
+
+
+def _tempco_interval(q: PairQuery, c1: float, a1: float, t1: float, a2: float, t2: float,
+                     x_lo: float, x_hi: float) -> tuple[float, float]:
+    """Narrow the partner interval to the C₂ that keep the net tempco band inside the window.
+
+    Net = (w₁α₁ + w₂α₂)/(w₁ + w₂) with (w₁, w₂) = (C₁, C₂) in parallel and (C₂, C₁) in series, and
+    the band's half-width combines the same way; each bound is therefore linear in C₂.
+    """
+    if not math.isinf(q.tempco_hi):
+        h = q.tempco_hi
+        if q.kind == "parallel":
+            x_lo, x_hi = _linear(a2 + t2 - h, c1 * (a1 + t1 - h), x_lo, x_hi)
+        else:
+            x_lo, x_hi = _linear(a1 + t1 - h, c1 * (a2 + t2 - h), x_lo, x_hi)
+    if not math.isinf(q.tempco_lo):
+        w = q.tempco_lo
+        if q.kind == "parallel":
+            x_lo, x_hi = _linear(w - a2 + t2, c1 * (w - a1 + t1), x_lo, x_hi)
+        else:
+            x_lo, x_hi = _linear(w - a1 + t1, c1 * (w - a2 + t2), x_lo, x_hi)
+    return x_lo, x_hi
+
+
+def _value(kind: PairKind, c1: float, c2: float) -> float:
+    return c1 + c2 if kind == "parallel" else c1 * c2 / (c1 + c2)
+
+
+class PairIndex:
+    """Parts sorted by value for the complement search, grouped by tempco when a window applies.
+
+    Build it once from :class:`PairItem` tuples (any order) and ask :meth:`nearest` for each pair
+    kind; the grouping is computed once per kind of question (with or without a tempco window).
+    """
+
+    def __init__(self, items: Iterable[PairItem]):
+        self.items = sorted(items)  # by value, then key (keys are unique, so no further field compares)
+        self._groups: dict[tuple[bool, bool], list[tuple[float, float, list[PairItem], list[float]]]] = {}
+
+    def groups(self, tempco: bool, worst_case: bool) -> list[tuple[float, float, list[PairItem], list[float]]]:
+        """(α, α tolerance, members by value, their values) per tempco group; one group without a window."""
+        key = (tempco, worst_case)
+        if key not in self._groups:
+            grouped: dict[tuple[float, float] | None, list[PairItem]] = {}
+            for it in self.items:
+                if (tempco and it[4] is None) or (worst_case and (it[2] is None or it[3] is None)):
+                    continue
+                grouped.setdefault((it[4], it[5]) if tempco else None, []).append(it)
+            self._groups[key] = [(g[0] if g else 0.0, g[1] if g else 0.0, members, [it[0] for it in members])
+                                 for g, members in grouped.items()]
+        return self._groups[key]
+
+    def nearest(self, q: PairQuery, limit: int, *, per_part: int | None = None,
+                exclude: frozenset[int] | set[int] = frozenset()) -> list[tuple[float, int, int]]:
+        """The pairs whose value comes nearest the target, as (error %, key₁, key₂), best first.
+
+        Not O(n²). Only the parts that can be the *anchor* of a pair are visited: the larger part of
+        a parallel pair, which lies in [lo/2, hi], and the smaller part of a series pair, in
+        (lo, 2·hi]. For each anchor the complement (parallel C₂ = T − C₁, series
+        C₂ = C₁·T/(C₁ − T)) is found by bisection in each group, and partners are taken outward from
+        it in order of the pair's error, inside the interval that keeps the nominal value and the
+        net tempco band in bounds. At most ``per_part`` partners (default ``limit``) are kept per
+        anchor and group, looking at no more than a fixed budget, and the best ``limit`` pairs
+        overall. A first pass in floats: the caller re-checks every pair exactly. Cost: O(a·g·log n)
+        for a anchors and g tempco groups, after the O(n log n) sort.
+
+        >>> index = PairIndex([PairItem(100.0, 1), PairItem(47.0, 2), PairItem(50.0, 3)])
+        >>> index.nearest(PairQuery("parallel", 147.0, 140.0, 155.0), 5)
+        [(0.0, 1, 2), (2.0408163265306123, 1, 3)]
+        """
+        per_part = per_part or limit
+        tempco = q.wants_tempco
+        table = self.groups(tempco, q.worst_case)
+        target, lo, hi = q.target, q.lo * (1 - _SLACK), q.hi * (1 + _SLACK)
+        parallel = q.kind == "parallel"
+        band_lo, band_hi = (lo / 2, hi) if parallel else (lo, 2 * hi)
+        worst, volts_needed = q.worst_case, q.working_v
+        anchors = [it for _, _, members, caps in table
+                   for it in members[bisect.bisect_left(caps, band_lo):bisect.bisect_right(caps, band_hi)]
+                   if it[1] not in exclude]
+        best: list[tuple[float, int, int]] = []  # heap of (−error, −key₁, −key₂): the worst kept on top
+        for one in anchors:
+            c1, k1, m1, p1, a1, t1, v1, double1 = one
+            if parallel:
+                ideal, x_lo, x_hi = target - c1, lo - c1, min(hi - c1, c1)
+            else:
+                if c1 <= lo:
+                    continue
+                ideal = c1 * target / (c1 - target) if c1 > target else math.inf
+                x_lo = max(c1 * lo / (c1 - lo), c1)
+                x_hi = c1 * hi / (c1 - hi) if c1 > hi else math.inf
+            for a2, t2, members, caps in table:
+                y_lo, y_hi = _tempco_interval(q, c1, a1, t1, a2, t2, x_lo, x_hi) if tempco else (x_lo, x_hi)
+                if y_lo > y_hi:
+                    continue
+                start, stop = bisect.bisect_left(caps, y_lo), bisect.bisect_right(caps, y_hi)
+                if start >= stop:
+                    continue
+                mid = min(max(bisect.bisect_left(caps, ideal), start), stop)
+                left, right, taken, looked = mid - 1, mid, 0, 0
+                while taken < per_part and looked < _BUDGET and (left >= start or right < stop):
+                    # The pair's value rises with C₂, so its error grows away from the complement
+                    # on either side; stepping to the nearer side walks partners in order of error.
+                    if parallel:
+                        err_l = abs(c1 + caps[left] - target) if left >= start else math.inf
+                        err_r = abs(c1 + caps[right] - target) if right < stop else math.inf
+                    else:
+                        err_l = abs(c1 * caps[left] / (c1 + caps[left]) - target) if left >= start else math.inf
+                        err_r = abs(c1 * caps[right] / (c1 + caps[right]) - target) if right < stop else math.inf
+                    if err_l <= err_r:
+                        two, err, left = members[left], err_l, left - 1
+                    else:
+                        two, err, right = members[right], err_r, right + 1
+                    err = err * 100 / target
+                    if len(best) >= limit and -best[0][0] <= err:
+                        break  # every partner further out is worse than all pairs kept
+                    looked += 1
+                    c2, k2, m2, p2, _, _, v2, _ = two
+                    # Each unordered pair once: the partner is the smaller (parallel) or the larger
+                    # (series) part, ties broken by key; the same bin twice only if it holds enough.
+                    if ((c2, k2) > (c1, k1)) if parallel else ((c2, k2) < (c1, k1)):
+                        continue
+                    if (k1 == k2 and not double1) or k2 in exclude:
+                        continue
+                    if worst:
+                        low = _value(q.kind, c1 * (1 - m1 / 100), c2 * (1 - m2 / 100))
+                        high = _value(q.kind, c1 * (1 + p1 / 100), c2 * (1 + p2 / 100))
+                        if low < lo or high > hi:
+                            continue
+                    if volts_needed is not None:
+                        if v1 is None or v2 is None:
+                            continue
+                        share1 = volts_needed if parallel else volts_needed * c2 / (c1 + c2)
+                        share2 = volts_needed if parallel else volts_needed * c1 / (c1 + c2)
+                        if v1 < share1 * (1 - _SLACK) or v2 < share2 * (1 - _SLACK):
+                            continue
+                    taken += 1
+                    entry = (-err, -k1, -k2)
+                    if len(best) < limit:
+                        heapq.heappush(best, entry)
+                    else:
+                        heapq.heapreplace(best, entry)
+        return sorted((-e, -k1, -k2) for e, k1, k2 in best)
+
+
+__all__ = ["PAIR_KINDS", "PairIndex", "PairItem", "PairKind", "PairQuery", "band", "pair_bounds",
+           "pair_tempco", "pair_tempco_spread", "pair_tolerance_pct", "pair_value", "pair_voltage_rating",
+           "parallel_complement", "parallel_tempco", "parallel_value", "part_voltages",
+           "series_complement", "series_tempco", "series_value", "series_voltage_split",
+           "worst_deviation_pct"]

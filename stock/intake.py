@@ -37,7 +37,7 @@ from stock.store import Store, now
 
 # Fields of the "bins" vocabulary whose text joins the marking, in the order it is written.
 MARKING_FIELDS = ("marking", "colours", "dielectric", "tolerance", "voltage", "safety_class",
-                  "polarity")
+                  "polarity", "rated_temp")
 # Fields that can carry the part's reading; a sheet with none of them cannot be imported.
 READING_FIELDS = ("marking", "value", "colours")
 BATCH = 2000
@@ -166,7 +166,7 @@ def read_quantity(value: Any) -> int | None:
 def _with_unit(text: str, unit: str | None) -> str:
     """A bare number from a column whose header names a unit gets that unit ("100" + "pF")."""
     if unit and _NUMBER.match(text):
-        return f"{text}{unit}"
+        return f"{text}{unit.replace('µ', 'u').replace('μ', 'u')}"  # ASCII: every decoder reads "uF"
     return text
 
 
@@ -219,7 +219,7 @@ def _same_value(a: Decimal, b: Decimal) -> bool:
     return abs(a - b) <= abs(b) * Decimal("1e-9")
 
 
-_VALUE_TOKEN = re.compile(r"\d[\d.,]*\s*(?:[pnuµμm]\s*F?|F)\b|\d+[pnuµμR]\d+", re.IGNORECASE)
+_VALUE_TOKEN = re.compile(r"\d[\d.,]*\s*(?:[pnuµμ]\s*F?|F)\b|\d+[pnuµμR]\d+", re.IGNORECASE)
 
 
 def _label_value(label: str) -> tuple[str, Decimal] | None:
@@ -276,6 +276,7 @@ class _SheetIntake:
         self.counts = dict(rows=0, stored=0, quarantined=0, flagged=0, unchanged=0, new_bins=0,
                            updated_bins=0, count_movements=0, flags_raised=0)
         self.touched: list[int] = []
+        self._extra: tuple[tuple[str, Any], ...] = ()
         self._bins: list[tuple] = []
         self._parts: list[tuple] = []
         self._ledger: list[tuple] = []
@@ -286,6 +287,8 @@ class _SheetIntake:
         self.index = dict(header_map.field_to_index)
         self.default_cabinet = raw_sheet.sheet if raw_sheet.sheet else path.stem
         self.headers = self._unique_headers(raw_sheet.headers)
+        self._text_fields = [(n, i) for n, i in self.index.items() if n not in ("quantity", "minimum")]
+        self._cabinet_keys: dict[str, str] = {}
 
     @staticmethod
     def _unique_headers(headers: Iterable[Any]) -> list[str]:
@@ -297,11 +300,22 @@ class _SheetIntake:
             out.append(name)
         return out
 
-    def _field(self, cells: tuple[Any, ...], name: str) -> str:
-        i = self.index.get(name)
-        if i is None or i >= len(cells):
-            return ""
-        return cell_text(cells[i])
+    def _texts(self, cells: tuple[Any, ...]) -> dict[str, str]:
+        """The non-blank text of each mapped field of a row (the hot path: one pass, no lookups)."""
+        out: dict[str, str] = {}
+        for name, i in self._text_fields:
+            v = cells[i] if i < len(cells) else None
+            if v is None:
+                continue
+            if type(v) is str:
+                t = v.strip()
+                if "  " in t or "\n" in t or "\t" in t:
+                    t = " ".join(t.split())
+            else:
+                t = cell_text(v)
+            if t:
+                out[name] = t
+        return out
 
     def _raw_cell(self, cells: tuple[Any, ...], name: str) -> Any:
         i = self.index.get(name)
@@ -329,6 +343,7 @@ class _SheetIntake:
             if all(c is None or (isinstance(c, str) and not c.strip()) for c in cells):
                 continue  # a blank line is not a row
             self.counts["rows"] += 1
+            self._extra = getattr(raw_row, "extra", ())
             self._row(raw_row.number, cells)
             if len(self._sources) >= BATCH:
                 self._flush()
@@ -338,9 +353,10 @@ class _SheetIntake:
         if self.progress:
             self.progress(self.counts["rows"])
 
-    def _raw_json(self, cells: tuple[Any, ...]) -> str:
-        return json.dumps({h: c for h, c in zip(self.headers, cells) if c is not None and c != ""},
-                          default=str, ensure_ascii=False)
+    def _raw_json(self, cells: tuple[Any, ...], extra: tuple[tuple[str, Any], ...] = ()) -> str:
+        raw = {h: c for h, c in zip(self.headers, cells) if c is not None and c != ""}
+        raw.update(extra)  # cells right of the header are kept too: nothing read is lost
+        return json.dumps(raw, default=str, ensure_ascii=False)
 
     def _next_id(self, table: str) -> int:
         self.ids[table] += 1
@@ -350,26 +366,28 @@ class _SheetIntake:
         self.counts["quarantined"] += 1
         reasons = json.dumps([{"kind": kind, "message": message}], ensure_ascii=False)
         self._sources.append((self._next_id("source_rows"), self.import_id, self.sheet.sheet, number,
-                              self._raw_json(cells), "quarantined", reasons, None))
+                              self._raw_json(cells, self._extra), "quarantined", reasons, None))
 
-    def _marking_text(self, cells: tuple[Any, ...]) -> tuple[str, str]:
+    def _marking_text(self, f: dict[str, str]) -> tuple[str, str]:
         """(marking text to decode, the explicit value text or "")."""
         pieces = []
         for name in MARKING_FIELDS:
-            text = self._field(cells, name)
+            text = f.get(name)
             if not text:
                 continue
             if name == "voltage":
                 text = _with_unit(text, self.units.get(name) or "V")
             elif name == "tolerance":
                 text = _with_unit(text, self.units.get(name) or "%")
+            elif name == "rated_temp":
+                text = _with_unit(text, "°C")
             elif name == "marking":
                 text = _with_unit(text, self.units.get(name))
             pieces.append(text)
-        value = self._field(cells, "value")
+        value = f.get("value", "")
         if value:
             value = _with_unit(value, self.units.get("value"))
-        if not self._field(cells, "marking") and not self._field(cells, "colours") and value:
+        if value and "marking" not in f and "colours" not in f:
             return " ".join([value, *pieces]), ""  # the value column is the marking
         return " ".join(pieces), value
 
@@ -379,7 +397,8 @@ class _SheetIntake:
         except ValueError as exc:
             self._quarantine(number, cells, "bad-quantity", str(exc))
             return
-        text, value_text = self._marking_text(cells)
+        f = self._texts(cells)
+        text, value_text = self._marking_text(f)
         marking = decode_cached(text) if text else None
         if marking is None or (marking.capacitance_pf is None
                                and not any(a.capacitance_pf is not None for a in marking.alternatives)):
@@ -387,10 +406,13 @@ class _SheetIntake:
             self._quarantine(number, cells, "no-capacitance",
                              f"no capacitance could be read from {shown!r}")
             return
-        label = self._field(cells, "label")
-        location = self._field(cells, "location")
-        cabinet = self._field(cells, "cabinet") or self.default_cabinet
-        key = bin_key(cabinet, location or label or text)
+        label = f.get("label", "")
+        location = f.get("location", "")
+        cabinet = f.get("cabinet") or self.default_cabinet
+        cabinet_key = self._cabinet_keys.get(cabinet)
+        if cabinet_key is None:
+            cabinet_key = self._cabinet_keys[cabinet] = normalise(cabinet)
+        key = f"{cabinet_key}/{normalise(location or label or text)}"
         first = self.seen.get(key)
         if first is not None:
             where = f"row {first[1]}" + (f" of sheet {first[0]!r}" if first[0] != self.sheet.sheet else "")
@@ -400,8 +422,8 @@ class _SheetIntake:
         self.seen[key] = (self.sheet.sheet, number)
 
         marking, extra_flags = self._cross_check(key, text, marking, value_text, label)
-        self._store(number, cells, key, cabinet, label, location or None, text, marking,
-                    extra_flags, quantity)
+        self._store(number, cells, f, key, cabinet, cabinet_key, label, location or None, text,
+                    marking, extra_flags, quantity)
 
     def _cross_check(self, key: str, text: str, marking: Marking, value_text: str,
                      label: str) -> tuple[Marking, list[tuple[str, str, str]]]:
@@ -450,23 +472,25 @@ class _SheetIntake:
                         " not zero); count it", f"{key}|unknown-quantity"))
         return out
 
-    def _store(self, number: int, cells: tuple[Any, ...], key: str, cabinet: str, label: str,
-               location: str | None, text: str, marking: Marking,
-               extra: list[tuple[str, str, str]], quantity: int | None) -> None:
-        existing = self._existing_for(normalise(cabinet)).get(key)
-        notes = self._field(cells, "notes") or None
-        date_code = self._field(cells, "date_code") or None
+    def _store(self, number: int, cells: tuple[Any, ...], f: dict[str, str], key: str,
+               cabinet: str, cabinet_key: str, label: str, location: str | None, text: str,
+               marking: Marking, extra: list[tuple[str, str, str]], quantity: int | None) -> None:
+        in_cabinet = self._existing_for(cabinet_key)
+        existing = in_cabinet.get(key)
+        notes = f.get("notes")
+        date_code = f.get("date_code")
         try:
             minimum = read_quantity(self._raw_cell(cells, "minimum"))
         except ValueError:
             minimum = None  # a bad minimum is no reason to lose the row; the raw cell is kept
-        package = self._field(cells, "package") or None
-        mounting = self._field(cells, "mounting") or None
+        package = f.get("package")
+        mounting = f.get("mounting")
         known = quantity if existing is None or quantity is not None else existing.on_hand
         flags = self._flags_for(key, text, marking, extra, known)
         source_id = self._next_id("source_rows")
         status = "flagged" if flags else "stored"
-        reasons = json.dumps([{"kind": k, "message": m} for k, m, _ in flags], ensure_ascii=False)
+        reasons = (json.dumps([{"kind": k, "message": m} for k, m, _ in flags], ensure_ascii=False)
+                   if flags else "[]")
 
         if existing is None:
             bin_id = self._next_id("bins")
@@ -482,7 +506,7 @@ class _SheetIntake:
             self.counts["new_bins"] += 1
             self.counts["stored"] += 1
             self.touched.append(bin_id)
-            self._existing_for(normalise(cabinet))[key] = _Existing(
+            in_cabinet[key] = _Existing(
                 bin_id, quantity, label or None, location, notes, minimum, date_code, text, None)
         else:
             bin_id = existing.id
@@ -501,7 +525,7 @@ class _SheetIntake:
                                                  "sheet": self.sheet.sheet,
                                                  "file": self.path.name}))
         self._sources.append((source_id, self.import_id, self.sheet.sheet, number,
-                              self._raw_json(cells), status, reasons, bin_id))
+                              self._raw_json(cells, self._extra), status, reasons, bin_id))
 
     def _update(self, old: _Existing, label: str, location: str | None, notes: str | None,
                 minimum: int | None, date_code: str | None, text: str, marking: Marking,

@@ -11,9 +11,8 @@ it has seen. :func:`reopen` undoes a decision, again with a ledger note.
 
 Readings are numbered: 0 is the decoder's own choice, 1…n its alternatives in order.
 
-Stock checks (:func:`raise_stock_flags`) turn state into flags: unknown quantity, below the bin's
-minimum, and aluminium electrolytics older than a shelf-life rule. Duplicates and merging live in
-:mod:`stock.duplicates`.
+Flags raised by looking at the stock live in :mod:`stock.stock_checks` (unknown quantity, below
+minimum, shelf life) and :mod:`stock.duplicates` (the same part in several bins, and merging).
 
 >>> FLAG_KINDS["ambiguous-code"].settled_by
 'reading'
@@ -25,7 +24,6 @@ from __future__ import annotations
 
 import json
 import os
-import re
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field, replace
 from datetime import date
@@ -43,7 +41,7 @@ SettledBy = Literal["reading", "count", "note"]
 class FlagKind:
     """One kind of flag: what it means and what would settle it.
 
-    ``settle`` is a template; ``{choices}``, ``{marking}``, ``{label}``, ``{value}``,
+    ``settle`` is a template; ``{id}``, ``{choices}``, ``{claims}``, ``{marking}``, ``{label}``, ``{value}``,
     ``{unparsed}``, ``{bins}``, ``{bin}``, ``{on_hand}``, ``{minimum}``, ``{date_code}`` and
     ``{age}`` are filled from the flag's bin and readings. ``settled_by`` says which decision
     closes it: a reading (``--reading``/``--value``/``--marking``), a count, or a note.
@@ -85,14 +83,34 @@ _KINDS: tuple[FlagKind, ...] = (
     FlagKind("layout-ambiguous",
              "the colour dots or bands fit more than one layout (EIA/military mica, 5-band tubular)",
              "check the layout (arrows, the wide band, the first dot): {choices}?", "reading"),
+    FlagKind("conflicting-readings",
+             "two parts of one marking give different facts (two values, a letter and a written"
+             " tolerance, two dielectrics); one was chosen",
+             "look at the part and measure it: {choices}?", "reading"),
+    FlagKind("tolerance-assumed",
+             "no tolerance was marked; the code's convention (e.g. ±20 % for no band) was assumed",
+             "measure it or check the maker's series; `--reading 0` accepts {value}", "reading"),
+    FlagKind("voltage-assumed",
+             "no voltage was marked; the rating was taken from the code's convention",
+             "check the maker's datasheet before working it near the assumed rating; then"
+             " `stock settle {bin} --flag {id} --note ...`", "note"),
+    FlagKind("voltage-kind-assumed",
+             "the rating did not say AC or DC; the part's kind decided (safety capacitors: AC)",
+             "check the printed rating (~, AC, DC) on the part; then"
+             " `stock settle {bin} --flag {id} --note ...`", "note"),
+    FlagKind("polarity-assumed",
+             "no polarity mark was in the text; the family's usual marking was assumed",
+             "look at the part: which lead does the stripe or + mark? Fitted the wrong way round"
+             " an electrolytic can overheat and vent. Then `stock settle {bin} --flag {id} --note ...`",
+             "note"),
     FlagKind("label-conflict",
              "the bin label or an explicit value column contradicts the decoded marking",
-             "the label says {label}, the code {marking} says {value}: measure it, then --value"
-             " (or --reading 0 if the code is right)", "reading"),
+             "{claims}, the code {marking} says {value}: measure it, then --reading N for the"
+             " reading that is right (or --value)", "reading"),
     FlagKind("duplicate",
              "the same part (or a probable mistyped copy) sits in several bins",
              "bins {bins}: `stock merge FROM INTO` moves the stock together; if they really"
-             " differ, `stock settle BIN --flag ID --note why`", "note"),
+             " differ, `stock settle BIN --flag {id} --note why`", "note"),
     FlagKind("unknown-quantity",
              "the sheet gave no quantity for this bin (blank is unknown, not zero)",
              "count the bin: `stock settle {bin} --count N`", "count"),
@@ -114,7 +132,7 @@ FLAG_KINDS: Mapping[str, FlagKind] = {k.kind: k for k in _KINDS}
 
 _UNKNOWN_KIND = FlagKind(
     "?", "a flag kind this version does not document; read its message",
-    "read the message, then `stock settle {bin} --flag ID --note ...`", "note")
+    "read the message, then `stock settle {bin} --flag {id} --note ...`", "note")
 
 
 def flag_kind(kind: str) -> FlagKind:
@@ -207,8 +225,9 @@ def _decided(marking: Marking) -> Marking:
 
 def current_marking(part: Mapping[str, Any]) -> Marking:
     """The reading in force for a ``parts`` row: the settled one if a human chose, else the decoder's."""
-    text = part.get("settled_json") or part["decoded_json"]
-    return Marking.from_json(json.loads(text))
+    from stock.bins import part_marking
+
+    return part_marking(dict(part))
 
 
 def part_columns(marking: Marking) -> dict[str, Any]:
@@ -242,6 +261,15 @@ def reading_summary(marking: Marking) -> dict[str, Any]:
             "tolerance": data["tolerance"], "voltage_v": data["voltage_v"],
             "dielectric": marking.dielectric.code if marking.dielectric else None,
             "safety_class": data["safety_class"]}
+
+
+def describe_summary(summary: Mapping[str, Any]) -> str:
+    """A :func:`reading_summary` in engineering units, e.g. ``"47 nF ±10 % 50 V DC X7R"``."""
+    def dec(v: Any) -> Decimal | None:
+        return None if v is None else Decimal(str(v))
+
+    return Reading(0, dec(summary.get("capacitance_pf")), Tolerance.from_json(summary.get("tolerance")),
+                   dec(summary.get("voltage_v")), summary.get("dielectric"), "").describe()
 
 
 @dataclass(frozen=True)
@@ -291,7 +319,10 @@ def _hint(kind: FlagKind, row: Mapping[str, Any], found: tuple[Reading, ...],
     if details.get("label_pf") is not None:
         from stock.units import format_capacitance
         label = format_capacitance(Decimal(str(details["label_pf"])))
+    claims = [r.reason + (f" ({r.describe()})" if r.capacitance_pf is not None else "")
+              for r in found[1:] if " says " in r.reason]
     fields = _Blank(
+        claims="; ".join(claims) or f"the label says {label or '?'}",
         choices=_or_list([r.describe() for r in found]) if found else "what value is it",
         marking=(marking.text if marking else row.get("marking")) or "?",
         label=label or "?",
@@ -299,6 +330,7 @@ def _hint(kind: FlagKind, row: Mapping[str, Any], found: tuple[Reading, ...],
         unparsed=", ".join(repr(u) for u in marking.unparsed) if marking and marking.unparsed else "the rest",
         bins=", ".join(details.get("bins", [])) or (row.get("bin_key") or "?"),
         bin=row.get("bin_key") or "BIN",
+        id=row.get("id", "ID"),
         on_hand=row.get("on_hand") if row.get("on_hand") is not None else "?",
         minimum=row.get("minimum") if row.get("minimum") is not None else "?",
         date_code=details.get("date_code") or row.get("date_code") or "?",
@@ -342,6 +374,7 @@ def list_flags(store: Store, *, kind: str | None = None, status: str = "open",
         raise BadValue("--status", status, "open or settled")
     if check:
         from stock.duplicates import raise_duplicate_flags
+        from stock.stock_checks import raise_stock_flags
 
         raise_stock_flags(store, today=today)
         raise_duplicate_flags(store)
@@ -466,6 +499,11 @@ def settle(store: Store, bin_ref: str, *, reading: int | None = None, value: str
         pending = ", ".join(f"{f['id']} {f['kind']}" for f in open_flags) or "none"
         raise Refused(f"settle bin {key}", "nothing to settle with a note alone"
                       f" (open flags: {pending}); give --reading, --value, --marking or --count")
+    if "note" in wanted and flag_id is None and len({f["kind"] for f in targets}) > 1:
+        # One note rarely answers two different questions (a reorder says nothing of polarity).
+        pending = ", ".join(f"{f['id']} {f['kind']}" for f in targets)
+        raise Refused(f"settle bin {key} with one note", f"it has several open flags ({pending});"
+                      " give --flag ID for each")
 
     decision: dict[str, Any] = {"via": "settle", "bin_id": bin_id, "by": actor, "note": note}
     old = new = None
@@ -512,11 +550,16 @@ def settle(store: Store, bin_ref: str, *, reading: int | None = None, value: str
             sets = ", ".join(f'"{c}" = ?' for c in cols)
             store.db.conn.execute(f"UPDATE parts SET {sets}, settled_json = ? WHERE bin_id = ?",
                                   (*cols.values(), json.dumps(chosen.to_json(), ensure_ascii=False), bin_id))
+        counted = False
         if count is not None:
-            store.set_count(bin_id, count, "count", ref="settle",
-                            note=json.dumps(decision, default=str, ensure_ascii=False))
-            ledger_id = store.one("SELECT MAX(id) AS id FROM ledger WHERE bin_id = ?", (bin_id,))["id"]
-        if chosen is not None or count is None:
+            was_unknown = bin_row["on_hand"] is None
+            delta = store.set_count(bin_id, count, "count", ref="settle",
+                                    note=json.dumps(decision, default=str, ensure_ascii=False))
+            counted = bool(delta) or was_unknown
+            if counted:
+                ledger_id = store.one("SELECT MAX(id) AS id FROM ledger WHERE bin_id = ?",
+                                      (bin_id,))["id"]
+        if chosen is not None or not counted:
             ledger_id = ledger_note(store, bin_id, "settle", ref="flags:" + ",".join(map(str, ids)),
                                     note=decision, actor=actor)
         decision["ledger_id"] = ledger_id
@@ -574,161 +617,8 @@ def reopen(store: Store, bin_ref: str, *, note: str | None = None, by: str | Non
     return Settlement(key, "reopen", (), reopened=tuple(ids), old=old, new=new, ledger_id=ledger_id)
 
 
-# Shelf life of aluminium electrolytics stored without voltage: after about two years the oxide
-# may need reforming before full voltage is applied. # common practice, no published source
-# (makers' datasheets state 1-3 years for their own series; check the part's datasheet).
-SHELF_LIFE_YEARS = 2
-SHELF_LIFE_FAMILIES = ("aluminium-electrolytic", "bipolar-electrolytic")
-
-
-@dataclass(frozen=True)
-class DateCode:
-    """A date code read as a date (the first day of its week, month or year) and how it was read."""
-
-    raw: str
-    date: date | None
-    how: str
-
-
-def parse_date_code(raw: str, today: date | None = None) -> DateCode:
-    """Read a YYWW, YYYY-MM or YYYY date code; four digits that fit both take the older date.
-
-    >>> parse_date_code("1832").date
-    datetime.date(2018, 7, 30)
-    >>> parse_date_code("2019-04").date
-    datetime.date(2019, 4, 1)
-    >>> parse_date_code("2012", today=date(2026, 12, 1)).how
-    'read as the year 2012 (it could also be 2020 week 12)'
-    >>> parse_date_code("Q3").date is None
-    True
-    """
-    today = today or date.today()
-    text = raw.strip()
-    m = re.fullmatch(r"(\d{4})[-/.](\d{1,2})", text)
-    if m and 1 <= int(m[2]) <= 12:
-        return DateCode(raw, date(int(m[1]), int(m[2]), 1), f"read as {m[1]}-{int(m[2]):02d}")
-    if re.fullmatch(r"\d{4}", text):
-        yy, ww = int(text[:2]), int(text[2:])
-        year = 2000 + yy if 2000 + yy <= today.year else 1900 + yy
-        week = None
-        if 1 <= ww <= 53:
-            try:
-                week = date.fromisocalendar(year, ww, 1)
-            except ValueError:
-                week = None
-        as_year = date(int(text), 1, 1) if 1950 <= int(text) <= today.year else None
-        if week and as_year:
-            older = min(week, as_year)
-            if older == as_year:
-                return DateCode(raw, as_year, f"read as the year {text} (it could also be {year} week {ww})")
-            return DateCode(raw, week, f"read as {year} week {ww} (it could also be the year {text})")
-        if week:
-            return DateCode(raw, week, f"read as {year} week {ww}")
-        if as_year:
-            return DateCode(raw, as_year, f"read as the year {text}")
-    return DateCode(raw, None, "not understood (expected YYWW, YYYY-MM or YYYY)")
-
-
-def _age(since: date, today: date) -> str:
-    months = (today.year - since.year) * 12 + today.month - since.month
-    return f"about {months // 12} years {months % 12} months old" if months >= 12 else f"{months} months old"
-
-
-@dataclass(frozen=True)
-class FlagRun:
-    """What a check did: flags raised (new), and flags closed because they are no longer true."""
-
-    raised: int
-    closed: int
-
-
-def sync_flags(store: Store, kinds: Iterable[str], wanted: list[dict[str, Any]],
-               reason: str) -> FlagRun:
-    """Raise the wanted flags and close open flags of these kinds that are no longer wanted.
-
-    Each wanted flag is a dict of :meth:`Store.raise_flag` arguments. A flag a person settled is
-    not raised again (its fingerprint is known); an open one whose condition has gone is closed
-    with a decision saying so.
-    """
-    kinds = tuple(kinds)
-    prints = {w["fingerprint"] for w in wanted}
-    raised = closed = 0
-    with store.writing():
-        for w in wanted:
-            if store.raise_flag(**w) is not None:
-                raised += 1
-        marks = ",".join("?" * len(kinds))
-        stale = [r["id"] for r in store.rows(
-            f"SELECT id, fingerprint FROM flags WHERE status = 'open' AND kind IN ({marks})", kinds)
-            if r["fingerprint"] not in prints]
-        close_flags(store, stale, {"via": "check", "by": "stock", "note": reason})
-        closed = len(stale)
-    return FlagRun(raised, closed)
-
-
-def _below_since(store: Store) -> dict[int, int | None]:
-    """For each bin below its minimum, the ledger id where it last went below (None: always was)."""
-    rows = store.rows("""
-        WITH run AS (SELECT bin_id, id, SUM(delta) OVER (PARTITION BY bin_id ORDER BY id) AS total
-                     FROM ledger)
-        SELECT b.id AS bin_id,
-               (SELECT MIN(r.id) FROM run r WHERE r.bin_id = b.id AND r.id >
-                   COALESCE((SELECT MAX(r2.id) FROM run r2 WHERE r2.bin_id = b.id
-                             AND r2.total >= b.minimum), 0)) AS since
-        FROM bins b WHERE b.minimum IS NOT NULL AND b.on_hand IS NOT NULL AND b.on_hand < b.minimum
-    """)
-    return {r["bin_id"]: r["since"] for r in rows}
-
-
-def raise_stock_flags(store: Store, *, today: date | None = None) -> FlagRun:
-    """Flag unknown quantities, bins below their minimum and electrolytics past their shelf life.
-
-    Open flags whose condition no longer holds (the bin was counted, refilled, restocked with a
-    newer date code) are closed with a note saying so.
-    """
-    today = today or date.today()
-    wanted: list[dict[str, Any]] = []
-    for b in store.rows("SELECT id, bin_key FROM bins WHERE on_hand IS NULL ORDER BY id"):
-        wanted.append(dict(kind="unknown-quantity", bin_id=b["id"],
-                           fingerprint=f"unknown-quantity|{b['bin_key']}",
-                           message=f"bin {b['bin_key']}: the quantity is unknown"))
-    since = _below_since(store)
-    for b in store.rows("SELECT id, bin_key, on_hand, minimum FROM bins WHERE minimum IS NOT NULL"
-                        " AND on_hand IS NOT NULL AND on_hand < minimum ORDER BY id"):
-        episode = since.get(b["id"]) or "start"
-        wanted.append(dict(
-            kind="below-minimum", bin_id=b["id"],
-            fingerprint=f"below-minimum|{b['bin_key']}|{b['minimum']}|{episode}",
-            message=f"bin {b['bin_key']} holds {b['on_hand']}, below its minimum of {b['minimum']}",
-            details={"on_hand": b["on_hand"], "minimum": b["minimum"]}))
-    families = ",".join("?" * len(SHELF_LIFE_FAMILIES))
-    for b in store.rows(
-            f"SELECT b.id, b.bin_key, b.date_code, p.family FROM bins b JOIN parts p ON p.bin_id = b.id"
-            f" WHERE b.date_code IS NOT NULL AND TRIM(b.date_code) != '' AND p.family IN ({families})"
-            " ORDER BY b.id", SHELF_LIFE_FAMILIES):
-        code = parse_date_code(b["date_code"], today)
-        if code.date is None:
-            message = f"bin {b['bin_key']}: date code {b['date_code']!r} {code.how}; its age is unknown"
-            age = "age unknown"
-        else:
-            limit = date(code.date.year + SHELF_LIFE_YEARS, code.date.month, 1)
-            if today < limit:
-                continue
-            age = _age(code.date, today)
-            message = (f"bin {b['bin_key']}: {b['family']} with date code {b['date_code']}"
-                       f" ({code.how}) is {age}, past the {SHELF_LIFE_YEARS}-year shelf-life rule")
-        wanted.append(dict(kind="shelf-life", bin_id=b["id"],
-                           fingerprint=f"shelf-life|{b['bin_key']}|{b['date_code']}",
-                           message=message,
-                           details={"date_code": b["date_code"], "read": code.how, "age": age,
-                                    "rule_years": SHELF_LIFE_YEARS}))
-    return sync_flags(store, ("unknown-quantity", "below-minimum", "shelf-life"), wanted,
-                      "no longer true at the last stock check")
-
-
 __all__ = [
-    "FLAG_KINDS", "DateCode", "FlagKind", "FlagRun", "FlagView", "Reading", "SHELF_LIFE_YEARS",
-    "Settlement", "close_flags", "current_marking", "flag_kind", "ledger_note", "list_flags",
-    "parse_date_code", "part_columns", "pick_reading", "raise_stock_flags", "readings",
-    "reading_summary", "reopen", "settle", "sync_flags", "who",
+    "FLAG_KINDS", "FlagKind", "FlagView", "Reading", "Settlement", "close_flags",
+    "current_marking", "describe_summary", "flag_kind", "ledger_note", "list_flags", "part_columns", "pick_reading",
+    "readings", "reading_summary", "reopen", "settle", "who",
 ]

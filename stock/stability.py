@@ -47,8 +47,8 @@ class FamilyDrift:
     """
 
     family: str
-    temp_min_c: Decimal
-    temp_max_c: Decimal
+    temp_min_c: Decimal | None
+    temp_max_c: Decimal | None
     tempco_ppm_per_k: Decimal | None = None
     tempco_tol_ppm_per_k: Decimal | None = None
     change_minus_pct: Decimal | None = None
@@ -118,6 +118,45 @@ FAMILY_DRIFT: dict[str, FamilyDrift] = {
                                 change_plus_pct=_d("10"), linear=False,
                                 source="from memory (about −20/+10 %)"),
 }
+
+def temperature_figures(dielectric) -> FamilyDrift | None:
+    """The temperature figures to use for a dielectric: its own, else its family's typical ones.
+
+    A dielectric decoded with figures keeps them (the ``linear`` flag still comes from the family
+    table); a family named without figures takes :data:`FAMILY_DRIFT`; None when neither exists.
+
+    >>> from stock.decoded import Dielectric
+    >>> temperature_figures(Dielectric("mica", "mica")).tempco_ppm_per_k
+    Decimal('55')
+    """
+    if dielectric is None:
+        return None
+    typical = None if dielectric.family == "ceramic" else FAMILY_DRIFT.get(dielectric.family)
+    d = dielectric
+    if d.tempco_ppm_per_k is None and d.change_minus_pct is None:
+        return typical
+    return FamilyDrift(
+        family=d.family,
+        temp_min_c=d.temp_min_c if d.temp_min_c is not None else (typical.temp_min_c if typical else None),
+        temp_max_c=d.temp_max_c if d.temp_max_c is not None else (typical.temp_max_c if typical else None),
+        tempco_ppm_per_k=d.tempco_ppm_per_k, tempco_tol_ppm_per_k=d.tempco_tol_ppm_per_k,
+        change_minus_pct=d.change_minus_pct, change_plus_pct=d.change_plus_pct,
+        linear=d.family != "ceramic" and (typical is None or typical.linear),
+        source=d.source)
+
+
+def assumed_tempco_tol(alpha: Decimal) -> Decimal:
+    """A tempco tolerance for an α given without one (an old name: NP0, N750, P100).
+
+    Capacitor-codes.md §1d: the old names map to α only. The widest tolerance customary for that α
+    in EIA-198 codes is taken. Common practice, no published source.
+
+    >>> assumed_tempco_tol(Decimal(0)), assumed_tempco_tol(Decimal(-750)), assumed_tempco_tol(Decimal(-1500))
+    (Decimal('60'), Decimal('120'), Decimal('250'))
+    """
+    size = abs(alpha)
+    return Decimal(60) if size <= 150 else Decimal(120) if size <= 750 else Decimal(250)
+
 
 # Class 2/3 ceramic ageing, % capacitance lost per decade of hours. S35 (RCD FAQ, maxima);
 # disagreements: S36 gives X7R ~2.5 %, X5R 5–7 %; S37 gives X7R 1–3 %. The S35 maxima are used.
@@ -300,6 +339,6 @@ def is_polarised(family: str | None, polarity: str | None) -> bool:
 
 __all__ = [
     "AGEING_PER_DECADE_PCT", "AGEING_REFERENCE_HOURS", "DC_BIAS_LIMITS", "DERATING", "FAMILY_DRIFT",
-    "SHELF_LIFE", "Derating", "FamilyDrift", "ageing_decades", "ageing_loss_pct", "ageing_rate_pct",
-    "dc_bias_loss_pct", "derating_for", "is_polarised",
+    "SHELF_LIFE", "Derating", "FamilyDrift", "ageing_decades", "assumed_tempco_tol", "ageing_loss_pct", "ageing_rate_pct",
+    "dc_bias_loss_pct", "derating_for", "is_polarised", "temperature_figures",
 ]

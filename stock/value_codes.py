@@ -30,6 +30,7 @@ Decimal('4700')
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 from dataclasses import dataclass
 from decimal import Decimal
 
@@ -281,7 +282,7 @@ def _unitless_candidates(body: str, letter: str | None, family: str | None,
 def _erie_candidates(body: str, letter: str | None, flags: list[Flag],
                      primary: list[ValueCandidate]) -> list[ValueCandidate]:
     """``47K``: IEC reads 47 pF ±10 %; old ERIE practice reads K as ×1000 pF (47 nF)."""
-    if letter != "K" or not body.isdigit() or len(body) > 3:
+    if letter != "K" or not body.isdigit() or len(body) > 3 or (len(body) == 3 and body[2] != "0"):
         return []
     erie = _scaled(Decimal(body), 3)
     flags.append(Flag("ambiguous-code", f"{body}K: read as {_fmt(primary[0].capacitance_pf)} ±10 % "
@@ -289,6 +290,7 @@ def _erie_candidates(body: str, letter: str | None, flags: list[Flag],
     return [ValueCandidate(erie, "letter-and-digit", f"{body}K: K as ×1000 pF (old ERIE practice)")]
 
 
+@lru_cache(maxsize=8192)
 def read_value(token: str, *, family: str | None = None) -> ValueReading | None:
     """Every reading of one token as a capacitance, best first.
 
@@ -311,6 +313,12 @@ def read_value(token: str, *, family: str | None = None) -> ValueReading | None:
     """
     flags: list[Flag] = []
     candidates = _unit_candidates(token, flags)
+    if candidates and token[-1] in "pP" and _THREE_DIGIT.fullmatch(token[:-1]) and token[-2] != "0":
+        # "104P": nobody prints 104 pF; it is the code 104 with tolerance letter P.
+        code = _three_digit_candidates(token[:-1], "P", family, flags)
+        flags.append(Flag("ambiguous-code", f"{token}: read as code {token[:-1]} with tolerance letter P; "
+                                            f"{token[:-1]} pF printed literally is not a preferred value"))
+        candidates = code + candidates
     if not candidates:
         body, letter = _split_letter(token)
         for body, letter in ((token, None), (body, letter)) if letter else ((token, None),):

@@ -18,6 +18,7 @@ decimal point is.
 from __future__ import annotations
 
 import re
+from functools import lru_cache
 from decimal import Decimal
 
 # Mantissa letter -> volts at decade 0. From memory of the EIA/JIS rule; each row is checked
@@ -42,6 +43,11 @@ VOLTAGE_MANTISSA: dict[str, Decimal] = {
     "N": Decimal("7.5"),
     "K": Decimal("8.0"),
 }
+# Published rows that break the letter rule: code -> (volts as published, why). S13 prints 3L as
+# 1.2 kV although L is 5.5 at every other decade; 1.2 kV is a common rating, 5.5 kV is not.
+DISPUTED_VOLTAGE_CODES: dict[str, tuple[Decimal, str]] = {
+    "3L": (Decimal(1200), "one published table gives 3L as 1.2 kV; the letter rule gives 5.5 kV"),
+}
 VOLTAGE_DECADES = range(0, 4)   # digit 0 … 3: volts × 1 … × 1000 (0E 2.5 V … 3H 5 kV)
 
 _CODE = re.compile(r"([0-3])([A-Z])")
@@ -58,7 +64,10 @@ def voltage_code_value(code: str) -> Decimal | None:
     >>> voltage_code_value("1V"), voltage_code_value("2W"), voltage_code_value("2X") is None
     (Decimal('35'), Decimal('450'), True)
     """
-    match = _CODE.fullmatch(code.upper())
+    code = code.upper()
+    if code in DISPUTED_VOLTAGE_CODES:
+        return DISPUTED_VOLTAGE_CODES[code][0]
+    match = _CODE.fullmatch(code)
     if not match or match[2] not in VOLTAGE_MANTISSA:
         return None
     volts = VOLTAGE_MANTISSA[match[2]].scaleb(int(match[1]))
@@ -71,13 +80,17 @@ def encode_voltage(volts: Decimal) -> str | None:
     >>> encode_voltage(Decimal(630)), encode_voltage(Decimal("6.3")), encode_voltage(Decimal(300)) is None
     ('2J', '0J', True)
     """
+    for code, (published, _) in DISPUTED_VOLTAGE_CODES.items():
+        if published == volts:
+            return code
     for decade in VOLTAGE_DECADES:
         for letter, mantissa in VOLTAGE_MANTISSA.items():
-            if mantissa.scaleb(decade) == volts:
+            if mantissa.scaleb(decade) == volts and f"{decade}{letter}" not in DISPUTED_VOLTAGE_CODES:
                 return f"{decade}{letter}"
     return None
 
 
+@lru_cache(maxsize=4096)
 def read_voltage(token: str) -> tuple[Decimal, str | None] | None:
     """An explicit voltage token as (volts, "AC" | "DC" | None), or None when it is not one.
 
@@ -111,4 +124,4 @@ def read_voltage(token: str) -> tuple[Decimal, str | None] | None:
     return volts, kind
 
 
-__all__ = ["VOLTAGE_DECADES", "VOLTAGE_MANTISSA", "encode_voltage", "read_voltage", "voltage_code_value"]
+__all__ = ["DISPUTED_VOLTAGE_CODES", "VOLTAGE_DECADES", "VOLTAGE_MANTISSA", "encode_voltage", "read_voltage", "voltage_code_value"]

@@ -23,8 +23,12 @@ COMMAND_MODULES: tuple[str, ...] = (
     "stock.cli.decode_cmd",
     "stock.cli.import_cmd",
     "stock.cli.bins_cmd",
+    "stock.cli.grade_cmd",
     "stock.cli.export_cmd",
     "stock.cli.check_cmd",
+    "stock.cli.flags_cmd",
+    "stock.cli.find_cmd",
+    "stock.cli.kit_cmd",
 )
 
 

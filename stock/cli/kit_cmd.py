@@ -1,0 +1,136 @@
+"""`stock kit`: plan a build from a BOM, pull, undo, drop, show and print the pick list."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+from typing import Annotated
+
+import typer
+
+from stock.cli import state
+
+kit_app = typer.Typer(no_args_is_help=True, help="Kit a build from stock: plan a BOM, pull, undo, drop.")
+
+PLAN_HELP = """Plan a build: choose bins for every capacitor line of a BOM and reserve the parts.
+
+Each line needs qty per board × boards (+ --spare, rounded up). Bins are chosen fit grade first,
+exact value next, fewest bins, part-full bins used up. A looser tolerance or a lower dielectric
+class is used only when --allow says so; a mains line takes only X/Y parts of its class; a tuned
+line never takes a Class 2 ceramic. Lines for other kinds of parts are listed as not tracked.
+
+Examples:
+
+    stock kit plan amp-board.csv --boards 5 --spare 5%
+
+    stock kit plan tuner.xlsx --boards 2 --temp -10..60 --combine --allow looser-tolerance --json
+"""
+
+
+def _echo_json(data: object) -> None:
+    typer.echo(json.dumps(data, ensure_ascii=False, indent=2))
+
+
+def _store(ctx: typer.Context):  # noqa: ANN202  (a stock.store.Store)
+    from stock.store import open_store
+
+    return open_store(state(ctx).db_path, create=False)
+
+
+@kit_app.command("plan", help=PLAN_HELP)
+def plan_command(
+    ctx: typer.Context,
+    bom: Annotated[Path, typer.Argument(help="The BOM file, CSV or XLSX.")],
+    boards: Annotated[int, typer.Option("--boards", min=1, help="How many boards to build.")],
+    temp: Annotated[str | None, typer.Option("--temp", help="Temperature range LOW..HIGH in °C, e.g. 0..50.")] = None,
+    spare: Annotated[str | None, typer.Option("--spare", help="Extra parts per line, e.g. 5% (rounded up).")] = None,
+    combine: Annotated[bool, typer.Option("--combine", help="Fill what singles cannot with pairs (2 parts per position).")] = False,
+    allow: Annotated[list[str] | None, typer.Option("--allow", help="Relax a rule: looser-tolerance or lower-class (repeatable).")] = None,
+    sheet: Annotated[str | None, typer.Option("--sheet", help="The workbook sheet holding the BOM.")] = None,
+    mapping: Annotated[list[str] | None, typer.Option("--map", help="FIELD=HEADER: which column holds a field (repeatable).")] = None,
+    as_json: Annotated[bool, typer.Option("--json", help="Print the plan as JSON.")] = False,
+) -> None:
+    from stock.bom import parse_mappings
+    from stock.kit import kit_options, plan_kit
+    from stock.pick_list import plan_text
+
+    options = kit_options(boards, temp=temp, spare=spare, combine=combine, allow=allow or ())
+    with _store(ctx) as store:
+        plan = plan_kit(store, bom, options, sheet=sheet, overrides=parse_mappings(mapping or ()))
+    if as_json:
+        _echo_json(plan.to_json())
+    else:
+        typer.echo(plan_text(plan))
+
+
+@kit_app.command("show", help="Show a plan as planned, with its status.\n\nExample:\n\n    stock kit show 3 --json")
+def show_command(
+    ctx: typer.Context,
+    plan: Annotated[str, typer.Argument(help="The plan number.")],
+    as_json: Annotated[bool, typer.Option("--json", help="Print the plan as JSON.")] = False,
+) -> None:
+    from stock.kit import load_plan
+    from stock.pick_list import plan_text
+
+    with _store(ctx) as store:
+        kit = load_plan(store, plan)
+    typer.echo(json.dumps(kit.to_json(), ensure_ascii=False, indent=2) if as_json else plan_text(kit))
+
+
+@kit_app.command("picklist", help="The pick list of a plan, in location order (A2 before A10).\n\n"
+                 "Example:\n\n    stock kit picklist 3 --xlsx pick-3.xlsx")
+def picklist_command(
+    ctx: typer.Context,
+    plan: Annotated[str, typer.Argument(help="The plan number.")],
+    xlsx: Annotated[Path | None, typer.Option("--xlsx", help="Also write the pick list to this XLSX file.")] = None,
+    as_json: Annotated[bool, typer.Option("--json", help="Print the pick list as JSON.")] = False,
+) -> None:
+    from stock.pick_list import pick_list, pick_list_text, write_pick_list_xlsx
+
+    with _store(ctx) as store:
+        picks = pick_list(store, plan)
+    if xlsx is not None:
+        rows = write_pick_list_xlsx(picks, xlsx)
+        typer.echo(f"wrote {rows} pick rows to {xlsx}", err=True)
+    typer.echo(json.dumps(picks.to_json(), ensure_ascii=False, indent=2) if as_json
+               else pick_list_text(picks))
+
+
+def _action(ctx: typer.Context, name: str, plan: str, as_json: bool) -> None:
+    from stock import kit
+
+    function = {"pull": kit.pull_plan, "undo": kit.undo_pull, "drop": kit.drop_plan}[name]
+    with _store(ctx) as store:
+        done = function(store, plan)
+    if as_json:
+        _echo_json(done.to_json())
+        return
+    typer.echo(f"plan {done.plan}: {done.status}")
+    for bin_key, delta in done.moves:
+        typer.echo(f"{bin_key}\t{delta:+d}")
+
+
+@kit_app.command("pull", help="Take a plan's parts out of their bins (one transaction; a second pull is refused).\n\n"
+                 "Example:\n\n    stock kit pull 3")
+def pull_command(ctx: typer.Context,
+                 plan: Annotated[str, typer.Argument(help="The plan number.")],
+                 as_json: Annotated[bool, typer.Option("--json", help="Print what moved as JSON.")] = False) -> None:
+    _action(ctx, "pull", plan, as_json)
+
+
+@kit_app.command("undo", help="Put a pulled plan's parts back in their bins.\n\nExample:\n\n    stock kit undo 3")
+def undo_command(ctx: typer.Context,
+                 plan: Annotated[str, typer.Argument(help="The plan number.")],
+                 as_json: Annotated[bool, typer.Option("--json", help="Print what moved as JSON.")] = False) -> None:
+    _action(ctx, "undo", plan, as_json)
+
+
+@kit_app.command("drop", help="Free a plan's reservation without taking the parts.\n\nExample:\n\n    stock kit drop 3")
+def drop_command(ctx: typer.Context,
+                 plan: Annotated[str, typer.Argument(help="The plan number.")],
+                 as_json: Annotated[bool, typer.Option("--json", help="Print the result as JSON.")] = False) -> None:
+    _action(ctx, "drop", plan, as_json)
+
+
+def register(app: typer.Typer) -> None:
+    app.add_typer(kit_app, name="kit")

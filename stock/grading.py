@@ -1,0 +1,702 @@
+"""Each part's fitness for each job, graded from its worst-case capacitance budget.
+
+For a marking and the operating conditions (temperature range, default 0…+50 °C, reference
++25 °C; working voltage; service life, default 10 years) :func:`worst_case` sums, each term on its
+own, in % of the nominal value:
+
+- **tolerance**: the initial tolerance as marked;
+- **temperature**: Class 1 (and families with a linear typical α): α ± its tolerance times the
+  temperature offset, worst corner of α range × (T − 25 °C) range. Class 2: the code's whole change
+  window: EIA-198 promises the window over the rated range and nothing tighter over part of it.
+  Families with a typical window (films, tantalum) are scaled to the range when their curve is
+  roughly linear (:mod:`stock.stability`), whole otherwise;
+- **ageing**: Class 2 only, the rate per decade-hour times the decades from 1000 h to the end of
+  the life;
+- **DC bias**: Class 2 only, the approximate model of :func:`stock.stability.dc_bias_loss_pct`.
+
+The terms add (a linear sum, conservative for small terms; a loss stops at 100 %). :func:`grade` then checks the budget
+and the part's kind, polarity, temperature range, voltage margin and safety class against one row
+of the application table (:mod:`stock.applications`). A grade is ``fit``, ``marginal``, ``unfit``
+or ``unknown`` (a fact needed is missing: the reasons say which); a definite ``unfit`` outranks an
+``unknown``.
+
+>>> from stock.decoded import Dielectric, Marking, Tolerance
+>>> x7r = Dielectric("X7R", "ceramic", 2, temp_min_c=Decimal(-55), temp_max_c=Decimal(125),
+...                  change_minus_pct=Decimal(15), change_plus_pct=Decimal(15))
+>>> part = Marking("104K X7R", Decimal(100000), Tolerance(Decimal(10), Decimal(10), "%"), dielectric=x7r)
+>>> grade(part, "tuned").word, grade(part, "bypass").word
+('unfit', 'fit')
+"""
+
+from __future__ import annotations
+
+import json
+import re
+from collections.abc import Iterable
+from dataclasses import dataclass, field, replace
+from decimal import Decimal
+from typing import Any
+
+from stock.applications import Rule, Rules, load_rules
+from stock.decoded import Marking
+from stock.errors import BadValue, NotFound
+from stock.stability import (
+    AGEING_REFERENCE_HOURS, DC_BIAS_LIMITS, SHELF_LIFE, ageing_decades, ageing_rate_pct,
+    assumed_tempco_tol, dc_bias_loss_pct, derating_for, is_polarised, temperature_figures,
+)
+from stock.units import format_capacitance, format_number, format_temperature_range, format_voltage
+
+APPLICATIONS: tuple[str, ...] = ("tuned", "timing", "signal", "bypass", "bulk", "mains")
+REFERENCE_C = Decimal(25)
+WORD_ORDER = ("fit", "marginal", "unfit")
+MAINS_CAUTION = ("mains work can kill: use only a part whose X/Y class and AC rating match the"
+                 " position, and defer to local electrical codes and licensed practice")
+
+
+@dataclass(frozen=True)
+class Conditions:
+    """Where the part will work: temperature range (°C), DC working voltage, service life (years)."""
+
+    temp_min_c: Decimal = Decimal(0)
+    temp_max_c: Decimal = Decimal(50)
+    working_v: Decimal | None = None
+    years: Decimal = Decimal(10)
+
+    def __post_init__(self) -> None:
+        if self.temp_min_c > self.temp_max_c:
+            raise BadValue("--temp", f"{self.temp_min_c}..{self.temp_max_c}",
+                           "a range with its low end first, such as 0..50")
+        if self.years < 0:
+            raise BadValue("--years", str(self.years), "a service life of 0 years or more")
+        if self.working_v is not None and self.working_v < 0:
+            raise BadValue("--volts", str(self.working_v), "a working voltage of 0 V or more")
+
+    def describe(self) -> str:
+        """``0…+50 °C, 10 years`` (and the working voltage when given)."""
+        text = f"{format_temperature_range(self.temp_min_c, self.temp_max_c)}, {format_number(self.years)} years"
+        if self.working_v is not None:
+            text += f", {format_voltage(self.working_v, None)} working"
+        return text
+
+    def to_json(self) -> dict[str, Any]:
+        return {"temp_min_c": float(self.temp_min_c), "temp_max_c": float(self.temp_max_c),
+                "working_v": None if self.working_v is None else float(self.working_v),
+                "years": float(self.years), "reference_c": float(REFERENCE_C)}
+
+
+@dataclass(frozen=True)
+class Term:
+    """One term of the budget: how far down (``minus_pct``) and up (``plus_pct``) it may move the value."""
+
+    name: str
+    minus_pct: Decimal
+    plus_pct: Decimal
+    basis: str
+    headline: str = ""      # the short form a grade's reason quotes ("X7R may move ±15 % over …")
+
+    def to_json(self) -> dict[str, Any]:
+        return {"name": self.name, "minus_pct": float(self.minus_pct), "plus_pct": float(self.plus_pct),
+                "basis": self.basis}
+
+
+@dataclass(frozen=True)
+class VoltageCheck:
+    """Working voltage against the rated voltage and the family's derating rule."""
+
+    working_v: Decimal
+    rated_v: Decimal
+    limit_fraction: Decimal
+    rule: str
+    source: str
+    word: str
+    reason: str
+
+    def to_json(self) -> dict[str, Any]:
+        return {"working_v": float(self.working_v), "rated_v": float(self.rated_v),
+                "limit_fraction": float(self.limit_fraction), "rule": self.rule, "source": self.source,
+                "word": self.word, "reason": self.reason}
+
+
+@dataclass(frozen=True)
+class Budget:
+    """The worst-case deviation of a part's capacitance, term by term, at some conditions.
+
+    A term is None when a fact it needs is missing; ``missing`` names those facts. Totals add the
+    known terms. ``out_of_range`` says how the operating range passes the part's rated range.
+    """
+
+    conditions: Conditions
+    tolerance: Term | None
+    temperature: Term | None
+    ageing: Term | None
+    dc_bias: Term | None
+    missing: tuple[str, ...] = ()
+    out_of_range: str | None = None
+    over_temperature: str | None = None
+    voltage: VoltageCheck | None = None
+    notes: tuple[str, ...] = ()
+
+    def terms(self) -> tuple[tuple[str, Term | None], ...]:
+        return (("tolerance", self.tolerance), ("temperature", self.temperature),
+                ("ageing", self.ageing), ("dc_bias", self.dc_bias))
+
+    def _sum(self, names: tuple[str, ...], side: str) -> Decimal:
+        return sum((getattr(t, side) for n, t in self.terms() if n in names and t is not None),
+                   Decimal(0))
+
+    # A part cannot lose more than all of its capacitance: the minus sums stop at 100 %.
+    @property
+    def drift_minus_pct(self) -> Decimal:
+        return min(self._sum(("temperature", "ageing", "dc_bias"), "minus_pct"), Decimal(100))
+
+    @property
+    def drift_plus_pct(self) -> Decimal:
+        return self._sum(("temperature", "ageing", "dc_bias"), "plus_pct")
+
+    @property
+    def total_minus_pct(self) -> Decimal:
+        return min(self._sum(("tolerance", "temperature", "ageing", "dc_bias"), "minus_pct"), Decimal(100))
+
+    @property
+    def total_plus_pct(self) -> Decimal:
+        return self._sum(("tolerance", "temperature", "ageing", "dc_bias"), "plus_pct")
+
+    def to_json(self) -> dict[str, Any]:
+        return {
+            "conditions": self.conditions.to_json(),
+            "terms": {n: (t.to_json() if t else None) for n, t in self.terms()},
+            "drift_minus_pct": float(self.drift_minus_pct), "drift_plus_pct": float(self.drift_plus_pct),
+            "total_minus_pct": float(self.total_minus_pct), "total_plus_pct": float(self.total_plus_pct),
+            "missing": list(self.missing), "out_of_range": self.out_of_range,
+            "over_temperature": self.over_temperature,
+            "voltage": self.voltage.to_json() if self.voltage else None, "notes": list(self.notes),
+        }
+
+
+@dataclass(frozen=True)
+class Grade:
+    """One part's grade for one application, with the reasons (numbers included) and the budget."""
+
+    application: str
+    word: str
+    reasons: tuple[str, ...]
+    budget: Budget | None = None
+
+    def to_json(self) -> dict[str, Any]:
+        return {"application": self.application, "grade": self.word, "reasons": list(self.reasons)}
+
+
+def pct(value: Decimal) -> str:
+    """A percentage for people: 3 decimals below 1 %, 2 below 10 %, 1 above.
+
+    >>> pct(Decimal("0.075")), pct(Decimal("3.886")), pct(Decimal("28.886"))
+    ('0.075', '3.89', '28.9')
+    """
+    places = 3 if value < 1 else 2 if value < 10 else 1
+    return format_number(round(value, places))
+
+
+def pm(minus: Decimal, plus: Decimal) -> str:
+    """``±15 %`` or ``+22/−82 %`` (``−3.89 %`` when only one side moves).
+
+    >>> pm(Decimal(15), Decimal(15)), pm(Decimal(82), Decimal(22)), pm(Decimal("3.886"), Decimal(0))
+    ('±15 %', '+22/−82 %', '−3.89 %')
+    """
+    if minus == plus:
+        return f"±{pct(plus)} %"
+    if plus == 0:
+        return f"\u2212{pct(minus)} %"
+    if minus == 0:
+        return f"+{pct(plus)} %"
+    return f"+{pct(plus)}/\u2212{pct(minus)} %"
+
+
+def _ppm(value: Decimal) -> str:
+    return format_number(value)
+
+
+def kind_of(marking: Marking) -> str | None:
+    """The table's kind for a part: ``ceramic-1``, ``ceramic-2``, a family name, or None if unknown."""
+    d = marking.dielectric
+    if d is None:
+        return None
+    if d.family == "ceramic":
+        if d.klass in (1, 2):
+            return f"ceramic-{d.klass}"
+        return None
+    return d.family
+
+
+def _linear_term(code: str, alpha: Decimal, tol: Decimal, c: Conditions, basis_note: str) -> Term:
+    offsets = (c.temp_min_c - REFERENCE_C, c.temp_max_c - REFERENCE_C)
+    corners = [a * dt for a in (alpha - tol, alpha + tol) for dt in offsets]
+    plus = max(max(corners), Decimal(0)) / 10_000       # ppm → %
+    minus = max(-min(corners), Decimal(0)) / 10_000
+    span = max(abs(o) for o in offsets)
+    headline = f"{code} is {_ppm(alpha)} ± {_ppm(tol)} ppm/K{basis_note}"
+    basis = (f"{headline}: over {format_temperature_range(c.temp_min_c, c.temp_max_c)} (up to"
+             f" {format_number(span)} K from +25 °C) it moves {pm(minus, plus)}")
+    return Term("temperature", minus, plus, basis, headline)
+
+
+def _outside(c: Conditions, low: Decimal | None, high: Decimal | None) -> bool:
+    return (low is not None and c.temp_min_c < low) or (high is not None and c.temp_max_c > high)
+
+
+def _temperature(marking: Marking, c: Conditions) -> tuple[Term | None, str | None, str | None]:
+    """(term, missing fact, out-of-range reason).
+
+    Figures from :func:`stock.stability.temperature_figures`. A family with both a linear α and
+    a window gets the larger of the two (the α is a typical figure, the window a typical bound).
+    """
+    d = marking.dielectric
+    if d is None:
+        return None, "dielectric (temperature behaviour)", None
+    here = format_temperature_range(c.temp_min_c, c.temp_max_c)
+    ceramic = d.family == "ceramic"
+    src = temperature_figures(d)
+    if src is None:
+        what = "Class 2 code (temperature window)" if d.klass == 2 else f"temperature behaviour of {d.code}"
+        return None, what, None
+    low, high = src.temp_min_c, src.temp_max_c
+    out = None
+    if _outside(c, low, high):
+        out = (f"{d.code} is rated for {format_temperature_range(low, high)} only; {here} runs past it,"
+               " where its value is not characterised")
+    note = "" if ceramic else " (typical for the family)"
+    candidates: list[Term] = []
+    if src.tempco_ppm_per_k is not None and not (ceramic and d.klass == 2):
+        tol = src.tempco_tol_ppm_per_k
+        if tol is None:
+            tol = assumed_tempco_tol(src.tempco_ppm_per_k)
+            note += f" (tempco tolerance not marked: ±{_ppm(tol)} ppm/K assumed)"
+        candidates.append(_linear_term(d.code, src.tempco_ppm_per_k, tol, c, note))
+    windowed = src.change_minus_pct is not None and src.change_plus_pct is not None
+    if windowed and low is not None and high is not None and not (ceramic and candidates):
+        candidates.append(_window_term(d.code, src.change_minus_pct, src.change_plus_pct, low, high, c,
+                                       scalable=src.linear, note=note))
+    if not candidates:
+        what = "Class 2 code (temperature window)" if d.klass == 2 else f"temperature behaviour of {d.code}"
+        return None, what, out
+    chosen = max(candidates, key=lambda t: max(t.minus_pct, t.plus_pct))
+    if src.source:
+        chosen = replace(chosen, basis=f"{chosen.basis} [{src.source}]")
+    return chosen, None, out
+
+
+def _window_term(code: str, minus: Decimal, plus: Decimal, low: Decimal, high: Decimal, c: Conditions,
+                 *, scalable: bool, note: str = "") -> Term:
+    rated = format_temperature_range(low, high)
+    here = format_temperature_range(c.temp_min_c, c.temp_max_c)
+    head = f"{code} may move {pm(minus, plus)} over {rated}{note}"
+    nearest = min(abs(low - REFERENCE_C), abs(high - REFERENCE_C))
+    span = max(abs(c.temp_min_c - REFERENCE_C), abs(c.temp_max_c - REFERENCE_C))
+    if scalable and nearest > 0 and span < nearest:
+        # a roughly linear curve: scale by the offset against the nearer rated end (conservative)
+        factor = span / nearest
+        m, p = minus * factor, plus * factor
+        return Term("temperature", m, p,
+                    f"{head}; roughly linear, so over {here} about {pm(m, p)}"
+                    f" ({format_number(span)} of {format_number(nearest)} K, scaled)", head)
+    return Term("temperature", minus, plus,
+                f"{head}; the window is all that is promised, so over {here} the same {pm(minus, plus)}",
+                head)
+
+
+def _voltage(marking: Marking, c: Conditions) -> tuple[VoltageCheck | None, str | None]:
+    if c.working_v is None:
+        return None, None
+    if marking.voltage_v is None:
+        return None, "rated voltage"
+    d = marking.dielectric
+    rule = derating_for(d.family if d else None, d.klass if d else None, marking.voltage_v)
+    limit = marking.voltage_v * rule.fraction
+    working, rated = format_voltage(c.working_v, None), format_voltage(marking.voltage_v, marking.voltage_kind)
+    share = format_number(round(c.working_v * 100 / marking.voltage_v, 1))
+    if c.working_v > marking.voltage_v:
+        word, reason = "unfit", f"{working} working is above the rated {rated}"
+    elif c.working_v > limit:
+        word, reason = "marginal", (f"{working} working is {share} % of the rated {rated}, past the"
+                                    f" customary {rule.rule} ({rule.source})")
+    else:
+        word, reason = "fit", f"{working} working is {share} % of the rated {rated} ({rule.rule})"
+    return VoltageCheck(c.working_v, marking.voltage_v, rule.fraction, rule.rule, rule.source, word,
+                        reason), None
+
+
+def worst_case(marking: Marking, conditions: Conditions = Conditions(), *,
+               bias_loss_pct: Decimal | None = None) -> Budget:
+    """The worst-case capacitance budget of a part at some conditions, each term on its own.
+
+    Args:
+        marking: the decoded part.
+        conditions: temperature range, working voltage, service life.
+        bias_loss_pct: a DC-bias loss read off the maker's curve; replaces the approximate model.
+
+    >>> from stock.decoded import Dielectric, Marking, Tolerance
+    >>> c0g = Dielectric("C0G", "ceramic", 1, Decimal(0), Decimal(30))
+    >>> b = worst_case(Marking("101J C0G", Decimal(100), Tolerance(Decimal(5), Decimal(5), "%"), dielectric=c0g))
+    >>> b.temperature.minus_pct, b.temperature.plus_pct, b.total_plus_pct
+    (Decimal('0.075'), Decimal('0.075'), Decimal('5.075'))
+    """
+    c = conditions
+    missing: list[str] = []
+    notes: list[str] = []
+    d = marking.dielectric
+    klass2 = d is not None and d.family == "ceramic" and d.klass == 2
+
+    tolerance = None
+    if marking.tolerance is None:
+        missing.append("tolerance")
+    else:
+        as_pct = marking.tolerance.as_percent(marking.capacitance_pf)
+        if as_pct is None:
+            missing.append("capacitance (to turn a pF tolerance into %)")
+        else:
+            tolerance = Term("tolerance", as_pct[0], as_pct[1], f"marked {pm(*as_pct)}")
+
+    temperature, lacking, out = _temperature(marking, c)
+    if lacking:
+        missing.append(lacking)
+
+    over = None
+    if marking.rated_temp_c is not None and c.temp_max_c > marking.rated_temp_c:
+        over = (f"{format_temperature_range(c.temp_min_c, c.temp_max_c)} runs above the part's rated"
+                f" {format_number(marking.rated_temp_c)} °C")
+
+    unknown_class = d is not None and d.family == "ceramic" and d.klass not in (1, 2)
+    if unknown_class:
+        missing.append("ceramic class (1 or 2)")
+    if d is None or unknown_class:
+        ageing = None
+    elif klass2:
+        rate = ageing_rate_pct(d.code, 2)
+        decades = ageing_decades(c.years)
+        loss = rate * decades
+        ageing = Term("ageing", loss, Decimal(0),
+                      f"{d.code} ages {format_number(rate)} % per decade-hour; {format_number(c.years)} years"
+                      f" is {format_number(decades)} decades past the {format_number(AGEING_REFERENCE_HOURS)} h"
+                      f" reference: {pm(loss, Decimal(0))} (S35 maxima; soldering heat resets it)")
+    elif d.family == "ceramic":
+        ageing = Term("ageing", Decimal(0), Decimal(0), "Class 1 ceramics do not age (S35)")
+    else:
+        ageing = Term("ageing", Decimal(0), Decimal(0), f"no logarithmic ageing counted for {d.family}")
+
+    if d is None or unknown_class:
+        dc_bias = None
+    elif not klass2:
+        dc_bias = Term("dc_bias", Decimal(0), Decimal(0),
+                       "no DC-bias loss for Class 1 (S32, S35)" if d.family == "ceramic"
+                       else f"no DC-bias loss counted for {d.family}")
+    elif bias_loss_pct is not None:
+        dc_bias = Term("dc_bias", bias_loss_pct, Decimal(0), f"{pm(bias_loss_pct, Decimal(0))} from the datasheet curve")
+    elif c.working_v is None:
+        dc_bias = Term("dc_bias", Decimal(0), Decimal(0), "no working voltage given: DC-bias loss not counted")
+        notes.append("give --volts to count the DC-bias loss of this Class 2 part")
+    elif marking.voltage_v is None:
+        dc_bias = None
+        missing.append("rated voltage (for the DC-bias loss)")
+    else:
+        loss = dc_bias_loss_pct(d.code, marking.capacitance_pf, c.working_v, marking.voltage_v)
+        dc_bias = Term("dc_bias", loss, Decimal(0),
+                       f"{format_voltage(c.working_v, None)} on a {format_voltage(marking.voltage_v, None)} part:"
+                       f" about {pm(loss, Decimal(0))} ({DC_BIAS_LIMITS})")
+
+    voltage, lacking_v = _voltage(marking, c)
+    if lacking_v and lacking_v not in " ".join(missing):
+        missing.append(lacking_v)
+
+    kind = kind_of(marking)
+    if kind in SHELF_LIFE:
+        notes.append(SHELF_LIFE[kind])
+    return Budget(c, tolerance, temperature, ageing, dc_bias, tuple(missing), out, over, voltage, tuple(notes))
+
+
+_SAFETY = re.compile(r"([XY])([1-4])", re.IGNORECASE)
+
+
+def _safety(marking: Marking, rule: Rule) -> tuple[str, str]:
+    found = {m[0].upper() for m in _SAFETY.findall(marking.safety_class or "")}
+    if not found:
+        return "unfit", "no X/Y safety class (IEC 60384-14) marked: never use it across the mains"
+    cls = (marking.safety_class or "").upper()
+    if "Y" in found:
+        return "fit", (f"{cls} is a Y class: it may serve line–earth and, being tested harder and"
+                       " failing open, a line–line (X) position too")
+    if rule.position == "line-earth":
+        return "unfit", f"{cls} is an X class only: a line–earth position needs a Y class"
+    if rule.position == "line-line":
+        return "fit", f"{cls} is an X class: line–line positions only"
+    return "marginal", f"{cls} serves line–line (X) positions only; never put it line–earth (needs Y)"
+
+
+def _level(value: Decimal, fit: Decimal, marginal: Decimal) -> str:
+    return "fit" if value <= fit else "marginal" if value <= marginal else "unfit"
+
+
+KIND_NAMES = {"ceramic-1": "a Class 1 ceramic", "ceramic-2": "a Class 2 ceramic"}
+
+
+def _kind_name(kind: str) -> str:
+    return KIND_NAMES.get(kind, kind.replace("-", " "))
+
+
+def _breakdown(budget: Budget, loss_only: bool) -> str:
+    parts = []
+    for name, term in budget.terms()[1:]:
+        if term is not None and (term.minus_pct or (term.plus_pct and not loss_only)):
+            shown = pm(term.minus_pct, Decimal(0) if loss_only else term.plus_pct)
+            parts.append(f"{name.replace('dc_bias', 'DC bias')} {shown}")
+    return ", ".join(parts) or "no drift counted"
+
+
+def _judge(marking: Marking, rule: Rule, budget: Budget) -> list[tuple[str, str]]:
+    """Every check as (word, reason), the most telling first; the worst word decides."""
+    out: list[tuple[str, str]] = []
+    c = budget.conditions
+    here = format_temperature_range(c.temp_min_c, c.temp_max_c)
+    if rule.safety:
+        out.append(_safety(marking, rule))
+    if budget.over_temperature:
+        out.append(("unfit", budget.over_temperature))
+    if budget.out_of_range:
+        out.append(("unfit" if rule.value_critical else "marginal",
+                    budget.out_of_range + ("" if rule.value_critical else "; the value there is a guess")))
+
+    kind = kind_of(marking)
+    loss_only = rule.sides == "loss"
+    t = budget.temperature
+    family = marking.dielectric.family if marking.dielectric else None
+    if t is None:
+        if rule.value_critical or (family is None and not (rule.safety and marking.safety_class)):
+            fact = next((m for m in budget.missing if "dielectric" in m or "temperature" in m), "dielectric")
+            out.append(("unknown", f"not known how it moves with temperature: {fact} missing"))
+    else:
+        drift = budget.drift_minus_pct if loss_only else max(budget.drift_minus_pct, budget.drift_plus_pct)
+        shown = pm(budget.drift_minus_pct, Decimal(0) if loss_only else budget.drift_plus_pct)
+        word = _level(drift, rule.drift_fit_pct, rule.drift_marginal_pct)
+        limit = rule.drift_fit_pct if word == "fit" else rule.drift_marginal_pct
+        verdict = (f"within {rule.name}'s {pct(limit)} % for {word}" if word != "unfit"
+                   else f"past {rule.name}'s {pct(limit)} % for marginal")
+        out.append((word, f"{t.headline}; over {here} for {format_number(c.years)} years expect a drift of up"
+                    f" to {shown} ({_breakdown(budget, loss_only)}), {verdict}"))
+        if budget.tolerance is None:
+            if rule.value_critical:
+                out.append(("unknown", "the tolerance is not marked"))
+        else:
+            total = budget.total_minus_pct if loss_only else max(budget.total_minus_pct, budget.total_plus_pct)
+            shown = pm(budget.total_minus_pct, Decimal(0) if loss_only else budget.total_plus_pct)
+            word = _level(total, rule.total_fit_pct, rule.total_marginal_pct)
+            limit = rule.total_fit_pct if word == "fit" else rule.total_marginal_pct
+            verdict = (f"within {rule.name}'s {pct(limit)} % for {word}" if word != "unfit"
+                       else f"past {rule.name}'s {pct(limit)} % for marginal")
+            out.append((word, f"with the tolerance ({budget.tolerance.basis}) up to {shown} in all, {verdict}"))
+
+    if rule.min_capacitance_pf is not None:
+        if marking.capacitance_pf is None:
+            out.append(("unknown", "the capacitance is not known"))
+        elif marking.capacitance_pf < rule.min_capacitance_pf:
+            out.append(("unfit", f"{format_capacitance(marking.capacitance_pf)} is too small for {rule.name}"
+                        f" (at least {format_capacitance(rule.min_capacitance_pf)})"))
+    if kind is None and family == "ceramic":
+        # class unknown: the worse of the two classes, unless the value matters
+        word = max((rule.kind_word("ceramic-1"), rule.kind_word("ceramic-2")), key=WORD_ORDER.index)
+        if rule.value_critical:
+            out.append(("unknown", "a ceramic of unknown class (1 or 2): mark its dielectric code"))
+        else:
+            out.append((word, f"a ceramic of unknown class: either class is {word} for {rule.name}"))
+    elif kind is None:
+        if not (rule.safety and marking.safety_class):
+            out.append(("unknown", "the dielectric or family is not known"))
+    else:
+        word = rule.kind_word(kind)
+        if word == "unfit":
+            out.append((word, f"{_kind_name(kind)} does not belong in {rule.name} ({rule.description})"))
+        elif word == "marginal":
+            out.append((word, f"{_kind_name(kind)} is at best marginal for {rule.name} ({rule.description})"))
+    if is_polarised(family, marking.polarity):
+        if rule.polarised == "unfit":
+            out.append(("unfit", f"polarised part: {rule.name} puts AC or reversal on it"))
+        elif rule.polarised == "marginal":
+            out.append(("marginal", "polarised part: only where a steady DC bias keeps it the right way round"))
+        else:
+            out.append(("fit", "polarised part: observe the polarity"))
+    if budget.voltage is not None:
+        out.append((budget.voltage.word, budget.voltage.reason))
+    elif c.working_v is not None and marking.voltage_v is None:
+        out.append(("unknown", "the rated voltage is not marked"))
+    return out
+
+
+def _decide(checks: list[tuple[str, str]]) -> str:
+    words = {w for w, _ in checks}
+    if "unfit" in words:
+        return "unfit"
+    if "unknown" in words:
+        return "unknown"
+    return "marginal" if "marginal" in words else "fit"
+
+
+def grade(marking: Marking, application: str, conditions: Conditions = Conditions(), *,
+          rules: Rules | None = None, budget: Budget | None = None) -> Grade:
+    """Grade one part for one application.
+
+    The first reason reads ``"<word> for <application>: ..."``; the reasons that decided come
+    first, then the rest. Mains grades always carry the safety caution.
+
+    Raises:
+        BadValue: the application is not one of :data:`APPLICATIONS`.
+    """
+    rules = rules or load_rules()
+    if application not in rules.rows:
+        raise BadValue("application", application, "one of " + ", ".join(rules.rows))
+    rule = rules[application]
+    budget = budget or worst_case(marking, conditions)
+    checks = _judge(marking, rule, budget)
+    word = _decide(checks)
+    deciding = [r for w, r in checks if w == word]
+    others = [r for w, r in checks if w != word]
+    if not deciding:  # every check passed: lead with the budget line
+        deciding, others = others[:1], others[1:]
+    reasons = [f"{word} for {application}: {deciding[0]}"] + deciding[1:] + others
+    reasons += list(budget.notes)
+    if rule.safety:
+        reasons.append(MAINS_CAUTION)
+    return Grade(application, word, tuple(reasons), budget)
+
+
+def grade_all(marking: Marking, conditions: Conditions = Conditions(), *,
+              rules: Rules | None = None) -> dict[str, Grade]:
+    """Grades for every application, in :data:`APPLICATIONS` order (one budget shared)."""
+    rules = rules or load_rules()
+    budget = worst_case(marking, conditions)
+    return {name: grade(marking, name, conditions, rules=rules, budget=budget) for name in rules.rows}
+
+
+def conditions_from_text(temp: str | None = None, volts: str | None = None,
+                         years: str | None = None) -> Conditions:
+    """Conditions from what a user typed (``--temp 0..50``, ``--volts 12``, ``--years 10``).
+
+    Raises:
+        BadValue: a value does not parse, naming the option.
+
+    >>> conditions_from_text("-20..60", "12", "5").describe()
+    '−20…+60 °C, 5 years, 12 V working'
+    """
+    from stock.units import parse_temperature_range, parse_voltage
+
+    low, high = parse_temperature_range(temp, "--temp") if temp else (Decimal(0), Decimal(50))
+    working = parse_voltage(volts, "--volts") if volts else None
+    life = Decimal(10)
+    if years is not None:
+        try:
+            life = Decimal(str(years).strip())
+        except ArithmeticError:
+            raise BadValue("--years", str(years), "a service life in years such as 10 or 2.5") from None
+        if not life.is_finite() or life < 0:
+            raise BadValue("--years", str(years), "a service life in years such as 10 or 2.5")
+    return Conditions(low, high, working, life)
+
+
+def _row_marking(row: dict[str, Any]) -> Marking:
+    try:
+        from stock.bins import part_marking
+    except ImportError:  # the store's reader is another module's; fall back to the JSON contract
+        text = row.get("settled_json") or row["decoded_json"]
+        data = json.loads(text)
+        return Marking.from_json(data.get("marking", data) if isinstance(data, dict) else data)
+    return part_marking(row)
+
+
+_PART_SQL = ("SELECT b.id AS bin_id, b.bin_key, b.location, b.label, p.decoded_json, p.settled_json"
+             " FROM parts p JOIN bins b ON b.id = p.bin_id")
+
+
+@dataclass(frozen=True)
+class BinGrades:
+    """One stored part and its grades."""
+
+    bin_id: int
+    bin_key: str
+    location: str | None
+    marking: Marking
+    grades: dict[str, Grade] = field(default_factory=dict)
+
+    def to_json(self) -> dict[str, Any]:
+        return {"bin_id": self.bin_id, "bin_key": self.bin_key, "location": self.location,
+                "marking": self.marking.text,
+                "grades": {n: g.word for n, g in self.grades.items()},
+                "reasons": {n: list(g.reasons) for n, g in self.grades.items()}}
+
+
+def _parts(store, bin_refs: Iterable[str] | None) -> list[dict[str, Any]]:
+    if not bin_refs:
+        return store.rows(_PART_SQL + " ORDER BY b.bin_key")
+    rows = []
+    for ref in bin_refs:
+        found = store.find_bin(ref)
+        row = store.one(_PART_SQL + " WHERE b.id = ?", (found["id"],))
+        if row is None:
+            raise NotFound("part in bin", str(ref), "a bin that holds a decoded part")
+        rows.append(row)
+    return rows
+
+
+def grade_bins(store, bin_refs: Iterable[str] | None = None, conditions: Conditions = Conditions(), *,
+               rules: Rules | None = None) -> list[BinGrades]:
+    """Grade the parts in some bins (all when none are named) at some conditions.
+
+    Raises:
+        NotFound: a bin reference matches nothing, or its bin holds no part.
+    """
+    rules = rules or load_rules(db_path=store.path)
+    return [BinGrades(r["bin_id"], r["bin_key"], r["location"], m, grade_all(m, conditions, rules=rules))
+            for r in _parts(store, bin_refs) for m in (_row_marking(r),)]
+
+
+def bin_marking(store, ref: str) -> tuple[dict[str, Any], Marking]:
+    """A stored part's row and marking, by bin reference (see :meth:`Store.find_bin`)."""
+    row = _parts(store, [ref])[0]
+    return row, _row_marking(row)
+
+
+def current_version(store) -> str:
+    """The table version stored grades must carry: the table in force for this database."""
+    return load_rules(db_path=store.path).version
+
+
+def refresh_stored_grades(store, bin_ids: Iterable[int] | None = None) -> int:
+    """Store each part's grades at the default conditions; returns how many parts were graded.
+
+    With ``bin_ids`` those parts are graded again (their marking may have changed). Without, only
+    parts whose stored grades are missing or carry another table version (the application table,
+    a shop override beside the database, or the model changed) are graded: a cheap no-op when
+    nothing changed.
+    """
+    rules = load_rules(db_path=store.path)
+    if bin_ids is not None:
+        ids = sorted(set(int(i) for i in bin_ids))
+        rows = [r for i in ids for r in store.rows(_PART_SQL + " WHERE b.id = ?", (i,))]
+    else:
+        rows = store.rows(
+            _PART_SQL + " WHERE (SELECT COUNT(*) FROM grades g WHERE g.bin_id = p.bin_id"
+            " AND g.table_version = ?) < ?", (rules.version, len(rules.rows)))
+    if not rows:
+        return 0
+    records = []
+    for r in rows:
+        for name, g in grade_all(_row_marking(r), Conditions(), rules=rules).items():
+            records.append((r["bin_id"], name, g.word, json.dumps(list(g.reasons), ensure_ascii=False),
+                            rules.version))
+    with store.writing():
+        store.db.conn.executemany(
+            "INSERT INTO grades (bin_id, application, grade, reasons_json, table_version)"
+            " VALUES (?, ?, ?, ?, ?) ON CONFLICT(bin_id, application) DO UPDATE SET"
+            " grade = excluded.grade, reasons_json = excluded.reasons_json,"
+            " table_version = excluded.table_version", records)
+    return len(rows)
+
+
+__all__ = ["APPLICATIONS", "MAINS_CAUTION", "REFERENCE_C", "BinGrades", "Budget", "Conditions", "Grade",
+           "Term", "VoltageCheck", "bin_marking", "conditions_from_text", "current_version", "grade", "grade_all", "grade_bins",
+           "kind_of", "refresh_stored_grades", "worst_case"]

@@ -1,0 +1,581 @@
+"""Kitting a build from stock: plan a BOM against the bins, reserve, pull, undo, drop.
+
+A plan turns a BOM and a board count into a need per line (quantity per board × boards, plus a
+spare rounded up), chooses bins for each capacitor line and reserves those parts, so two plans
+never promise the same parts. Everything a plan decides is written in one ``BEGIN IMMEDIATE``
+transaction that reads availability inside it: a second planner waits, then sees the first
+plan's reservations.
+
+How a line's bins are chosen (common practice, no published source):
+
+1. Candidates come from :func:`stock.search.candidates`; each is then checked again here
+   (:func:`stock.kit_rules.check_part`) so the safety rules hold whatever the search returns: a mains line takes
+   only parts carrying its X/Y class or a higher one, never anything else; a tuned line never
+   takes a Class 2 ceramic; a polarised part goes only where the BOM says polarised. A looser
+   tolerance or a lower dielectric class is refused unless ``allow`` names it.
+2. Fit grade before marginal, the exact nominal value before a near one.
+3. Fewest bins: the largest bins first until one bin covers what is left, then the smallest bin
+   that does, so part-full bins get used up.
+4. With ``combine``, what singles cannot cover may come from pairs (two parts per position); never
+   on a mains line.
+
+Pull, undo and drop each run in one transaction; the plan's status (reserved → pulled →
+returned, or reserved → dropped) is read inside it, so a second pull of the same plan, even from
+another process at the same moment, is refused with :class:`~stock.errors.Refused`.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from collections import defaultdict
+from dataclasses import dataclass, field, replace
+from decimal import Decimal
+from pathlib import Path
+from typing import Any, Iterable
+
+from stock.bom import Bom, BomLine, read_bom
+from stock.decoded import Marking
+from stock.errors import BadValue, NotFound, Refused
+from stock.kit_rules import ALLOWANCES, Candidate, Verdict, check_part, choose_bins, cautions_for
+from stock.store import Store, now
+
+@dataclass(frozen=True)
+class KitOptions:
+    """How to plan: boards, spare (% of the need, rounded up), conditions, pairs and allowances."""
+
+    boards: int
+    spare_pct: Decimal = Decimal(0)
+    temp_min_c: Decimal | None = None
+    temp_max_c: Decimal | None = None
+    combine: bool = False
+    allow: frozenset[str] = frozenset()
+
+    def __post_init__(self) -> None:
+        if self.boards < 1:
+            raise BadValue("--boards", str(self.boards), "a whole number of boards, 1 or more")
+        if self.spare_pct < 0:
+            raise BadValue("--spare", str(self.spare_pct), "a percentage of 0 or more")
+        unknown = set(self.allow) - set(ALLOWANCES)
+        if unknown:
+            raise BadValue("--allow", ", ".join(sorted(unknown)), "one of " + ", ".join(ALLOWANCES))
+
+    def need(self, qty_per_board: int) -> int:
+        """Parts to plan for one line: per board × boards, plus the spare rounded up.
+
+        >>> KitOptions(boards=5, spare_pct=Decimal(5)).need(3)
+        16
+        """
+        base = qty_per_board * self.boards
+        return base + math.ceil(Decimal(base) * self.spare_pct / 100)
+
+    def conditions(self) -> Any:
+        from stock.grading import Conditions
+
+        if self.temp_min_c is None or self.temp_max_c is None:
+            return Conditions()
+        return Conditions(temp_min_c=self.temp_min_c, temp_max_c=self.temp_max_c)
+
+    def to_json(self) -> dict[str, Any]:
+        return {"boards": self.boards, "spare_pct": float(self.spare_pct),
+                "temp_min_c": None if self.temp_min_c is None else float(self.temp_min_c),
+                "temp_max_c": None if self.temp_max_c is None else float(self.temp_max_c),
+                "combine": self.combine, "allow": sorted(self.allow)}
+
+
+def kit_options(boards: int, *, temp: str | None = None, spare: str | None = None,
+                combine: bool = False, allow: Iterable[str] = ()) -> KitOptions:
+    """Options from the words a user typed (``--temp 0..50``, ``--spare 5%``, ``--allow ...``).
+
+    Raises:
+        BadValue: a value does not read, naming the option and what it accepts.
+
+    >>> kit_options(5, temp="-10..60", spare="5%").to_json()["temp_min_c"]
+    -10.0
+    """
+    from stock.units import parse_percent, parse_temperature_range
+
+    low = high = None
+    if temp:
+        low, high = parse_temperature_range(temp, "--temp")
+    words = frozenset(w.strip().lower() for item in allow for w in item.split(",") if w.strip())
+    return KitOptions(boards=boards, spare_pct=parse_percent(spare, "--spare") if spare else Decimal(0),
+                      temp_min_c=low, temp_max_c=high, combine=combine, allow=words)
+
+
+@dataclass(frozen=True)
+class Allocation:
+    """Parts of one bin held for one line."""
+
+    bin_id: int
+    bin_key: str
+    location: str | None
+    marking: str
+    qty: int
+
+    def to_json(self) -> dict[str, Any]:
+        return {"bin": self.bin_key, "qty": self.qty}
+
+
+@dataclass(frozen=True)
+class PlanLine:
+    """One BOM line in a plan: what it needs, the bins chosen, what is short and why."""
+
+    line_no: int
+    row: int | None
+    refs: tuple[str, ...]
+    value: str
+    kind: str
+    tracked: bool
+    need: int
+    allocations: tuple[Allocation, ...]
+    short: int
+    notes: tuple[str, ...]
+    requirement: str                  # in words, for ordering
+    details: dict[str, Any] = field(default_factory=dict)
+
+    def to_json(self) -> dict[str, Any]:
+        return {"refs": list(self.refs), "need": self.need,
+                "allocations": [a.to_json() for a in self.allocations], "short": self.short,
+                "notes": list(self.notes), "line": self.line_no, "row": self.row,
+                "value": self.value, "requirement": self.requirement}
+
+
+@dataclass(frozen=True)
+class KitPlan:
+    """A numbered plan as stored: its lines, what is not tracked, what could not be read, cautions."""
+
+    id: int
+    boards: int
+    status: str
+    created_at: str
+    changed_at: str | None
+    bom_path: str | None
+    options: dict[str, Any]
+    lines: tuple[PlanLine, ...]
+    cautions: tuple[str, ...]
+
+    @property
+    def tracked_lines(self) -> tuple[PlanLine, ...]:
+        return tuple(line for line in self.lines if line.tracked)
+
+    @property
+    def not_tracked(self) -> tuple[PlanLine, ...]:
+        return tuple(line for line in self.lines if not line.tracked)
+
+    @property
+    def errors(self) -> tuple[dict[str, Any], ...]:
+        return tuple(line.details["error"] for line in self.lines if line.details.get("error"))
+
+    @property
+    def short_lines(self) -> int:
+        return sum(1 for line in self.tracked_lines if line.short > 0)
+
+    def to_json(self) -> dict[str, Any]:
+        """The ``stock kit plan --json`` shape (stable contract)."""
+        return {
+            "plan": self.id, "boards": self.boards,
+            "lines": [line.to_json() for line in self.tracked_lines],
+            "short_lines": self.short_lines,
+            "status": self.status, "created_at": self.created_at, "bom": self.bom_path,
+            "options": self.options, "cautions": list(self.cautions),
+            "not_tracked": [{"refs": list(line.refs), "value": line.value, "kind": line.kind,
+                             "need": line.need, "row": line.row} for line in self.not_tracked],
+            "errors": list(self.errors),
+        }
+
+
+@dataclass(frozen=True)
+class KitAction:
+    """What a pull, undo or drop did: the plan's new status and each bin's movement."""
+
+    plan: int
+    action: str
+    status: str
+    moves: tuple[tuple[str, int], ...]
+
+    def to_json(self) -> dict[str, Any]:
+        return {"plan": self.plan, "action": self.action, "status": self.status,
+                "moves": [{"bin": b, "delta": d} for b, d in self.moves]}
+
+
+def _search_requirement(line: BomLine, options: KitOptions) -> Any:
+    """The requirement handed to the search: the BOM's limits less what ``allow`` relaxes.
+
+    The rated voltage is checked here (the BOM gives a rating, not a working voltage), and so is
+    the dielectric class, so those are not passed on. Marginal grades are let through and rank
+    after fit ones (grading calls every X-only part marginal for mains, as it may not go
+    line to earth; the class check here keeps it to the class the line names).
+    """
+    from stock.search import Requirement
+
+    allow = options.allow
+    lower_ok = "lower-class" in allow and line.application not in ("tuned", "mains")
+    tol = line.tol_pct if "looser-tolerance" not in allow else None
+    if tol is not None and not Decimal(0) < tol < 100:
+        tol = None
+    family = line.dielectric.family if line.dielectric is not None else None
+    return Requirement(
+        capacitance_pf=line.capacitance_pf, tol_pct=tol,
+        tempco_min=None if lower_ok else line.tempco_min,
+        tempco_max=None if lower_ok else line.tempco_max,
+        application=line.application, allow_marginal=True,
+        conditions=options.conditions(), family=family, safety_class=line.safety_class, qty=1)
+
+
+def describe_line(line: BomLine, options: KitOptions, qty: int = 1) -> str:
+    """The line's full requirement in words, for ordering what is short."""
+    from stock.search import Requirement
+    from stock.units import format_voltage
+
+    code = line.dielectric.code if line.dielectric is not None else None
+    req = Requirement(
+        capacitance_pf=line.capacitance_pf,
+        tol_pct=line.tol_pct if line.tol_pct is not None and 0 < line.tol_pct < 100 else None,
+        tempco_min=line.tempco_min, tempco_max=line.tempco_max,
+        application=line.application, conditions=options.conditions(),
+        family=None if code else None, safety_class=line.safety_class, qty=max(qty, 1))
+    words = req.describe()
+    extra = [code] if code and code not in words else []
+    if line.voltage_v is not None:
+        extra.append(f"rated ≥ {format_voltage(line.voltage_v, line.voltage_kind or 'DC')}")
+    if line.polarised:
+        extra.append("polarised")
+    return ", ".join([words, *extra])
+
+
+def _marking_of(store: Store, bin_id: int) -> tuple[Marking, str, dict[str, Any]] | None:
+    from stock.bins import part_marking
+
+    row = store.one("SELECT p.*, b.bin_key, b.location FROM parts p JOIN bins b ON b.id = p.bin_id"
+                    " WHERE p.bin_id = ?", (bin_id,))
+    if row is None:
+        return None
+    return part_marking(row), row["marking"], row
+
+
+def _hold(store: Store, plan_id: int, line_id: int, bin_id: int, qty: int) -> None:
+    store.db.conn.execute("INSERT INTO reservations (plan_id, line_id, bin_id, qty) VALUES (?,?,?,?)",
+                          (plan_id, line_id, bin_id, qty))
+
+
+def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
+             notes: list[str]) -> dict[int, int]:
+    """Bins and quantities of single parts for a line (at most ``need``), with their notes."""
+    from stock.search import candidates
+
+    req = _search_requirement(line, options)
+    refused: list[str] = []
+    pool: list[Candidate] = []
+    for match in candidates(store, req):
+        marking = match.decoded if match.decoded is not None else _marking_of(store, match.bin_id)[0]
+        verdict = check_part(line, marking, match.capacitance_pf, options.allow)
+        if verdict.refused:
+            refused.append(f"{match.bin_key} ({match.marking}): {verdict.refused}")
+            continue
+        free = store.available(match.bin_id)        # re-read inside this plan's transaction
+        if free <= 0:
+            continue
+        pool.append(Candidate(match.bin_id, match.bin_key, match.location, marking,
+                              match.capacitance_pf, free, match.grade, tuple(match.reasons),
+                              exact=match.capacitance_pf == line.capacitance_pf))
+    taken: dict[int, int] = {}
+    for cand, qty in choose_bins(need, pool):
+        taken[cand.bin_id] = qty
+        verdict = check_part(line, cand.marking, cand.capacitance_pf, options.allow)
+        notes.extend(f"{cand.bin_key}: {note}" for note in verdict.notes)
+        if cand.grade == "marginal":
+            why = "; ".join(cand.grade_reasons[-1:])
+            notes.append(f"{cand.bin_key}: marginal for {line.application}"
+                         + (f" ({why})" if why else ""))
+    if sum(taken.values()) < need and refused:
+        notes.append("not used: " + "; ".join(refused[:3]) + (" ..." if len(refused) > 3 else ""))
+    return taken
+
+
+def _pair_text(combo: Any) -> str:
+    from stock.units import format_capacitance
+
+    parts = []
+    for p in combo.parts:
+        parts.append(f"{format_capacitance(p.capacitance_pf)} from {p.bin_key}"
+                     + (f" ×{p.count}" if p.count > 1 else ""))
+    worst = (f", worst case ±{combo.worst_case_pct:.2f} %" if combo.worst_case_pct is not None else "")
+    return (f"{combo.kind} pair: {' + '.join(parts)} = {format_capacitance(combo.capacitance_pf)}"
+            f"{worst}")
+
+
+def _pairs(store: Store, plan_id: int, line_id: int, line: BomLine, options: KitOptions,
+           left: int, notes: list[str]) -> dict[int, int]:
+    """Pairs for up to ``left`` positions (two parts per position), held as they are chosen."""
+    from stock.search import find
+
+    taken: dict[int, int] = defaultdict(int)
+    filled = 0
+    for combo in find(store, _search_requirement(line, options), combine=True).combinations:
+        if filled >= left:
+            break
+        per_position: dict[int, int] = defaultdict(int)
+        for part in combo.parts:
+            per_position[part.bin_id] += part.count
+        verdicts = []
+        for bin_id in per_position:
+            found = _marking_of(store, bin_id)
+            verdicts.append(check_part(line, found[0], None, options.allow, in_pair=True)
+                            if found else Verdict("no part recorded"))
+        if any(v.refused for v in verdicts):
+            continue
+        if line.tol_pct is not None and "looser-tolerance" not in options.allow:
+            if combo.worst_case_pct is None or combo.worst_case_pct > line.tol_pct:
+                continue
+        elif line.tol_pct is None and combo.capacitance_pf != line.capacitance_pf:
+            continue
+        positions = min(store.available(b) // n for b, n in per_position.items())
+        use = min(positions, left - filled)
+        if use <= 0:
+            continue
+        for bin_id, n in per_position.items():
+            _hold(store, plan_id, line_id, bin_id, n * use)
+            taken[bin_id] += n * use
+        filled += use
+        notes.append(f"{use} position(s) from a {_pair_text(combo)}; two parts per position")
+        for v in verdicts:
+            notes.extend(v.notes)
+    taken["positions"] = filled          # type: ignore[index]
+    return taken
+
+
+def _line_details(line: BomLine, describe: str) -> dict[str, Any]:
+    def f(v: Decimal | None) -> float | None:
+        return None if v is None else float(v)
+
+    return {
+        "row": line.row, "value": line.value_text, "kind": line.kind, "describe": describe,
+        "capacitance_pf": f(line.capacitance_pf), "tol_pct": f(line.tol_pct),
+        "voltage_v": f(line.voltage_v), "voltage_kind": line.voltage_kind,
+        "dielectric": line.dielectric.code if line.dielectric else None,
+        "family": line.dielectric.family if line.dielectric else None,
+        "tempco_min": f(line.tempco_min), "tempco_max": f(line.tempco_max),
+        "application": line.application, "safety_class": line.safety_class,
+        "polarised": line.polarised, "qty_per_board": line.qty_per_board,
+        "error": line.problem.to_json() if line.problem else None,
+    }
+
+
+def _plan_line(store: Store, plan_id: int, line_no: int, line: BomLine,
+               options: KitOptions) -> None:
+    conn = store.db.conn
+    if not line.tracked:
+        need = line.qty_per_board * options.boards
+        conn.execute("INSERT INTO plan_lines (plan_id, line_no, refs_json, need, short, tracked,"
+                     " requirement_json, notes_json) VALUES (?,?,?,?,0,0,?,?)",
+                     (plan_id, line_no, json.dumps(line.refs), need,
+                      json.dumps(_line_details(line, f"{line.kind}: {line.value_text}")),
+                      json.dumps([f"not tracked: {line.kind}"])))
+        return
+    need = options.need(line.qty_per_board)
+    notes: list[str] = list(line.remarks)
+    if line.problem is not None or line.capacitance_pf is None:
+        problem = line.problem
+        notes.append(f"cannot plan: {problem}" if problem else "cannot plan: no value")
+        conn.execute("INSERT INTO plan_lines (plan_id, line_no, refs_json, need, short, tracked,"
+                     " requirement_json, notes_json) VALUES (?,?,?,?,?,1,?,?)",
+                     (plan_id, line_no, json.dumps(line.refs), need, need,
+                      json.dumps(_line_details(line, f"unreadable: {line.value_text!r}")),
+                      json.dumps(notes)))
+        return
+    describe = describe_line(line, options)
+    cur = conn.execute("INSERT INTO plan_lines (plan_id, line_no, refs_json, need, short, tracked,"
+                       " requirement_json, notes_json) VALUES (?,?,?,?,?,1,?,'[]')",
+                       (plan_id, line_no, json.dumps(line.refs), need, need,
+                        json.dumps(_line_details(line, describe))))
+    line_id = cur.lastrowid
+    filled = 0
+    if need > 0:
+        singles = _singles(store, line, options, need, notes)
+        for bin_id, qty in singles.items():
+            _hold(store, plan_id, line_id, bin_id, qty)
+        filled = sum(singles.values())
+        if filled < need and options.combine:
+            if line.is_mains:
+                notes.append("no pairs on a mains position: one rated part per position")
+            else:
+                filled += _pairs(store, plan_id, line_id, line, options, need - filled,
+                                 notes).pop("positions", 0)
+    short = need - filled
+    if short:
+        notes.append(f"short {short}: order {describe_line(line, options, short)}")
+    conn.execute("UPDATE plan_lines SET short = ?, notes_json = ? WHERE id = ?",
+                 (short, json.dumps(notes), line_id))
+
+
+def plan_kit(store: Store, bom: Bom | str | Path, options: KitOptions, *,
+             sheet: str | None = None, overrides: dict[str, str] | None = None) -> KitPlan:
+    """Make a numbered plan for a BOM and reserve its parts, all in one transaction.
+
+    Args:
+        store: the open stock database.
+        bom: a BOM already read (:func:`stock.bom.read_bom`) or the path of one.
+        options: boards, spare, temperature range, pairs, allowances.
+        sheet, overrides: passed to :func:`stock.bom.read_bom` when ``bom`` is a path.
+
+    Returns:
+        The plan as stored (:func:`load_plan`).
+
+    Raises:
+        BadSheet: the BOM cannot be read.
+        StoreProblem: the database is locked past its timeout, read-only or full.
+    """
+    if not isinstance(bom, Bom):
+        bom = read_bom(bom, sheet=sheet, overrides=overrides)
+    with store.writing() as db:
+        cur = db.conn.execute(
+            "INSERT INTO plans (created_at, boards, bom_path, status, options_json)"
+            " VALUES (?, ?, ?, 'reserved', ?)",
+            (now(), options.boards, bom.file, json.dumps(options.to_json())))
+        plan_id = cur.lastrowid
+        for line_no, line in enumerate(bom.lines, start=1):
+            _plan_line(store, plan_id, line_no, line, options)
+        return load_plan(store, plan_id)
+
+
+def _plan_row(store: Store, plan: int | str) -> dict[str, Any]:
+    text = str(plan).strip().removeprefix("plan:").removeprefix("#")
+    row = store.one("SELECT * FROM plans WHERE id = ?", (int(text),)) if text.isdigit() else None
+    if row is None:
+        raise NotFound("plan", str(plan), "a plan number shown by `stock kit plan`")
+    return row
+
+
+def load_plan(store: Store, plan: int | str) -> KitPlan:
+    """A stored plan with its lines, allocations and cautions.
+
+    Raises:
+        NotFound: no such plan.
+    """
+    row = _plan_row(store, plan)
+    held: dict[int, list[Allocation]] = defaultdict(list)
+    for r in store.rows(
+            "SELECT r.line_id, r.bin_id, b.bin_key, b.location, p.marking, SUM(r.qty) AS qty"
+            " FROM reservations r JOIN bins b ON b.id = r.bin_id"
+            " LEFT JOIN parts p ON p.bin_id = r.bin_id WHERE r.plan_id = ?"
+            " GROUP BY r.line_id, r.bin_id ORDER BY r.line_id, MIN(r.id)", (row["id"],)):
+        held[r["line_id"]].append(Allocation(r["bin_id"], r["bin_key"], r["location"],
+                                             r["marking"] or "", int(r["qty"])))
+    lines = []
+    for r in store.rows("SELECT * FROM plan_lines WHERE plan_id = ? ORDER BY line_no", (row["id"],)):
+        details = json.loads(r["requirement_json"])
+        lines.append(PlanLine(r["line_no"], details.get("row"), tuple(json.loads(r["refs_json"])),
+                              details.get("value", ""), details.get("kind", ""), bool(r["tracked"]),
+                              r["need"], tuple(held.get(r["id"], ())), r["short"],
+                              tuple(json.loads(r["notes_json"])), details.get("describe", ""),
+                              details))
+    return KitPlan(row["id"], row["boards"], row["status"], row["created_at"], row["changed_at"],
+                   row["bom_path"], json.loads(row["options_json"]), tuple(lines),
+                   cautions_for(store, lines))
+
+
+def _state_error(action: str, row: dict[str, Any]) -> Refused:
+    when = f" at {row['changed_at']}" if row.get("changed_at") else ""
+    reasons = {
+        "pulled": f"it was already pulled{when}",
+        "dropped": f"it was dropped{when}; make a new plan",
+        "returned": f"it was pulled and its parts returned{when}; make a new plan",
+        "reserved": "it has not been pulled",
+    }
+    return Refused(f"{action} plan {row['id']}", reasons.get(row["status"], row["status"]))
+
+
+def pull_plan(store: Store, plan: int | str, *, actor: str | None = None) -> KitAction:
+    """Take a plan's reserved parts out of their bins: one ledger movement per bin, one transaction.
+
+    The status is read inside the transaction, so two pulls of one plan (two processes at once
+    included) take the parts once; the second is refused.
+
+    Raises:
+        NotFound: no such plan.
+        Refused: the plan is not reserved (already pulled, dropped, returned), or a bin now holds
+            fewer parts than the plan reserved (nothing is taken then).
+    """
+    with store.writing():
+        row = _plan_row(store, plan)
+        if row["status"] != "reserved":
+            raise _state_error("pull", row)
+        ref = f"plan:{row['id']}"
+        moves = []
+        for r in store.rows("SELECT r.bin_id, b.bin_key, b.on_hand, SUM(r.qty) AS qty"
+                            " FROM reservations r JOIN bins b ON b.id = r.bin_id"
+                            " WHERE r.plan_id = ? GROUP BY r.bin_id ORDER BY MIN(r.id)", (row["id"],)):
+            qty = int(r["qty"])
+            try:
+                store.move(r["bin_id"], -qty, "pull", ref=ref, note=f"kit plan {row['id']}",
+                           actor=actor)
+            except Refused:
+                raise Refused(f"pull plan {row['id']}",
+                              f"bin {r['bin_key']} holds {r['on_hand'] or 0}, fewer than the {qty}"
+                              " reserved (it was counted down since the plan was made); nothing"
+                              " was taken: recount, or drop the plan and plan again") from None
+            moves.append((r["bin_key"], -qty))
+        store.db.conn.execute("UPDATE plans SET status = 'pulled', changed_at = ? WHERE id = ?",
+                              (now(), row["id"]))
+    return KitAction(row["id"], "pull", "pulled", tuple(moves))
+
+
+def undo_pull(store: Store, plan: int | str, *, actor: str | None = None) -> KitAction:
+    """Put a pulled plan's parts back: the exact reverse of each pull movement, one transaction.
+
+    Raises:
+        NotFound: no such plan.
+        Refused: the plan was not pulled (or was already returned).
+    """
+    with store.writing():
+        row = _plan_row(store, plan)
+        if row["status"] != "pulled":
+            raise _state_error("undo", row)
+        ref = f"plan:{row['id']}"
+        moves = []
+        for r in store.rows("SELECT l.bin_id, b.bin_key, SUM(l.delta) AS delta FROM ledger l"
+                            " JOIN bins b ON b.id = l.bin_id WHERE l.kind = 'pull' AND l.ref = ?"
+                            " GROUP BY l.bin_id ORDER BY MIN(l.id)", (ref,)):
+            back = -int(r["delta"])
+            if back:
+                store.move(r["bin_id"], back, "undo", ref=ref,
+                           note=f"kit plan {row['id']} returned", actor=actor)
+                moves.append((r["bin_key"], back))
+        store.db.conn.execute("UPDATE plans SET status = 'returned', changed_at = ? WHERE id = ?",
+                              (now(), row["id"]))
+    return KitAction(row["id"], "undo", "returned", tuple(moves))
+
+
+def drop_plan(store: Store, plan: int | str) -> KitAction:
+    """Free a reserved plan's parts without taking them.
+
+    Raises:
+        NotFound: no such plan.
+        Refused: the plan is not reserved (a pulled plan is undone, not dropped).
+    """
+    with store.writing():
+        row = _plan_row(store, plan)
+        if row["status"] != "reserved":
+            if row["status"] == "pulled":
+                return_first = Refused(f"drop plan {row['id']}", "its parts were pulled; run"
+                                       f" `stock kit undo {row['id']}` to put them back")
+                raise return_first
+            raise _state_error("drop", row)
+        store.db.conn.execute("UPDATE plans SET status = 'dropped', changed_at = ? WHERE id = ?",
+                              (now(), row["id"]))
+    return KitAction(row["id"], "drop", "dropped", ())
+
+
+def list_plans(store: Store) -> list[dict[str, Any]]:
+    """Every plan, newest first, with its line and shortfall counts."""
+    return store.rows(
+        "SELECT p.id AS plan, p.created_at, p.boards, p.status, p.bom_path AS bom,"
+        " SUM(CASE WHEN l.tracked = 1 THEN 1 ELSE 0 END) AS lines,"
+        " SUM(CASE WHEN l.tracked = 1 AND l.short > 0 THEN 1 ELSE 0 END) AS short_lines"
+        " FROM plans p LEFT JOIN plan_lines l ON l.plan_id = p.id GROUP BY p.id ORDER BY p.id DESC")
+
+
+__all__ = ["ALLOWANCES", "Allocation", "KitAction", "KitOptions", "KitPlan", "PlanLine",
+           "describe_line", "drop_plan", "kit_options", "list_plans", "load_plan", "plan_kit", "pull_plan",
+           "undo_pull"]
