@@ -9,8 +9,9 @@ How a sheet is shaped (the same for every format):
 
 * The header row is the row among the first ``HEADER_SCAN_ROWS`` non-blank rows whose cells map
   to the most distinct known fields (bins or BOM vocabulary); earlier rows win ties. Title rows
-  above it are kept in ``RawSheet.skipped_above``. If no row names a known field, the first
-  non-blank row is the header (the importer then refuses the sheet for want of a value column).
+  above it are kept in ``RawSheet.skipped_above``. If no row names a known field, the row with
+  the most filled cells is the header, the earliest on a tie (the importer then refuses the sheet
+  for want of a value column).
 * Trailing blank header cells are dropped; a blank header inside the row becomes ``"column N"``
   (N counted from 1 as in the file), and repeated headers become ``"Notes (2)"``, ``"Notes (3)"``.
 * Data rows that are wholly blank are skipped (their numbers are simply not seen). Every other row
@@ -26,7 +27,7 @@ import math
 from dataclasses import dataclass, field
 from itertools import chain
 from pathlib import Path
-from typing import Any, Iterable, Iterator
+from typing import Any, Callable, Iterable, Iterator
 
 from stock.errors import BadSheet
 
@@ -149,12 +150,14 @@ def make_headers(cells: Iterable[Any]) -> tuple[str, ...]:
         cells.pop()
     names: list[str] = []
     seen: set[str] = set()
+    last_number: dict[str, int] = {}     # so a title merged over 16 000 columns stays linear
     for i, cell in enumerate(cells, start=1):
         base = f"column {i}" if is_blank(cell) else _header_text(cell)
-        name, n = base, 1
+        name, n = base, last_number.get(base.casefold(), 1)
         while name.casefold() in seen:
             n += 1
             name = f"{base} ({n})"
+        last_number[base.casefold()] = n
         seen.add(name.casefold())
         names.append(name)
     return tuple(names)
@@ -170,7 +173,8 @@ def _align(number: int, cells: tuple[Any, ...], width: int) -> RawRow:
 
 
 def shape_sheet(file: str, sheet: str | None, numbered_rows: Iterator[tuple[int, tuple[Any, ...]]],
-                *, fill_header=None, **details: Any) -> RawSheet | None:
+                *, fill_header: Callable[[int, tuple[Any, ...]], tuple[Any, ...]] | None = None,
+                **details: Any) -> RawSheet | None:
     """Find the header in a stream of (row number, cleaned cells) and wrap the rest as RawRows.
 
     Args:
@@ -200,7 +204,9 @@ def shape_sheet(file: str, sheet: str | None, numbered_rows: Iterator[tuple[int,
     if not scanned:
         return None
     scores = [header_row_score(filled) for _, _, filled in scanned]
-    best = max(range(len(scanned)), key=lambda i: (scores[i], -i)) if max(scores) > 0 else 0
+    if max(scores) == 0:      # no row names a known field: take the fullest row (a title has one cell)
+        scores = [sum(c is not None for c in cells) for _, cells, _ in scanned]
+    best = max(range(len(scanned)), key=lambda i: (scores[i], -i))
     header_number, _, header_cells = scanned[best]
     headers = make_headers(header_cells)
     width = len(headers)

@@ -114,6 +114,8 @@ def _check_archive(path: Path) -> None:
             if "xl/workbook.bin" in members and "xl/workbook.xml" not in members:
                 raise BadSheet(file, "is a binary .xlsb workbook, which is not read",
                                hint="the workbook saved as .xlsx")
+    except BadSheet:
+        raise
     except (zipfile.BadZipFile, NotImplementedError, RuntimeError, ValueError, EOFError) as exc:
         raise BadSheet(file, f"is a damaged workbook (the zip archive is corrupt: {_short(exc)})") from None
     except OSError as exc:

@@ -35,8 +35,11 @@ import hashlib
 import json
 import tomllib
 from dataclasses import dataclass
+from collections.abc import Mapping
 from decimal import Decimal, InvalidOperation
+from functools import lru_cache
 from pathlib import Path
+from types import MappingProxyType
 from typing import Any
 
 from stock.decoded import FAMILIES
@@ -152,7 +155,7 @@ class Rule:
     total_fit_pct: Decimal
     total_marginal_pct: Decimal
     sides: str
-    kinds: dict[str, str]
+    kinds: Mapping[str, str]   # read-only: the built-in rules are shared
     polarised: str
     value_critical: bool
     min_capacitance_pf: Decimal | None
@@ -167,7 +170,7 @@ class Rule:
 class Rules:
     """The whole table in force: the rows, where overrides came from, and a version hash."""
 
-    rows: dict[str, Rule]
+    rows: Mapping[str, Rule]
     source: str
     version: str
 
@@ -218,7 +221,7 @@ def _build(name: str, row: dict[str, Any], where: str) -> Rule:
     return Rule(
         name=name, description=str(row["description"]), **numbers,
         sides=_choice(row["sides"], ("both", "loss"), f"{at} sides"),
-        kinds=kinds,
+        kinds=MappingProxyType(kinds),
         polarised=_choice(row["polarised"], WORDS, f"{at} polarised"),
         value_critical=row["value_critical"],
         min_capacitance_pf=None if minimum in (None, "", 0) else _decimal(minimum, f"{at} min_capacitance_pf"),
@@ -264,8 +267,6 @@ def load_rules(path: str | Path | None = None, *, db_path: str | Path | None = N
     Raises:
         BadValue: the file is missing, not TOML, or names an unknown application, key, kind or word.
     """
-    table = json.loads(json.dumps(DEFAULT_TABLE))  # a deep copy that cannot share inner dicts
-    source = "built-in table"
     file: Path | None = None
     if path is not None:
         file = Path(path)
@@ -275,16 +276,26 @@ def load_rules(path: str | Path | None = None, *, db_path: str | Path | None = N
         candidate = Path(db_path).parent / OVERRIDE_FILE_NAME
         if candidate.is_file():
             file = candidate
-    if file is not None:
-        try:
-            override = tomllib.loads(file.read_text(encoding="utf-8"))
-        except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
-            raise BadValue(str(file), "its contents", f"valid TOML ({exc})") from None
-        _merge(table, override, str(file))
-        source = f"built-in table with overrides from {file}"
-    rows = {name: _build(name, row, str(file) if file else "built-in table")
-            for name, row in table.items()}
-    return Rules(rows=rows, source=source, version=table_version(table, MODEL_VERSION))
+    if file is None:
+        return _built_in()
+    table = json.loads(json.dumps(DEFAULT_TABLE))  # a deep copy that cannot share inner dicts
+    try:
+        override = tomllib.loads(file.read_text(encoding="utf-8"))
+    except (tomllib.TOMLDecodeError, UnicodeDecodeError) as exc:
+        raise BadValue(str(file), "its contents", f"valid TOML ({exc})") from None
+    _merge(table, override, str(file))
+    return _rules(table, str(file), f"built-in table with overrides from {file}")
+
+
+def _rules(table: dict[str, dict[str, Any]], where: str, source: str) -> Rules:
+    rows = {name: _build(name, row, where) for name, row in table.items()}
+    return Rules(rows=MappingProxyType(rows), source=source, version=table_version(table, MODEL_VERSION))
+
+
+@lru_cache(maxsize=1)
+def _built_in() -> Rules:
+    # built once: grading calls this for every part when no shop file is in force
+    return _rules(json.loads(json.dumps(DEFAULT_TABLE)), "built-in table", "built-in table")
 
 
 __all__ = ["DEFAULT_TABLE", "KINDS", "MODEL_VERSION", "OVERRIDE_FILE_NAME", "Rule", "Rules",

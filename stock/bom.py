@@ -159,7 +159,8 @@ def expand_refs(text: str) -> tuple[str, ...]:
     ()
     """
     refs: list[str] = []
-    for token in re.split(r"[,;\s]+(?![-–…])", text.strip()):
+    text = re.sub(r"\s*([-–…])\s*", r"\1", text.strip())     # "C1 - C4" is one range
+    for token in re.split(r"[,;\s]+", text):
         token = token.strip()
         if not token:
             continue
@@ -352,6 +353,10 @@ def read_requirement(value_text: str, marking_text: str, columns: dict[str, str]
         out["tol_pct"] = _tolerance_pct(columns["tolerance"], capacitance)
     if columns.get("voltage"):
         text = columns["voltage"]
+        safety = SAFETY_CLASS_RE.search(text)     # "275VAC X2" in one cell
+        if safety:
+            out["safety_class"] = safety.group(1).upper()
+            text = (text[:safety.start()] + text[safety.end():]).strip()
         try:
             out["voltage_v"] = parse_voltage(text, "voltage")
         except BadValue as exc:

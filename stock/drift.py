@@ -26,11 +26,10 @@ from typing import Any
 
 from stock.decoded import Marking
 from stock.errors import BadValue, NotFound
-from stock.stability import assumed_tempco_tol, temperature_figures
+from stock.stability import REFERENCE_C, assumed_tempco_tol, temperature_figures
 from stock.units import format_capacitance, format_number
 
 PI = Decimal("3.14159265358979323846264338327950288")
-REFERENCE_C = Decimal(25)
 
 
 def resonant_frequency_hz(inductance_h: Decimal, capacitance_pf: Decimal) -> Decimal:
@@ -335,6 +334,8 @@ def circuit_drift(db_path: str | Path | None, part: str, delta_t_k: Decimal, *, 
     return tank_drift(marking, f0_hz, tank_pf, delta_t_k, part_pf)
 
 
-__all__ = ["PartDrift", "circuit_drift", "TankDrift", "TimerDrift", "parse_frequency", "parse_inductance", "parse_kelvin",
-           "parse_period", "part_drift", "resolve_part", "resonant_frequency_hz", "tank_capacitance_pf",
-           "tank_drift", "tank_shift_ppm", "timer_drift"]
+__all__ = [
+    "PartDrift", "circuit_drift", "TankDrift", "TimerDrift", "parse_frequency", "parse_inductance",
+    "parse_kelvin", "parse_period", "part_drift", "resolve_part", "resonant_frequency_hz",
+    "tank_capacitance_pf", "tank_drift", "tank_shift_ppm", "timer_drift",
+]

@@ -120,6 +120,7 @@ def find_duplicates(store: Store) -> list[Duplicate]:
         if p["capacitance_pf"] is not None:
             by_value[p["capacitance_pf"]].append(p)
     pairs: dict[tuple[int, int], tuple[dict, dict, float, str]] = {}
+    fits: dict[tuple[tuple[Any, ...], tuple[Any, ...]], bool] = {}
     for value, members in by_value.items():
         if len(members) < 2:
             continue
@@ -132,8 +133,12 @@ def find_duplicates(store: Store) -> list[Duplicate]:
                 for other_text, score, b_id in process.extract(
                         text, texts, scorer=fuzz.ratio, score_cutoff=TYPO_SCORE, limit=None):
                     a, b = index[a_id], index[b_id]
-                    if (b_id <= a_id or group_of.get(a_id) == group_of.get(b_id)
-                            or not compatible(a, b)):
+                    ka, kb = group_of[a_id], group_of[b_id]
+                    if b_id <= a_id or ka == kb:
+                        continue
+                    if (ka, kb) not in fits:  # facts repeat across bins: judge each pair of keys once
+                        fits[(ka, kb)] = compatible(a, b)
+                    if not fits[(ka, kb)]:
                         continue
                     if what == "labels" and other_text == text:
                         continue  # an identical label says nothing about a typo

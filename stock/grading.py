@@ -14,11 +14,12 @@ own, in % of the nominal value:
   the life;
 - **DC bias**: Class 2 only, the approximate model of :func:`stock.stability.dc_bias_loss_pct`.
 
-The terms add (a linear sum, conservative for small terms; a loss stops at 100 %). :func:`grade` then checks the budget
-and the part's kind, polarity, temperature range, voltage margin and safety class against one row
-of the application table (:mod:`stock.applications`). A grade is ``fit``, ``marginal``, ``unfit``
+The terms add (a linear sum, conservative for small terms; a loss stops at 100 %). :func:`grade`
+then checks the budget and the part's kind, polarity, temperature range, voltage margin and safety
+class against one row of the application table (:mod:`stock.applications`). A grade is ``fit``, ``marginal``, ``unfit``
 or ``unknown`` (a fact needed is missing: the reasons say which); a definite ``unfit`` outranks an
-``unknown``.
+``unknown``. Stored grades (:func:`refresh_stored_grades`) are at the default conditions and carry
+the table version: a hash of the table in force and :data:`stock.applications.MODEL_VERSION`.
 
 >>> from stock.decoded import Dielectric, Marking, Tolerance
 >>> x7r = Dielectric("X7R", "ceramic", 2, temp_min_c=Decimal(-55), temp_max_c=Decimal(125),
@@ -33,7 +34,8 @@ from __future__ import annotations
 import json
 import re
 from collections.abc import Iterable
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, field
+from functools import cached_property
 from decimal import Decimal
 from typing import Any
 
@@ -41,13 +43,12 @@ from stock.applications import Rule, Rules, load_rules
 from stock.decoded import Marking
 from stock.errors import BadValue, NotFound
 from stock.stability import (
-    AGEING_REFERENCE_HOURS, DC_BIAS_LIMITS, SHELF_LIFE, ageing_decades, ageing_rate_pct,
-    assumed_tempco_tol, dc_bias_loss_pct, derating_for, is_polarised, temperature_figures,
+    AGEING_REFERENCE_HOURS, DC_BIAS_LIMITS, REFERENCE_C, SHELF_LIFE, Term, ageing_decades, ageing_rate_pct,
+    dc_bias_loss_pct, derating_for, is_polarised, pct, pm, temperature_term,
 )
 from stock.units import format_capacitance, format_number, format_temperature_range, format_voltage
 
 APPLICATIONS: tuple[str, ...] = ("tuned", "timing", "signal", "bypass", "bulk", "mains")
-REFERENCE_C = Decimal(25)
 WORD_ORDER = ("fit", "marginal", "unfit")
 MAINS_CAUTION = ("mains work can kill: use only a part whose X/Y class and AC rating match the"
                  " position, and defer to local electrical codes and licensed practice")
@@ -82,21 +83,6 @@ class Conditions:
         return {"temp_min_c": float(self.temp_min_c), "temp_max_c": float(self.temp_max_c),
                 "working_v": None if self.working_v is None else float(self.working_v),
                 "years": float(self.years), "reference_c": float(REFERENCE_C)}
-
-
-@dataclass(frozen=True)
-class Term:
-    """One term of the budget: how far down (``minus_pct``) and up (``plus_pct``) it may move the value."""
-
-    name: str
-    minus_pct: Decimal
-    plus_pct: Decimal
-    basis: str
-    headline: str = ""      # the short form a grade's reason quotes ("X7R may move ±15 % over …")
-
-    def to_json(self) -> dict[str, Any]:
-        return {"name": self.name, "minus_pct": float(self.minus_pct), "plus_pct": float(self.plus_pct),
-                "basis": self.basis}
 
 
 @dataclass(frozen=True)
@@ -145,19 +131,19 @@ class Budget:
                    Decimal(0))
 
     # A part cannot lose more than all of its capacitance: the minus sums stop at 100 %.
-    @property
+    @cached_property
     def drift_minus_pct(self) -> Decimal:
         return min(self._sum(("temperature", "ageing", "dc_bias"), "minus_pct"), Decimal(100))
 
-    @property
+    @cached_property
     def drift_plus_pct(self) -> Decimal:
         return self._sum(("temperature", "ageing", "dc_bias"), "plus_pct")
 
-    @property
+    @cached_property
     def total_minus_pct(self) -> Decimal:
         return min(self._sum(("tolerance", "temperature", "ageing", "dc_bias"), "minus_pct"), Decimal(100))
 
-    @property
+    @cached_property
     def total_plus_pct(self) -> Decimal:
         return self._sum(("tolerance", "temperature", "ageing", "dc_bias"), "plus_pct")
 
@@ -186,35 +172,6 @@ class Grade:
         return {"application": self.application, "grade": self.word, "reasons": list(self.reasons)}
 
 
-def pct(value: Decimal) -> str:
-    """A percentage for people: 3 decimals below 1 %, 2 below 10 %, 1 above.
-
-    >>> pct(Decimal("0.075")), pct(Decimal("3.886")), pct(Decimal("28.886"))
-    ('0.075', '3.89', '28.9')
-    """
-    places = 3 if value < 1 else 2 if value < 10 else 1
-    return format_number(round(value, places))
-
-
-def pm(minus: Decimal, plus: Decimal) -> str:
-    """``±15 %`` or ``+22/−82 %`` (``−3.89 %`` when only one side moves).
-
-    >>> pm(Decimal(15), Decimal(15)), pm(Decimal(82), Decimal(22)), pm(Decimal("3.886"), Decimal(0))
-    ('±15 %', '+22/−82 %', '−3.89 %')
-    """
-    if minus == plus:
-        return f"±{pct(plus)} %"
-    if plus == 0:
-        return f"\u2212{pct(minus)} %"
-    if minus == 0:
-        return f"+{pct(plus)} %"
-    return f"+{pct(plus)}/\u2212{pct(minus)} %"
-
-
-def _ppm(value: Decimal) -> str:
-    return format_number(value)
-
-
 def kind_of(marking: Marking) -> str | None:
     """The table's kind for a part: ``ceramic-1``, ``ceramic-2``, a family name, or None if unknown."""
     d = marking.dielectric
@@ -225,82 +182,6 @@ def kind_of(marking: Marking) -> str | None:
             return f"ceramic-{d.klass}"
         return None
     return d.family
-
-
-def _linear_term(code: str, alpha: Decimal, tol: Decimal, c: Conditions, basis_note: str) -> Term:
-    offsets = (c.temp_min_c - REFERENCE_C, c.temp_max_c - REFERENCE_C)
-    corners = [a * dt for a in (alpha - tol, alpha + tol) for dt in offsets]
-    plus = max(max(corners), Decimal(0)) / 10_000       # ppm → %
-    minus = max(-min(corners), Decimal(0)) / 10_000
-    span = max(abs(o) for o in offsets)
-    headline = f"{code} is {_ppm(alpha)} ± {_ppm(tol)} ppm/K{basis_note}"
-    basis = (f"{headline}: over {format_temperature_range(c.temp_min_c, c.temp_max_c)} (up to"
-             f" {format_number(span)} K from +25 °C) it moves {pm(minus, plus)}")
-    return Term("temperature", minus, plus, basis, headline)
-
-
-def _outside(c: Conditions, low: Decimal | None, high: Decimal | None) -> bool:
-    return (low is not None and c.temp_min_c < low) or (high is not None and c.temp_max_c > high)
-
-
-def _temperature(marking: Marking, c: Conditions) -> tuple[Term | None, str | None, str | None]:
-    """(term, missing fact, out-of-range reason).
-
-    Figures from :func:`stock.stability.temperature_figures`. A family with both a linear α and
-    a window gets the larger of the two (the α is a typical figure, the window a typical bound).
-    """
-    d = marking.dielectric
-    if d is None:
-        return None, "dielectric (temperature behaviour)", None
-    here = format_temperature_range(c.temp_min_c, c.temp_max_c)
-    ceramic = d.family == "ceramic"
-    src = temperature_figures(d)
-    if src is None:
-        what = "Class 2 code (temperature window)" if d.klass == 2 else f"temperature behaviour of {d.code}"
-        return None, what, None
-    low, high = src.temp_min_c, src.temp_max_c
-    out = None
-    if _outside(c, low, high):
-        out = (f"{d.code} is rated for {format_temperature_range(low, high)} only; {here} runs past it,"
-               " where its value is not characterised")
-    note = "" if ceramic else " (typical for the family)"
-    candidates: list[Term] = []
-    if src.tempco_ppm_per_k is not None and not (ceramic and d.klass == 2):
-        tol = src.tempco_tol_ppm_per_k
-        if tol is None:
-            tol = assumed_tempco_tol(src.tempco_ppm_per_k)
-            note += f" (tempco tolerance not marked: ±{_ppm(tol)} ppm/K assumed)"
-        candidates.append(_linear_term(d.code, src.tempco_ppm_per_k, tol, c, note))
-    windowed = src.change_minus_pct is not None and src.change_plus_pct is not None
-    if windowed and low is not None and high is not None and not (ceramic and candidates):
-        candidates.append(_window_term(d.code, src.change_minus_pct, src.change_plus_pct, low, high, c,
-                                       scalable=src.linear, note=note))
-    if not candidates:
-        what = "Class 2 code (temperature window)" if d.klass == 2 else f"temperature behaviour of {d.code}"
-        return None, what, out
-    chosen = max(candidates, key=lambda t: max(t.minus_pct, t.plus_pct))
-    if src.source:
-        chosen = replace(chosen, basis=f"{chosen.basis} [{src.source}]")
-    return chosen, None, out
-
-
-def _window_term(code: str, minus: Decimal, plus: Decimal, low: Decimal, high: Decimal, c: Conditions,
-                 *, scalable: bool, note: str = "") -> Term:
-    rated = format_temperature_range(low, high)
-    here = format_temperature_range(c.temp_min_c, c.temp_max_c)
-    head = f"{code} may move {pm(minus, plus)} over {rated}{note}"
-    nearest = min(abs(low - REFERENCE_C), abs(high - REFERENCE_C))
-    span = max(abs(c.temp_min_c - REFERENCE_C), abs(c.temp_max_c - REFERENCE_C))
-    if scalable and nearest > 0 and span < nearest:
-        # a roughly linear curve: scale by the offset against the nearer rated end (conservative)
-        factor = span / nearest
-        m, p = minus * factor, plus * factor
-        return Term("temperature", m, p,
-                    f"{head}; roughly linear, so over {here} about {pm(m, p)}"
-                    f" ({format_number(span)} of {format_number(nearest)} K, scaled)", head)
-    return Term("temperature", minus, plus,
-                f"{head}; the window is all that is promised, so over {here} the same {pm(minus, plus)}",
-                head)
 
 
 def _voltage(marking: Marking, c: Conditions) -> tuple[VoltageCheck | None, str | None]:
@@ -355,7 +236,7 @@ def worst_case(marking: Marking, conditions: Conditions = Conditions(), *,
         else:
             tolerance = Term("tolerance", as_pct[0], as_pct[1], f"marked {pm(*as_pct)}")
 
-    temperature, lacking, out = _temperature(marking, c)
+    temperature, lacking, out = temperature_term(marking.dielectric, c.temp_min_c, c.temp_max_c)
     if lacking:
         missing.append(lacking)
 
@@ -684,8 +565,12 @@ def refresh_stored_grades(store, bin_ids: Iterable[int] | None = None) -> int:
     if not rows:
         return 0
     records = []
+    seen: dict[str, dict[str, Grade]] = {}   # many bins hold the same marking: grade it once
     for r in rows:
-        for name, g in grade_all(_row_marking(r), Conditions(), rules=rules).items():
+        key = r.get("settled_json") or r["decoded_json"]
+        if key not in seen:
+            seen[key] = grade_all(_row_marking(r), Conditions(), rules=rules)
+        for name, g in seen[key].items():
             records.append((r["bin_id"], name, g.word, json.dumps(list(g.reasons), ensure_ascii=False),
                             rules.version))
     with store.writing():
@@ -697,6 +582,8 @@ def refresh_stored_grades(store, bin_ids: Iterable[int] | None = None) -> int:
     return len(rows)
 
 
-__all__ = ["APPLICATIONS", "MAINS_CAUTION", "REFERENCE_C", "BinGrades", "Budget", "Conditions", "Grade",
-           "Term", "VoltageCheck", "bin_marking", "conditions_from_text", "current_version", "grade", "grade_all", "grade_bins",
-           "kind_of", "refresh_stored_grades", "worst_case"]
+__all__ = [
+    "APPLICATIONS", "MAINS_CAUTION", "REFERENCE_C", "BinGrades", "Budget", "Conditions", "Grade",
+    "Term", "VoltageCheck", "bin_marking", "conditions_from_text", "current_version", "grade",
+    "grade_all", "grade_bins", "kind_of", "refresh_stored_grades", "worst_case",
+]

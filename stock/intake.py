@@ -23,10 +23,10 @@ from __future__ import annotations
 import hashlib
 import json
 import re
-from collections.abc import Callable, Iterable
-from dataclasses import dataclass, field, replace
+from collections.abc import Callable
+from dataclasses import dataclass, replace
 from datetime import date, datetime
-from decimal import Decimal, InvalidOperation
+from decimal import Decimal
 from functools import lru_cache
 from pathlib import Path
 from typing import Any
@@ -129,7 +129,6 @@ def cell_text(value: Any) -> str:
 
 
 _NUMBER = re.compile(r"^[+-]?(\d+(\.\d*)?|\.\d+)$")
-_WHOLE = re.compile(r"^\+?\d+(\.0*)?$")
 
 
 def read_quantity(value: Any) -> int | None:
@@ -150,17 +149,32 @@ def read_quantity(value: Any) -> int | None:
         number = int(value)
     else:
         text = str(value).strip()
-        if _WHOLE.match(text):
-            number = int(Decimal(text))
-        elif _NUMBER.match(text):
-            number = int(Decimal(text)) if Decimal(text) == Decimal(text).to_integral() else None
-            if number is None:
-                raise ValueError(f"quantity {text!r} is not a whole number")
-        else:
+        if not _NUMBER.match(text):
             raise ValueError(f"quantity {text!r} is not a number")
+        exact = Decimal(text)
+        if exact != exact.to_integral_value():
+            raise ValueError(f"quantity {text!r} is not a whole number")
+        number = int(exact)
     if number < 0:
         raise ValueError(f"quantity {cell_text(value)!r} is negative")
     return number
+
+
+# A polarity column often says only whether the part is polarised, not which lead is marked:
+# such words add nothing to the marking (the decoder assumes the family's usual mark and says so).
+_POLARITY_WORDS = {w: "" for w in ("yes", "y", "true", "x", "1", "no", "n", "false", "0",
+                                   "polarised", "polarized", "polar", "non-polar", "np")}
+
+
+@lru_cache(maxsize=4096)
+def _decode_colours_cached(text: str) -> Marking:
+    from stock.colour_codes import decode_colours
+    return decode_colours(text)
+
+
+def _colours_unused(colours: str) -> tuple[Flag, ...]:
+    return (Flag("unparsed", f"the colours {colours!r} were not used: the printed marking gave"
+                 " the value"),)
 
 
 def _with_unit(text: str, unit: str | None) -> str:
@@ -209,12 +223,6 @@ _INSERT_LEDGER = ("INSERT INTO ledger (bin_id, delta, kind, ref, note, actor, at
                   " VALUES (?, ?, 'import', ?, NULL, NULL, ?)")
 
 
-@lru_cache(maxsize=65536)
-def _stored_form(m: Marking) -> tuple[tuple[Any, ...], str]:
-    """Flat columns and JSON of a marking, remembered: identical markings repeat in a sheet."""
-    return _part_columns(m), json.dumps(m.to_json())
-
-
 def _same_value(a: Decimal, b: Decimal) -> bool:
     return abs(a - b) <= abs(b) * Decimal("1e-9")
 
@@ -232,15 +240,6 @@ def _label_value(label: str) -> tuple[str, Decimal] | None:
         except (BadValue, ValueError):
             continue
     return None
-
-
-@dataclass
-class _Row:
-    """One sheet row on its way into the store."""
-
-    number: int
-    raw: str
-    cells: dict[str, str] = field(default_factory=dict)
 
 
 @dataclass
@@ -286,19 +285,10 @@ class _SheetIntake:
         self.units: dict[str, str] = dict(units)
         self.index = dict(header_map.field_to_index)
         self.default_cabinet = raw_sheet.sheet if raw_sheet.sheet else path.stem
-        self.headers = self._unique_headers(raw_sheet.headers)
+        self.headers = [cell_text(h) for h in raw_sheet.headers]  # unique: the readers see to it
         self._text_fields = [(n, i) for n, i in self.index.items() if n not in ("quantity", "minimum")]
         self._cabinet_keys: dict[str, str] = {}
-
-    @staticmethod
-    def _unique_headers(headers: Iterable[Any]) -> list[str]:
-        out: list[str] = []
-        for i, h in enumerate(headers, start=1):
-            name = cell_text(h) or f"column {i}"
-            while name in out:
-                name = f"{name} ({i})"
-            out.append(name)
-        return out
+        self._forms: dict[int, tuple[Marking, tuple[Any, ...], str]] = {}
 
     def _texts(self, cells: tuple[Any, ...]) -> dict[str, str]:
         """The non-blank text of each mapped field of a row (the hot path: one pass, no lookups)."""
@@ -358,6 +348,16 @@ class _SheetIntake:
         raw.update(extra)  # cells right of the header are kept too: nothing read is lost
         return json.dumps(raw, default=str, ensure_ascii=False)
 
+    def _stored_form(self, m: Marking) -> tuple[tuple[Any, ...], str]:
+        """Flat columns and JSON of a marking, remembered by identity: the decode cache hands out
+        one object per distinct text, so a sheet's repeated markings are turned into rows once."""
+        found = self._forms.get(id(m))
+        if found is None or found[0] is not m:
+            found = (m, _part_columns(m), json.dumps(m.to_json(), ensure_ascii=False))
+            if len(self._forms) < 65536:
+                self._forms[id(m)] = found
+        return found[1], found[2]
+
     def _next_id(self, table: str) -> int:
         self.ids[table] += 1
         return self.ids[table]
@@ -368,12 +368,12 @@ class _SheetIntake:
         self._sources.append((self._next_id("source_rows"), self.import_id, self.sheet.sheet, number,
                               self._raw_json(cells, self._extra), "quarantined", reasons, None))
 
-    def _marking_text(self, f: dict[str, str]) -> tuple[str, str]:
-        """(marking text to decode, the explicit value text or "")."""
+    def _marking_text(self, f: dict[str, str]) -> tuple[str, str, str]:
+        """(marking text to decode, the colours column's text or "", the explicit value or "")."""
         pieces = []
         for name in MARKING_FIELDS:
             text = f.get(name)
-            if not text:
+            if not text or name == "colours":
                 continue
             if name == "voltage":
                 text = _with_unit(text, self.units.get(name) or "V")
@@ -381,15 +381,44 @@ class _SheetIntake:
                 text = _with_unit(text, self.units.get(name) or "%")
             elif name == "rated_temp":
                 text = _with_unit(text, "°C")
+            elif name == "polarity":
+                text = _POLARITY_WORDS.get(text.casefold(), text)
+                if not text:
+                    continue
             elif name == "marking":
                 text = _with_unit(text, self.units.get(name))
             pieces.append(text)
         value = f.get("value", "")
         if value:
             value = _with_unit(value, self.units.get("value"))
-        if value and "marking" not in f and "colours" not in f:
-            return " ".join([value, *pieces]), ""  # the value column is the marking
-        return " ".join(pieces), value
+        colours = f.get("colours", "")
+        if value and "marking" not in f and not colours:
+            return " ".join([value, *pieces]), "", ""  # the value column is the marking
+        return " ".join(pieces), colours, value
+
+    def _decode(self, text: str, colours: str) -> tuple[str, Marking | None]:
+        """Decode a row's text; a colours column is read as colour bands, the rest fills in."""
+        if not colours:
+            return text, decode_cached(text) if text else None
+        full = f"{text} {colours}".strip() if text else colours
+        rest = decode_cached(text) if text else None
+        if rest is not None and rest.capacitance_pf is not None:
+            return full, rest.with_flags(*_colours_unused(colours))
+        bands = _decode_colours_cached(colours)
+        if rest is None:
+            return full, bands
+        merged = replace(
+            bands, text=full,
+            tolerance=bands.tolerance or rest.tolerance,
+            voltage_v=bands.voltage_v or rest.voltage_v,
+            voltage_kind=bands.voltage_kind or rest.voltage_kind,
+            dielectric=bands.dielectric or rest.dielectric,
+            safety_class=bands.safety_class or rest.safety_class,
+            polarity=bands.polarity or rest.polarity,
+            rated_temp_c=bands.rated_temp_c or rest.rated_temp_c,
+            flags=bands.flags + tuple(x for x in rest.flags if x.kind not in ("unreadable",)),
+            unparsed=bands.unparsed + rest.unparsed)
+        return full, merged
 
     def _row(self, number: int, cells: tuple[Any, ...]) -> None:
         try:
@@ -398,8 +427,8 @@ class _SheetIntake:
             self._quarantine(number, cells, "bad-quantity", str(exc))
             return
         f = self._texts(cells)
-        text, value_text = self._marking_text(f)
-        marking = decode_cached(text) if text else None
+        text, colours, value_text = self._marking_text(f)
+        text, marking = self._decode(text, colours)
         if marking is None or (marking.capacitance_pf is None
                                and not any(a.capacitance_pf is not None for a in marking.alternatives)):
             shown = text or cell_text(next((c for c in cells if c not in (None, "")), ""))
@@ -494,8 +523,7 @@ class _SheetIntake:
 
         if existing is None:
             bin_id = self._next_id("bins")
-            columns, decoded = (_stored_form(marking) if not extra else
-                                (_part_columns(marking), json.dumps(marking.to_json())))
+            columns, decoded = self._stored_form(marking)
             self._bins.append((bin_id, key, label or None, location, cabinet, notes, minimum,
                                date_code, quantity, self.stamp, self.stamp))
             self._parts.append((bin_id, text, *columns, package, mounting, decoded))

@@ -62,8 +62,9 @@ _DEGREES = re.compile(r"\s*[°º]\s*C\b", re.IGNORECASE)
 _DUAL_SAFETY = re.compile(r"\b([XY][1-4])\s*[/+&]?\s*([XY][1-4])\b", re.IGNORECASE)
 _SPLIT = re.compile(r"[\s,;|()\[\]{}/<>]+")
 _NUMBER = re.compile(r"\d+(?:\.\d*)?|\.\d+")
-_TEMPERATURE = re.compile(r"(\d{2,3})(°)?C")
-_UNIT_WORDS = frozenset({"pf", "nf", "uf", "mf", "mfd", "mmfd", "mmf", "uuf", "ufd", "f", "p", "n", "u",
+_TEMPERATURE = re.compile(r"\+?(\d{2,3})(°)?C")
+_CATEGORY = re.compile(r"(-\d{2,3})\s*(?:/|\.\.\.?|…|~|to)\s*\+?(\d{2,3})\s*(?:°\s*)?C\b", re.IGNORECASE)
+_UNIT_WORDS = frozenset({"pf", "nf", "uf", "mf", "mfd", "mmfd", "mmf", "uuf", "ufd", "p", "n", "u",
                          "v", "vdc", "vac", "kv", "kvdc", "kvac", "wv", "wvdc", "v~", "vrms", "%",
                          "°c", "c"})
 _KIND_WORDS = frozenset({"ac", "dc", "~"})
@@ -128,6 +129,7 @@ def _tokens(text: str) -> list[str]:
     text = _ASYMMETRIC.sub(lambda m: f"+{m[1]}-{m[2]}%" if m[1] else f"+{m[4]}-{m[3]}%", text)
     text = _PPM_PER.sub("ppm", text)
     text = _DEGREES.sub("°C", text)
+    text = _CATEGORY.sub(lambda m: f"+{m[2]}°C", text)   # category range: the rated (upper) temperature
     text = _DUAL_SAFETY.sub(lambda m: m[1] + m[2] if m[1][0].upper() != m[2][0].upper() else m[0], text)
     raw = []
     for token in _SPLIT.split(text):
@@ -281,6 +283,10 @@ def _settle_tolerance(facts: _Facts, pf: Decimal | None, letter: str | None) -> 
     letters = ([letter] if letter else []) + facts.letters
     if facts.tolerance is not None:
         for extra in letters:
+            said = read_tolerance_letter(extra, pf)
+            if said is not None and (said.tolerance.minus, said.tolerance.plus, said.tolerance.unit) == \
+                    (facts.tolerance.minus, facts.tolerance.plus, facts.tolerance.unit):
+                continue
             facts.flags.append(Flag("conflicting-readings", f"tolerance letter {extra} set aside for the "
                                                             f"written tolerance {format_tolerance(facts.tolerance)}"))
         return facts.tolerance

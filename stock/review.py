@@ -291,6 +291,7 @@ class FlagView:
     details: dict[str, Any]
     opened_at: str
     settled_by: SettledBy
+    decision: dict[str, Any] | None = None
 
     def to_json(self) -> dict[str, Any]:
         return {
@@ -299,7 +300,7 @@ class FlagView:
             "bin": self.bin_key, "bin_id": self.bin_id, "location": self.location,
             "label": self.label, "marking": self.marking,
             "readings": [r.to_json() for r in self.readings],
-            "details": self.details, "opened_at": self.opened_at,
+            "details": self.details, "opened_at": self.opened_at, "decision": self.decision,
         }
 
 
@@ -340,7 +341,7 @@ def _hint(kind: FlagKind, row: Mapping[str, Any], found: tuple[Reading, ...],
 
 
 _FLAG_QUERY = """
-SELECT f.id, f.kind, f.status, f.message, f.details_json, f.opened_at, f.bin_id,
+SELECT f.id, f.kind, f.status, f.message, f.details_json, f.opened_at, f.decision_json, f.bin_id,
        b.bin_key, b.location, b.label, b.on_hand, b.minimum, b.date_code,
        p.marking, p.decoded_json, p.settled_json
 FROM flags f LEFT JOIN bins b ON b.id = f.bin_id LEFT JOIN parts p ON p.bin_id = f.bin_id
@@ -357,7 +358,8 @@ def _view(row: Mapping[str, Any]) -> FlagView:
         meaning=kind.meaning, hint=_hint(kind, row, found, marking, details),
         bin_id=row["bin_id"], bin_key=row["bin_key"], location=row["location"],
         label=row["label"], marking=row["marking"], readings=found, details=details,
-        opened_at=row["opened_at"], settled_by=kind.settled_by)
+        opened_at=row["opened_at"], settled_by=kind.settled_by,
+        decision=json.loads(row["decision_json"]) if row.get("decision_json") else None)
 
 
 def list_flags(store: Store, *, kind: str | None = None, status: str = "open",

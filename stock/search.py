@@ -746,6 +746,8 @@ def check_pair(kind: str, a: Stocked, b: Stocked, req: Requirement, *,
     c1, c2 = a.marking.capacitance_pf, b.marking.capacitance_pf
     if c1 is None or c2 is None or c1 <= 0 or c2 <= 0:
         return Verdict(False, ("value not decoded",), "value")
+    if (c1, a.bin_key) > (c2, b.bin_key):  # smaller part first, in reasons and in the JSON
+        a, b, c1, c2 = b, a, c2, c1
     same = a.bin_id == b.bin_id
     if same and a.available < 2 * req.qty:
         return Verdict(False, (f"bin {a.bin_key} holds {a.available} available, {2 * req.qty} needed",),

@@ -25,9 +25,13 @@ Decimal('20.0')
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from decimal import Decimal
 
+from stock.decoded import Dielectric
+from stock.units import format_number, format_temperature_range
+
+REFERENCE_C = Decimal(25)     # the reference temperature of every tempco and window
 HOURS_PER_YEAR = Decimal("8766")  # 365.25 days × 24 h
 
 # Class 2 tolerances are stated at a referee time of 1000 h after the last heating (soldering
@@ -337,8 +341,136 @@ def is_polarised(family: str | None, polarity: str | None) -> bool:
         "tantalum", "tantalum-polymer", "aluminium-electrolytic", "double-layer")
 
 
+@dataclass(frozen=True)
+class Term:
+    """One term of the budget: how far down (``minus_pct``) and up (``plus_pct``) it may move the value."""
+
+    name: str
+    minus_pct: Decimal
+    plus_pct: Decimal
+    basis: str
+    headline: str = ""      # the short form a grade's reason quotes ("X7R may move ±15 % over …")
+
+    def to_json(self) -> dict[str, Any]:
+        return {"name": self.name, "minus_pct": float(self.minus_pct), "plus_pct": float(self.plus_pct),
+                "basis": self.basis}
+
+
+
+def pct(value: Decimal) -> str:
+    """A percentage for people: 3 decimals below 1 %, 2 below 10 %, 1 above.
+
+    >>> pct(Decimal("0.075")), pct(Decimal("3.886")), pct(Decimal("28.886"))
+    ('0.075', '3.89', '28.9')
+    """
+    places = 3 if value < 1 else 2 if value < 10 else 1
+    return format_number(round(value, places))
+
+
+def pm(minus: Decimal, plus: Decimal) -> str:
+    """``±15 %`` or ``+22/−82 %`` (``−3.89 %`` when only one side moves).
+
+    >>> pm(Decimal(15), Decimal(15)), pm(Decimal(82), Decimal(22)), pm(Decimal("3.886"), Decimal(0))
+    ('±15 %', '+22/−82 %', '−3.89 %')
+    """
+    if minus == plus:
+        return f"±{pct(plus)} %"
+    if plus == 0:
+        return f"\u2212{pct(minus)} %"
+    if minus == 0:
+        return f"+{pct(plus)} %"
+    return f"+{pct(plus)}/\u2212{pct(minus)} %"
+
+
+def _ppm(value: Decimal) -> str:
+    return format_number(value)
+
+
+
+def _linear_term(code: str, alpha: Decimal, tol: Decimal, t_min: Decimal, t_max: Decimal,
+                 basis_note: str) -> Term:
+    offsets = (t_min - REFERENCE_C, t_max - REFERENCE_C)
+    corners = [a * dt for a in (alpha - tol, alpha + tol) for dt in offsets]
+    plus = max(max(corners), Decimal(0)) / 10_000       # ppm → %
+    minus = max(-min(corners), Decimal(0)) / 10_000
+    span = max(abs(o) for o in offsets)
+    headline = f"{code} is {_ppm(alpha)} ± {_ppm(tol)} ppm/K{basis_note}"
+    basis = (f"{headline}: over {format_temperature_range(t_min, t_max)} (up to"
+             f" {format_number(span)} K from +25 °C) it moves {pm(minus, plus)}")
+    return Term("temperature", minus, plus, basis, headline)
+
+
+def _outside(t_min: Decimal, t_max: Decimal, low: Decimal | None, high: Decimal | None) -> bool:
+    return (low is not None and t_min < low) or (high is not None and t_max > high)
+
+
+def temperature_term(d: Dielectric | None, t_min: Decimal,
+                     t_max: Decimal) -> tuple[Term | None, str | None, str | None]:
+    """The temperature term of a budget over ``t_min``…``t_max`` °C, the fact missing, and how the
+    range passes the rated one (each None when not so).
+
+    Class 1 and linear typical α: worst corner of (α ± tol) × (T − 25 °C). A window: whole for
+    ceramic codes (the code promises nothing tighter), scaled for roughly linear families.
+    Figures from :func:`temperature_figures`. A family with both a linear α and
+    a window gets the larger of the two (the α is a typical figure, the window a typical bound).
+    """
+    if d is None:
+        return None, "dielectric (temperature behaviour)", None
+    here = format_temperature_range(t_min, t_max)
+    ceramic = d.family == "ceramic"
+    src = temperature_figures(d)
+    if src is None:
+        what = "Class 2 code (temperature window)" if d.klass == 2 else f"temperature behaviour of {d.code}"
+        return None, what, None
+    low, high = src.temp_min_c, src.temp_max_c
+    out = None
+    if _outside(t_min, t_max, low, high):
+        out = (f"{d.code} is rated for {format_temperature_range(low, high)} only; {here} runs past it,"
+               " where its value is not characterised")
+    note = "" if ceramic else " (typical for the family)"
+    candidates: list[Term] = []
+    if src.tempco_ppm_per_k is not None and not (ceramic and d.klass == 2):
+        tol = src.tempco_tol_ppm_per_k
+        if tol is None:
+            tol = assumed_tempco_tol(src.tempco_ppm_per_k)
+            note += f" (tempco tolerance not marked: ±{_ppm(tol)} ppm/K assumed)"
+        candidates.append(_linear_term(d.code, src.tempco_ppm_per_k, tol, t_min, t_max, note))
+    windowed = src.change_minus_pct is not None and src.change_plus_pct is not None
+    if windowed and low is not None and high is not None and not (ceramic and candidates):
+        candidates.append(_window_term(d.code, src.change_minus_pct, src.change_plus_pct, low, high,
+                                       t_min, t_max, scalable=src.linear, note=note))
+    if not candidates:
+        what = "Class 2 code (temperature window)" if d.klass == 2 else f"temperature behaviour of {d.code}"
+        return None, what, out
+    chosen = max(candidates, key=lambda t: max(t.minus_pct, t.plus_pct))
+    if src.source:
+        chosen = replace(chosen, basis=f"{chosen.basis} [{src.source}]")
+    return chosen, None, out
+
+
+def _window_term(code: str, minus: Decimal, plus: Decimal, low: Decimal, high: Decimal, t_min: Decimal,
+                 t_max: Decimal, *, scalable: bool, note: str = "") -> Term:
+    rated = format_temperature_range(low, high)
+    here = format_temperature_range(t_min, t_max)
+    head = f"{code} may move {pm(minus, plus)} over {rated}{note}"
+    nearest = min(abs(low - REFERENCE_C), abs(high - REFERENCE_C))
+    span = max(abs(t_min - REFERENCE_C), abs(t_max - REFERENCE_C))
+    if scalable and nearest > 0 and span < nearest:
+        # a roughly linear curve: scale by the offset against the nearer rated end (conservative)
+        factor = span / nearest
+        m, p = minus * factor, plus * factor
+        return Term("temperature", m, p,
+                    f"{head}; roughly linear, so over {here} about {pm(m, p)}"
+                    f" ({format_number(span)} of {format_number(nearest)} K, scaled)", head)
+    return Term("temperature", minus, plus,
+                f"{head}; the window is all that is promised, so over {here} the same {pm(minus, plus)}",
+                head)
+
+
+
 __all__ = [
     "AGEING_PER_DECADE_PCT", "AGEING_REFERENCE_HOURS", "DC_BIAS_LIMITS", "DERATING", "FAMILY_DRIFT",
-    "SHELF_LIFE", "Derating", "FamilyDrift", "ageing_decades", "assumed_tempco_tol", "ageing_loss_pct", "ageing_rate_pct",
+    "REFERENCE_C", "SHELF_LIFE", "Derating", "FamilyDrift", "Term", "pct", "pm", "temperature_term",
+    "ageing_decades", "assumed_tempco_tol", "ageing_loss_pct", "ageing_rate_pct",
     "dc_bias_loss_pct", "derating_for", "is_polarised", "temperature_figures",
 ]

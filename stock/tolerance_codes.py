@@ -22,6 +22,7 @@ from dataclasses import dataclass
 from decimal import Decimal
 
 from stock.decoded import Alternative, Flag, Tolerance
+from stock.units import format_tolerance
 
 # The value at or below which B C D F G (and A) mean absolute pF. IEC 60062 practice, per the
 # reference tables "C ≤ 10 pF" (capacitor-codes.md §4c).
@@ -100,7 +101,6 @@ def _pct(letter: str, minus: Decimal, plus: Decimal) -> Tolerance:
 
 
 def _describe(t: Tolerance) -> str:
-    from stock.units import format_tolerance
     return format_tolerance(t)
 
 

@@ -36,6 +36,7 @@ from decimal import Decimal
 
 from stock.decoded import Flag
 from stock.preferred_values import in_series
+from stock.units import format_capacitance
 
 # IEC 60062 three-digit code: multiplier digit -> power of ten applied to the two figures, in pF.
 THREE_DIGIT_EXPONENT: dict[str, int] = {
@@ -121,7 +122,6 @@ class ValueReading:
 
 
 def _fmt(pf: Decimal) -> str:
-    from stock.units import format_capacitance   # units builds on this module; import late
     return format_capacitance(pf)
 
 
@@ -210,7 +210,7 @@ def _three_digit_candidates(body: str, letter: str | None, family: str | None,
     return ranked
 
 
-def _rkm_candidates(body: str, letter: str | None, flags: list[Flag]) -> list[ValueCandidate]:
+def _rkm_candidates(body: str, letter: str | None) -> list[ValueCandidate]:
     match = _RKM.fullmatch(body)
     if not match or not (match[1] or match[3]):
         return []
@@ -323,7 +323,7 @@ def read_value(token: str, *, family: str | None = None) -> ValueReading | None:
         body, letter = _split_letter(token)
         for body, letter in ((token, None), (body, letter)) if letter else ((token, None),):
             candidates = (_three_digit_candidates(body, letter, family, flags)
-                          or _rkm_candidates(body, letter, flags)
+                          or _rkm_candidates(body, letter)
                           or _unitless_candidates(body, letter, family, flags))
             if candidates:
                 candidates += _erie_candidates(body, letter, flags, candidates)

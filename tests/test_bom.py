@@ -40,6 +40,7 @@ def write_xlsx(path, rows):
     pytest.param("C1, C2,C3", ("C1", "C2", "C3"), id="commas"),
     pytest.param("C1 C2;C3", ("C1", "C2", "C3"), id="spaces-and-semicolons"),
     pytest.param("C1-C4", ("C1", "C2", "C3", "C4"), id="range"),
+    pytest.param("C1 - C3, C7", ("C1", "C2", "C3", "C7"), id="range-with-spaces"),
     pytest.param("C10–12", ("C10", "C11", "C12"), id="en-dash-range-short-form"),
     pytest.param("C1-C99999", ("C1-C99999",), id="absurd-range-kept-as-written"),
     pytest.param("", (), id="empty"),

@@ -83,8 +83,8 @@ def test_human_output_is_one_line_per_marking_then_indented_flags():
     result = run("104K 2A X7R", "C0G 100 50V")
     assert result.exit_code == 0
     lines = result.stdout.splitlines()
-    assert lines[0] == "104K 2A X7R: 100 nF ±10 %  100 V DC  X7R (−55…+125 °C, ±15 %)"
-    assert lines[1] == "C0G 100 50V: 10 pF  50 V DC  C0G (0 ±30 ppm/K)"
+    assert lines[0] == "104K 2A X7R\t100 nF ±10 %  100 V DC  X7R (−55…+125 °C, ±15 %)"
+    assert lines[1] == "C0G 100 50V\t10 pF  50 V DC  C0G (0 ±30 ppm/K)"
     assert lines[2].startswith("    ambiguous-code: 100: three-digit code 10 pF or 100 pF")
 
 

@@ -145,3 +145,21 @@ def test_bad_decisions_get_one_line_and_an_exit_code(runner, shop, args, code, m
     db, _ = shop
     result = cli(runner, db, *args, code=code)
     assert result.stderr.startswith(message) and result.stderr.count("\n") == 1
+
+
+def test_settled_flags_are_listed_with_who_decided_what(runner, shop):
+    db, _ = shop
+    cli(runner, db, "settle", "cab1/a1", "--reading", "0", "--by", "ben", "--note", "code is right")
+    [f] = json.loads(cli(runner, db, "flags", "--settled", "--json").stdout)["flags"]
+    assert (f["kind"], f["decision"]["by"], f["decision"]["decision"]) == ("label-conflict", "ben", "reading 0")
+    assert "settled by ben: reading 0 (code is right)" in cli(runner, db, "flags", "--settled").stdout
+
+
+def test_flags_json_keeps_its_documented_keys(runner, shop):
+    db, _ = shop
+    f = open_flags(runner, db)[0]
+    assert set(f) == {"id", "kind", "status", "message", "meaning", "settle", "settled_by", "bin",
+                      "bin_id", "location", "label", "marking", "readings", "details", "opened_at",
+                      "decision"}
+    assert set(f["readings"][0]) == {"number", "capacitance_pf", "tolerance", "voltage_v",
+                                     "dielectric", "reason", "text"}

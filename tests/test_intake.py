@@ -357,3 +357,69 @@ def test_stored_plus_quarantined_always_equals_rows_read(tmp_path_factory, cells
         assert store.one("SELECT COUNT(*) AS n FROM source_rows")["n"] == len(rows)
         assert s.flagged <= s.stored
         assert Decimal(s.stored) == store.one("SELECT COUNT(*) AS n FROM bins")["n"]
+
+
+# IEC 60062 colour code: brown (1) black (0) orange (×10^3) = 10 000 pF = 10 nF
+def test_a_colours_column_is_read_as_bands_and_the_other_columns_fill_in(store, tmp_path):
+    path = write_csv(tmp_path / "old.csv", [["F1", "brown black orange", "100", "4"]],
+                     headers=["Location", "Colours", "Voltage", "Qty"])
+    s = only(import_file(store, path))
+    assert s.stored == 1
+    part = store.one("SELECT * FROM parts")
+    assert part["capacitance_pf"] == 10_000.0
+    assert part["voltage_v"] == 100.0  # a bare number in a voltage column is volts
+    assert part["marking"] == "100V brown black orange"
+
+
+def test_a_polarity_column_that_only_says_yes_adds_nothing_to_the_marking(store, tmp_path):
+    path = write_csv(tmp_path / "el.csv", [["G1", "10uF 16V", "yes", "2"], ["G2", "10uF 16V", "+", "2"]],
+                     headers=["Location", "Marking", "Polarity", "Qty"])
+    import_file(store, path)
+    rows = store.rows("SELECT b.bin_key, p.marking, p.polarity FROM parts p JOIN bins b ON b.id = p.bin_id"
+                      " ORDER BY b.bin_key")
+    assert [(r["marking"], r["polarity"]) for r in rows] == [("10uF 16V", None),
+                                                              ("10uF 16V +", "positive-marked")]
+
+
+# IEC 60062: 104 = 100 nF, 4n7 = 4.7 nF; 0.1 in a "Value (uF)" column is 100 nF
+def test_a_messy_workbook_imports_with_every_row_accounted_for(store, tmp_path):
+    from openpyxl import Workbook
+    wb = Workbook()
+    ws = wb.active
+    ws.title = "Bench drawers"
+    ws.append(["Kestrel Radio Workshop: capacitor drawers"])
+    ws.merge_cells("A1:E1")
+    ws.append([])
+    ws.append(["Bin #", "Marking/Code", "Value (uF)", "Qty on hand", "Notes"])
+    ws.append(["D1", 104, None, 12, None])             # a code typed as a number
+    ws.append(["D2", None, 0.1, 3.0, "film"])           # a value with the header's unit
+    ws.append([None, None, None, None, None])           # a blank row is not a row
+    ws.append(["D3", "4n7", None, None, "not counted"])
+    ws.append(["D4", "scratched off", None, 2, None])
+    ws.append(["D5", "222", None, "a few", None])
+    ws.append(["D1", "472", None, 1, "typed twice"])
+    path = tmp_path / "workshop.xlsx"
+    wb.save(path)
+    (s,) = import_file(store, path).sheets
+    assert (s.rows, s.stored, s.quarantined) == (6, 3, 3)
+    assert store.one("SELECT COUNT(*) AS n FROM source_rows")["n"] == 6
+    caps = {r["bin_key"]: r["capacitance_pf"] for r in store.rows(
+        "SELECT b.bin_key, p.capacitance_pf FROM bins b JOIN parts p ON p.bin_id = b.id")}
+    assert caps == {"bench drawers/d1": 100_000.0, "bench drawers/d2": pytest.approx(100_000.0),
+                    "bench drawers/d3": 4700.0}
+    (again,) = import_file(store, path).sheets
+    assert again.unchanged == 6 and again.same_file
+
+
+def test_stored_parts_get_their_grades_and_a_changed_marking_is_graded_again(store, tmp_path):
+    path = tmp_path / "g.csv"
+    write_csv(path, [["H1", "", "104 X7R", "5"]])
+    import_file(store, path)
+    grades = store.rows("SELECT application, grade FROM grades")
+    assert grades and {g["application"] for g in grades} >= {"tuned", "bypass"}
+    # EIA-198: X7R is a Class 2 dielectric, C0G Class 1; the tuned-circuit grade must differ
+    tuned_before = store.one("SELECT grade FROM grades WHERE application = 'tuned'")["grade"]
+    write_csv(path, [["H1", "", "104 C0G", "5"]])
+    import_file(store, path)
+    tuned_after = store.one("SELECT grade FROM grades WHERE application = 'tuned'")["grade"]
+    assert tuned_before != tuned_after

@@ -86,6 +86,12 @@ def test_doubtful_readings_are_flagged_and_keep_their_alternatives(text, kind, a
     assert all(a.reason for a in m.alternatives)
 
 
+def test_a_written_tolerance_wins_over_a_letter_that_disagrees():
+    assert "conflicting-readings" not in decode("104K ±10%").flag_kinds()
+    m = decode("104K ±5%")
+    assert m.tolerance.plus == 5 and "conflicting-readings" in m.flag_kinds()
+
+
 def test_unknown_tokens_are_kept_verbatim():
     m = decode("104K Blorp 50V qq9")
     assert m.unparsed == ("Blorp", "qq9")
@@ -122,6 +128,8 @@ def test_rated_temperature_forms():
     assert decode("47uF 63V 85°C").rated_temp_c == 85
     assert decode("47uF 63V 85 °C").rated_temp_c == 85
     assert decode("47uF 63V 105C").rated_temp_c == 105
+    m = decode("47uF 63V -40/+85°C")   # category range: the upper end is the rated temperature
+    assert m.rated_temp_c == 85 and not m.unparsed
 
 
 # Polarity (common practice, no published source): a printed + or − is what it says; without one

@@ -112,6 +112,18 @@ def test_the_first_row_is_the_header_when_no_row_names_a_field():
     assert list(sheet.rows) == [RawRow(3, ("A1", "104"))]
 
 
+def test_with_no_known_field_the_fullest_row_is_the_header_not_a_title():
+    sheet = shape_sheet("f.csv", None, numbered(("Inventar 2026",), ("Fach", "Aufdruck", "Anzahl"), ("A1", "104", "3")))
+    assert (sheet.header_row, sheet.headers) == (2, ("Fach", "Aufdruck", "Anzahl"))
+
+
+def test_a_title_repeated_over_sixteen_thousand_columns_is_named_quickly():
+    # XLSX allows 16 384 columns (ECMA-376); a merged title filled across them must not go quadratic
+    headers = make_headers(["Title"] * 16_384)
+    assert headers[-1] == "Title (16384)"
+    assert len(set(headers)) == 16_384
+
+
 def test_only_blank_rows_give_no_sheet():
     assert shape_sheet("f.csv", None, numbered((None,), (None, None))) is None
 
@@ -172,3 +184,14 @@ def test_rows_and_sheets_are_frozen():
     sheet = RawSheet("f.csv", None, 1, ("Bin",), iter(()))
     with pytest.raises(dataclasses.FrozenInstanceError):
         sheet.headers = ()
+
+
+@pytest.mark.parametrize("module", ["importers.sheet", "importers.csv_sheet", "importers.headers"])
+def test_the_docstring_examples_of_the_readers_hold(module):
+    # pytest's --doctest-modules covers stock/ only; the importers' examples are run here.
+    import doctest
+    import importlib
+
+    result = doctest.testmod(importlib.import_module(module), optionflags=doctest.ELLIPSIS)
+    assert result.attempted > 0
+    assert result.failed == 0

@@ -168,6 +168,12 @@ def test_every_e24_value_survives_the_three_digit_code(pf):
     assert decode(code).capacitance_pf == pf
 
 
+def test_all_e24_values_from_1pf_to_10uf_survive_the_three_digit_code():
+    codes = {pf: encode_three_digit(pf) for pf in E24_PF}
+    assert [pf for pf, code in codes.items() if decode(code).capacitance_pf != pf] == []
+    assert len(set(codes.values())) == len(E24_PF)
+
+
 def test_encoding_refuses_a_value_with_three_figures():
     with pytest.raises(ValueError, match="no three-digit code"):
         encode_three_digit(Decimal(1234))

@@ -253,6 +253,9 @@ HOSTILE = [
     pytest.param(b"Bin,Marking\nA1,104\n",
                  "is not an XLSX workbook (a .xlsx file is a zip archive; this one is not) "
                  "(expected a workbook saved as .xlsx, or rename a text sheet to .csv)", id="csv-named-xlsx"),
+    pytest.param(bytes(range(256)) * 8,
+                 "is not an XLSX workbook (a .xlsx file is a zip archive; this one is not) "
+                 "(expected a workbook saved as .xlsx, or rename a text sheet to .csv)", id="binary-junk"),
     pytest.param(b"",
                  "is not an XLSX workbook (a .xlsx file is a zip archive; this one is not) "
                  "(expected a workbook saved as .xlsx, or rename a text sheet to .csv)", id="empty-file"),

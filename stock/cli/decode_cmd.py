@@ -36,7 +36,7 @@ def decode(
         if as_json:
             typer.echo(json.dumps(marking.to_json(), ensure_ascii=False))
             continue
-        typer.echo(f"{text}: {summary(marking)}")
+        typer.echo(f"{text}\t{summary(marking)}")
         for flag in marking.flags:
             typer.echo(f"    {flag.kind}: {flag.message}")
         for alternative in marking.alternatives:

@@ -57,7 +57,12 @@ def _flag_text(f) -> str:
     for r in f.readings:
         mark = "decoder's choice" if r.number == 0 else r.reason
         lines.append(f"    reading {r.number}: {r.describe()}  ({mark})")
-    lines.append(f"    to settle: {f.hint}")
+    if f.decision:
+        d = f.decision
+        said = f" ({d['note']})" if d.get("note") else ""
+        lines.append(f"    settled by {d.get('by', '?')}: {d.get('decision') or d.get('via')}{said}")
+    else:
+        lines.append(f"    to settle: {f.hint}")
     return "\n".join(lines)
 
 

@@ -9,7 +9,9 @@ from typing import Annotated, Optional
 import typer
 
 from stock.decoded import Marking
-from stock.drift import TankDrift, TimerDrift, circuit_drift, parse_frequency, parse_inductance, parse_kelvin, parse_period
+from stock.drift import (
+    TankDrift, TimerDrift, circuit_drift, parse_frequency, parse_inductance, parse_kelvin, parse_period,
+)
 from stock.grading import (
     APPLICATIONS, MAINS_CAUTION, REFERENCE_C, BinGrades, Budget, conditions_from_text, grade_bins, pm,
 )
@@ -107,17 +109,23 @@ def _drift_lines(result: TankDrift | TimerDrift) -> list[str]:
     return lines
 
 
+def _opt(*names: str, text: str):
+    return typer.Option(*names, help=text)
+
+
 def register(app: typer.Typer) -> None:
     @app.command("grade")
     def grade(
         ctx: typer.Context,
-        bins: Annotated[Optional[list[str]], typer.Argument(help="Bins to grade (id, key, location or label); all when none.")] = None,
-        temp: Annotated[Optional[str], typer.Option("--temp", help="Operating range in °C, LOW..HIGH (default 0..50).")] = None,
-        volts: Annotated[Optional[str], typer.Option("--volts", help="DC working voltage (counts DC bias and derating).")] = None,
-        years: Annotated[Optional[str], typer.Option("--years", help="Service life in years (default 10).")] = None,
-        explain: Annotated[Optional[str], typer.Option("--explain", help="Print one bin's whole budget, term by term.")] = None,
-        rules: Annotated[Optional[Path], typer.Option("--rules", help="A TOML file overriding the application table (default: stock-grading.toml beside the database).")] = None,
-        as_json: Annotated[bool, typer.Option("--json", help="Print one JSON object.")] = False,
+        bins: Annotated[Optional[list[str]], typer.Argument(
+            help="Bins to grade (id, key, location or label); all when none.")] = None,
+        temp: Annotated[Optional[str], _opt("--temp", text="Operating range in °C, LOW..HIGH (default 0..50).")] = None,
+        volts: Annotated[Optional[str], _opt("--volts", text="DC working voltage (counts DC bias, derating).")] = None,
+        years: Annotated[Optional[str], _opt("--years", text="Service life in years (default 10).")] = None,
+        explain: Annotated[Optional[str], _opt("--explain", text="Print one bin's whole budget, term by term.")] = None,
+        rules: Annotated[Optional[Path], _opt("--rules", text=(
+            "A TOML file overriding the application table (default: stock-grading.toml beside the database)."))] = None,
+        as_json: Annotated[bool, _opt("--json", text="Print one JSON object.")] = False,
     ) -> None:
         """Grade parts for each application: fit, marginal, unfit or unknown, from their worst-case budget.
 
@@ -150,15 +158,15 @@ def register(app: typer.Typer) -> None:
     @app.command("drift")
     def drift(
         ctx: typer.Context,
-        part: Annotated[str, typer.Option("--part", help="A bin (id, key, location, label) or a marking such as '101J C0G'.")],
-        delta_t: Annotated[str, typer.Option("--delta-t", help="Temperature change in K (negative: cooler).")] = "10",
-        f0: Annotated[Optional[str], typer.Option("--f0", help="The tank's frequency, e.g. 10MHz.")] = None,
-        tank: Annotated[Optional[str], typer.Option("--tank", help="Total tank capacitance, e.g. 150p.")] = None,
-        coil: Annotated[Optional[str], typer.Option("--coil", help="The coil instead of --tank, e.g. 10uH.")] = None,
-        part_c: Annotated[Optional[str], typer.Option("--part-c", help="This part's capacitance if not its marked value.")] = None,
-        timer: Annotated[bool, typer.Option("--timer", help="An RC timer instead of a tank: Δt/t = ΔC/C.")] = False,
-        period: Annotated[Optional[str], typer.Option("--period", help="The timer's period, e.g. 1.5s (with --timer).")] = None,
-        as_json: Annotated[bool, typer.Option("--json", help="Print one JSON object.")] = False,
+        part: Annotated[str, _opt("--part", text="A bin (id, key, location, label) or a marking such as '101J C0G'.")],
+        delta_t: Annotated[str, _opt("--delta-t", text="Temperature change in K (negative: cooler).")] = "10",
+        f0: Annotated[Optional[str], _opt("--f0", text="The tank's frequency, e.g. 10MHz.")] = None,
+        tank: Annotated[Optional[str], _opt("--tank", text="Total tank capacitance, e.g. 150p.")] = None,
+        coil: Annotated[Optional[str], _opt("--coil", text="The coil instead of --tank, e.g. 10uH.")] = None,
+        part_c: Annotated[Optional[str], _opt("--part-c", text="This part's capacitance if not its marked value.")] = None,
+        timer: Annotated[bool, _opt("--timer", text="An RC timer instead of a tank: Δt/t = ΔC/C.")] = False,
+        period: Annotated[Optional[str], _opt("--period", text="The timer's period, e.g. 1.5s (with --timer).")] = None,
+        as_json: Annotated[bool, _opt("--json", text="Print one JSON object.")] = False,
     ) -> None:
         """How far one part's temperature drift moves a tank's frequency or a timer's period.
 

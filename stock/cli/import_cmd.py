@@ -13,10 +13,7 @@ from stock.cli.bins_cmd import text_table
 
 IMPORT_HELP = """Import bin sheets (CSV or XLSX) into the stock database.
 
-Each file is one transaction: all of it is stored, or none. Every row is accounted for:
-stored, unchanged (already stored that way) or quarantined (see `stock quarantine`).
-Importing the same file again changes nothing; an edited file updates its bins and records
-count differences in the ledger.
+Each file is one transaction: all of it is stored, or none. Every row is accounted for: stored, unchanged (already stored that way) or quarantined (see `stock quarantine`). Importing the same file again changes nothing; an edited file updates its bins and records count differences in the ledger.
 
 Example:
 

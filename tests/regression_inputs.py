@@ -1,0 +1,60 @@
+"""Inputs that once broke something, kept so they never break it again.
+
+Each entry says what failed, where, and what the right outcome is. The hostile-input suites
+(tests/test_fuzz_*.py, tests/test_hostile_files.py) run every entry through the real code path.
+Source: hostile inputs are common practice in fuzzing, no published source; each entry here was
+found by this project's own fuzz tests.
+"""
+
+from __future__ import annotations
+
+# Text given to stock.markings.decode and stock.colour_codes.decode_colours: each must give a
+# Marking (never raise). Kept: inputs near the edges the decoders split on, and the shapes the
+# fuzzers generate that are slowest or most tangled.
+DECODER_TEXTS: tuple[str, ...] = (
+    "",
+    " ",
+    "\x00",
+    "\x00104\x00",
+    "104\r\n472",
+    "\u202e104K",                       # right-to-left override before a code
+    "１０４Ｋ",                          # full-width digits and letter
+    "٣٣٣",                             # Arabic-Indic digits match \d in Python regexes
+    "²²³",                             # superscript digits do not
+    "1" * 100_000,                      # a huge number, far past any multiplier table
+    "brown " * 20_000,                  # a huge colour sequence
+    "4n7" * 30_000,
+    "9" * 400 + "pF",
+    "1e999999 uF",
+    "NaN pF",
+    "inf uF",
+    "-0 pF",
+    "0.0000000000000000000000000001pF",
+    "±±±%%%",
+    "X1Y2Y1X2 250VAC 275 V~",
+    "red red red red red red red red",
+    "=104K",
+    "104K '); DROP TABLE bins;--",
+    "\udcff",                           # a lone surrogate (what errors="surrogateescape" leaves)
+)
+
+# CSV sheets (name -> file bytes) imported end to end with stock.intake.import_file; each must
+# give a report or a StockError, and leave a store that passes stock.check.check_store.
+CSV_SHEETS: dict[str, bytes] = {
+    # OverflowError from sqlite3 ("Python int too large to convert to SQLite INTEGER") inside
+    # stock.intake: a count past SQLite's 64-bit INTEGER got to the ledger insert. Right: the
+    # row is quarantined as a bad quantity and the rest of the file is stored.
+    "quantity-past-64-bits": b"Location,Marking,Qty\nA1,104,99999999999999999999\nA2,472,5\n",
+    # Same failure for the minimum column. Right: the row is stored, the minimum left unknown
+    # (a bad minimum is no reason to lose a row; the raw cell is kept).
+    "minimum-past-64-bits": b"Location,Marking,Qty,Minimum\nA1,104,5,99999999999999999999\n",
+    # Exactly 2**63: one past the largest SQLite INTEGER.
+    "quantity-two-to-the-63": b"Location,Marking,Qty\nA1,104,9223372036854775808\n",
+    # Largest SQLite INTEGER itself is a legal (absurd) count.
+    "quantity-largest-integer": b"Location,Marking,Qty\nA1,104,9223372036854775807\n",
+    "headers-only": b"Location,Marking,Qty\n",
+    "nul-bytes": b"Location,Mar\x00king,Qty\nA1,10\x004,5\n",
+    "unicode-digits-in-quantity": "Location,Marking,Qty\nA1,104,٣\nA2,104,²\n".encode(),
+}
+
+__all__ = ["CSV_SHEETS", "DECODER_TEXTS"]
