@@ -81,7 +81,7 @@ CABINET_B = [
     ("B9", "330p", "330pF 1% polystyrene", 30, 10, "filter work"),
     ("B10", "1n", "1000 pF 2.5% polystyrene", 25, 5, ""),
     ("B11", "100p", "100pF 5% silver mica 500V", 40, 10, "VFO"),
-    ("B12", "470p", "dots: white yellow violet brown black gold", 15, 2, "old mica, EIA dots"),
+    ("B12", "470p", "dots: white yellow violet red gold brown", 15, 2, "old mica, EIA dots"),
     ("B13", "250p", "250 mmfd mica", 10, 2, "from a radio, old"),
     ("B14", "47n", ".047 MFD 600V paper", 8, None, "do not use in mains work"),
     ("B15", "100n", "X2 0.1uF 275VAC", 30, 10, "mains filter"),

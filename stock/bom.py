@@ -74,7 +74,10 @@ CAPACITOR_KIND_WORDS = ("capacitor", "cap", "condenser", "kondensator")
 SAFETY_CLASS_RE = re.compile(r"\b(X1Y[12]|X[123]|Y[1-4])\b", re.IGNORECASE)
 _RANGE_RE = re.compile(r"^([A-Za-z]+)(\d+)\s*[-–…]\s*(?:\1)?(\d+)$")
 _REF_RE = re.compile(r"^([A-Za-z]+)\d")
+# "100n", "4n7", "0.1u", "2µ2": a value only a capacitor carries (IEC 60062 letter-and-digit code).
+_CAP_UNIT_RE = re.compile(r"^\s*\d+(?:[.,]\d+)?\s*[pnuµμ](?:\d+)?\b", re.IGNORECASE)
 MAX_RANGE = 1000            # a "C1-C99999" typo must not expand into memory
+MAX_QTY_PER_BOARD = 1_000_000   # beyond this a quantity is a typo (keeps every need in 64 bits)
 
 
 @dataclass(frozen=True)
@@ -179,8 +182,8 @@ def part_kind(refs: Iterable[str], value_text: str = "", kind_text: str = "") ->
     'capacitor'
     >>> part_kind((), "4.7uF")
     'capacitor'
-    >>> part_kind((), "LM317")
-    'unknown'
+    >>> part_kind((), "4n7"), part_kind((), "LM317"), part_kind((), "10k")
+    ('capacitor', 'unknown', 'unknown')
     """
     words = kind_text.strip().lower()
     if words:
@@ -198,7 +201,7 @@ def part_kind(refs: Iterable[str], value_text: str = "", kind_text: str = "") ->
         return kinds.pop()
     if kinds:
         return "mixed"
-    if re.search(r"\d\s*[pnuµμm]?\s*F\b", value_text, re.IGNORECASE):
+    if re.search(r"\d\s*[pnuµμm]?\s*F\b", value_text, re.IGNORECASE) or _CAP_UNIT_RE.match(value_text):
         return "capacitor"
     return "unknown"
 
@@ -216,8 +219,11 @@ def _quantity(text: str) -> int:
         number = Decimal(text)
     except InvalidOperation:
         raise ValueError(f"{text!r} is not a whole number of parts") from None
-    if number != number.to_integral_value() or number < 0:
+    if not number.is_finite() or number != number.to_integral_value() or number < 0:
         raise ValueError(f"{text!r} is not a whole number of parts")
+    if number > MAX_QTY_PER_BOARD:
+        raise ValueError(f"{text!r} is more than {MAX_QTY_PER_BOARD:,} parts per board; check the"
+                         " quantity")
     return int(number)
 
 
@@ -265,26 +271,30 @@ def _dielectric_token(text: str) -> Dielectric | None:
 
 
 def _tolerance_pct(text: str, capacitance_pf: Decimal) -> Decimal:
+    """A tolerance cell as ± % of the value: ``5%``, ``±0.25pF``, ``+80/-20%``, ``5`` or a letter.
+
+    An asymmetric tolerance counts by its larger side. A letter whose meaning tables dispute is
+    refused: a plan must not rest on a guess.
+    """
+    from stock.tolerance_codes import read_explicit_tolerance, read_tolerance_letter
     from stock.units import parse_percent
 
-    cleaned = text.replace("±", "").replace("+/-", "").strip()
-    absolute = re.fullmatch(r"(\d+(?:\.\d+)?)\s*pF", cleaned, re.IGNORECASE)
-    if absolute:
-        return Decimal(absolute.group(1)) * 100 / capacitance_pf
-    try:
-        return parse_percent(cleaned, "tolerance")
-    except BadValue:
-        pass
-    from stock.markings import decode
-
-    # A bare tolerance letter (J, K, M ...): read it the way a marking's letter is read.
-    if re.fullmatch(r"[A-Za-z]", cleaned):
-        marking = decode(f"104{cleaned.upper()}")
-        tol = marking.tolerance.as_percent(capacitance_pf) if marking.tolerance else None
-        if tol is not None:
-            return max(tol)
-    raise Unreadable("tolerance", text, f"cannot read tolerance {text!r} (expected ±5 %, 10%, "
-                     "±0.25 pF or a letter code such as J or K)")
+    token = text.strip().replace(" ", "").replace("+/-", "±").replace("+-", "±")
+    tol = read_explicit_tolerance(token) or read_explicit_tolerance("±" + token.lstrip("±"))
+    if tol is None and re.fullmatch(r"[A-Za-z]", token):
+        reading = read_tolerance_letter(token, capacitance_pf)
+        if reading is not None:
+            doubt = next((f for f in reading.flags if f.kind in DOUBTFUL_FLAGS), None)
+            if doubt is not None:
+                raise Unreadable("tolerance", text, f"{doubt.message}; write it out (±5 %, ±10 %)")
+            tol = reading.tolerance
+    if tol is None:
+        try:
+            return parse_percent(token, "tolerance")
+        except BadValue:
+            raise Unreadable("tolerance", text, f"cannot read tolerance {text!r} (expected ±5 %, 10%,"
+                             " +80/-20 %, ±0.25 pF or a letter code such as J or K)") from None
+    return max(tol.as_percent(capacitance_pf))
 
 
 def read_requirement(value_text: str, marking_text: str, columns: dict[str, str],
@@ -529,7 +539,7 @@ def read_bom(path: str | Path, *, sheet: str | None = None,
     if "value" not in index and "marking" not in index:
         raise BadSheet(raw.file, "no column holds the value or marking", sheet=raw.sheet,
                        row=raw.header_row,
-                       hint="a header such as Value, Marking or Capacitance (or --map HEADER=value)")
+                       hint="a header such as Value, Marking or Capacitance, or --map value=HEADER")
     if "refs" not in index and "qty" not in index:
         raise BadSheet(raw.file, "no column holds the designators or a quantity", sheet=raw.sheet,
                        row=raw.header_row,

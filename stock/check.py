@@ -4,7 +4,7 @@ Checks, each a plain sentence when it fails:
 
 - SQLite's own ``PRAGMA integrity_check`` and ``PRAGMA foreign_key_check``;
 - every bin's ``on_hand`` equals the sum of its ledger movements (a bin whose quantity is unknown
-  has no movements);
+  has only movements that change nothing, such as a recorded decision);
 - no part, ledger row, flag, source row or reservation points at a bin, import or plan that is gone;
 - every pulled plan has pull movements for what it reserved, and no held reservation exceeds what
   its bin holds.
@@ -62,7 +62,7 @@ def check_store(store: Store) -> CheckReport:
     mismatches = store.rows(
         "SELECT b.id, b.bin_key, b.on_hand, COALESCE(SUM(l.delta), 0) AS total, COUNT(l.id) AS moves"
         " FROM bins b LEFT JOIN ledger l ON l.bin_id = b.id GROUP BY b.id"
-        " HAVING (b.on_hand IS NULL AND moves > 0) OR (b.on_hand IS NOT NULL AND b.on_hand != total)")
+        " HAVING (b.on_hand IS NULL AND total != 0) OR (b.on_hand IS NOT NULL AND b.on_hand != total)")
     for m in mismatches:
         held = "unknown" if m["on_hand"] is None else str(m["on_hand"])
         problems.append(f"bin {m['bin_key']} says {held} on hand but its ledger sums to {m['total']}")

@@ -31,7 +31,7 @@ import math
 from collections.abc import Iterable
 from dataclasses import dataclass
 from decimal import Decimal
-from typing import Literal, NamedTuple
+from typing import Any, Literal, NamedTuple
 
 PairKind = Literal["parallel", "series"]
 PAIR_KINDS: tuple[PairKind, ...] = ("parallel", "series")
@@ -303,6 +303,31 @@ def _tempco_interval(q: PairQuery, c1: float, a1: float, t1: float, a2: float, t
     return x_lo, x_hi
 
 
+# Tolerance steps (%) for grouping partners: the usual marked tolerances (IEC 60062 letters).
+_TOLERANCE_STEPS = (0.5, 1.0, 2.0, 5.0, 10.0, 20.0, 50.0, 100.0)
+
+
+def _tolerance_interval(parallel: bool, c1: float, m1: float, p1: float, m2: float, p2: float,
+                        lo: float, hi: float, x_lo: float, x_hi: float) -> tuple[float, float]:
+    """Narrow the partner interval to the C₂ whose worst case could stay in [lo, hi].
+
+    ``m2``/``p2`` are the tightest tolerances in the partner group, so the bound is never tighter
+    than any member's own (each member is still checked on its own tolerance).
+    """
+    lo1, hi1 = c1 * (1 - m1 / 100), c1 * (1 + p1 / 100)
+    f_lo, f_hi = 1 - m2 / 100, 1 + p2 / 100
+    if f_lo <= 0:
+        return _EMPTY
+    if parallel:  # lo1 + C₂·f_lo ≥ lo and hi1 + C₂·f_hi ≤ hi
+        return max(x_lo, (lo - lo1) / f_lo * (1 - _SLACK)), min(x_hi, (hi - hi1) / f_hi * (1 + _SLACK))
+    if lo1 <= lo:  # the low corner of a series pair is below either part's low limit
+        return _EMPTY
+    x_lo = max(x_lo, lo1 * lo / (lo1 - lo) / f_lo * (1 - _SLACK))
+    if hi1 > hi:
+        x_hi = min(x_hi, hi1 * hi / (hi1 - hi) / f_hi * (1 + _SLACK))
+    return x_lo, x_hi
+
+
 def _value(kind: PairKind, c1: float, c2: float) -> float:
     return c1 + c2 if kind == "parallel" else c1 * c2 / (c1 + c2)
 
@@ -318,17 +343,25 @@ class PairIndex:
         self.items = sorted(items)  # by value, then key (keys are unique, so no further field compares)
         self._groups: dict[tuple[bool, bool], list[tuple[float, float, list[PairItem], list[float]]]] = {}
 
-    def groups(self, tempco: bool, worst_case: bool) -> list[tuple[float, float, list[PairItem], list[float]]]:
-        """(α, α tolerance, members by value, their values) per tempco group; one group without a window."""
+    def groups(self, tempco: bool, worst_case: bool) -> list[tuple[Any, ...]]:
+        """The partner groups: (α, α tolerance, tightest minus %, tightest plus %, members, values).
+
+        With a tempco window, one group per (α, tolerance on α); when the pair's worst case counts,
+        the groups are split further by tolerance step (see :data:`_TOLERANCE_STEPS`), so a bound
+        computed from a group's tightest member excludes few of the others.
+        """
         key = (tempco, worst_case)
         if key not in self._groups:
-            grouped: dict[tuple[float, float] | None, list[PairItem]] = {}
+            grouped: dict[tuple[Any, ...], list[PairItem]] = {}
             for it in self.items:
                 if (tempco and it[4] is None) or (worst_case and (it[2] is None or it[3] is None)):
                     continue
-                grouped.setdefault((it[4], it[5]) if tempco else None, []).append(it)
-            self._groups[key] = [(g[0] if g else 0.0, g[1] if g else 0.0, members, [it[0] for it in members])
-                                 for g, members in grouped.items()]
+                step = bisect.bisect_left(_TOLERANCE_STEPS, max(it[2], it[3])) if worst_case else 0
+                grouped.setdefault((it[4], it[5], step) if tempco else (0.0, 0.0, step), []).append(it)
+            self._groups[key] = [
+                (a, t, min(it[2] for it in members) if worst_case else 0.0,
+                 min(it[3] for it in members) if worst_case else 0.0, members, [it[0] for it in members])
+                for (a, t, _), members in grouped.items()]
         return self._groups[key]
 
     def nearest(self, q: PairQuery, limit: int, *, per_part: int | None = None,
@@ -356,7 +389,7 @@ class PairIndex:
         parallel = q.kind == "parallel"
         band_lo, band_hi = (lo / 2, hi) if parallel else (lo, 2 * hi)
         worst, volts_needed = q.worst_case, q.working_v
-        anchors = [it for _, _, members, caps in table
+        anchors = [it for *_, members, caps in table
                    for it in members[bisect.bisect_left(caps, band_lo):bisect.bisect_right(caps, band_hi)]
                    if it[1] not in exclude]
         best: list[tuple[float, int, int]] = []  # heap of (−error, −key₁, −key₂): the worst kept on top
@@ -370,8 +403,10 @@ class PairIndex:
                 ideal = c1 * target / (c1 - target) if c1 > target else math.inf
                 x_lo = max(c1 * lo / (c1 - lo), c1)
                 x_hi = c1 * hi / (c1 - hi) if c1 > hi else math.inf
-            for a2, t2, members, caps in table:
+            for a2, t2, m2, p2, members, caps in table:
                 y_lo, y_hi = _tempco_interval(q, c1, a1, t1, a2, t2, x_lo, x_hi) if tempco else (x_lo, x_hi)
+                if worst:
+                    y_lo, y_hi = _tolerance_interval(parallel, c1, m1, p1, m2, p2, lo, hi, y_lo, y_hi)
                 if y_lo > y_hi:
                     continue
                 start, stop = bisect.bisect_left(caps, y_lo), bisect.bisect_right(caps, y_hi)
@@ -396,7 +431,7 @@ class PairIndex:
                     if len(best) >= limit and -best[0][0] <= err:
                         break  # every partner further out is worse than all pairs kept
                     looked += 1
-                    c2, k2, m2, p2, _, _, v2, _ = two
+                    c2, k2, n2, q2, _, _, v2, _ = two
                     # Each unordered pair once: the partner is the smaller (parallel) or the larger
                     # (series) part, ties broken by key; the same bin twice only if it holds enough.
                     if ((c2, k2) > (c1, k1)) if parallel else ((c2, k2) < (c1, k1)):
@@ -404,8 +439,8 @@ class PairIndex:
                     if (k1 == k2 and not double1) or k2 in exclude:
                         continue
                     if worst:
-                        low = _value(q.kind, c1 * (1 - m1 / 100), c2 * (1 - m2 / 100))
-                        high = _value(q.kind, c1 * (1 + p1 / 100), c2 * (1 + p2 / 100))
+                        low = _value(q.kind, c1 * (1 - m1 / 100), c2 * (1 - n2 / 100))
+                        high = _value(q.kind, c1 * (1 + p1 / 100), c2 * (1 + q2 / 100))
                         if low < lo or high > hi:
                             continue
                     if volts_needed is not None:

@@ -32,6 +32,18 @@ from stock.units import format_capacitance, format_number
 PI = Decimal("3.14159265358979323846264338327950288")
 
 
+def format_frequency(hz: Decimal) -> str:
+    """A frequency for people: ``10 MHz``, ``455 kHz``, ``−150 Hz``.
+
+    >>> format_frequency(Decimal(10_000_000)), format_frequency(Decimal(455_000)), format_frequency(Decimal(-150))
+    ('10 MHz', '455 kHz', '−150 Hz')
+    """
+    for exponent, unit in ((9, "GHz"), (6, "MHz"), (3, "kHz")):
+        if abs(hz) >= Decimal(10) ** exponent:
+            return f"{format_number(round(hz.scaleb(-exponent), 6))} {unit}"
+    return f"{format_number(round(hz, 3))} Hz"
+
+
 def resonant_frequency_hz(inductance_h: Decimal, capacitance_pf: Decimal) -> Decimal:
     """f = 1 / (2π√(LC)), rounded to 1 Hz.
 
@@ -335,7 +347,7 @@ def circuit_drift(db_path: str | Path | None, part: str, delta_t_k: Decimal, *, 
 
 
 __all__ = [
-    "PartDrift", "circuit_drift", "TankDrift", "TimerDrift", "parse_frequency", "parse_inductance",
+    "PartDrift", "format_frequency", "circuit_drift", "TankDrift", "TimerDrift", "parse_frequency", "parse_inductance",
     "parse_kelvin", "parse_period", "part_drift", "resolve_part", "resonant_frequency_hz",
     "tank_capacitance_pf", "tank_drift", "tank_shift_ppm", "timer_drift",
 ]

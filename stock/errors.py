@@ -37,8 +37,8 @@ def _where(file: str | None = None, sheet: str | None = None, row: int | None = 
 class BadSheet(StockError, ValueError):
     """A file that cannot be read as a sheet of parts (binary, corrupt, empty, no header ...).
 
-    >>> str(BadSheet("bins.csv", "no header row found", hint="a row naming a value or marking column"))
-    "bins.csv: no header row found (expected a row naming a value or marking column)"
+    >>> print(BadSheet("bins.csv", "no header row found", hint="a row naming a value or marking column"))
+    bins.csv: no header row found (expected a row naming a value or marking column)
     """
 
     file: str
@@ -60,8 +60,8 @@ class BadSheet(StockError, ValueError):
 class BadValue(StockError, ValueError):
     """A value given on the command line or in a BOM that does not parse.
 
-    >>> str(BadValue("--value", "15x", "a capacitance such as 150p, 4n7, 0.1u or 104"))
-    "--value: cannot read '15x' (expected a capacitance such as 150p, 4n7, 0.1u or 104)"
+    >>> print(BadValue("--value", "15x", "a capacitance such as 150p, 4n7, 0.1u or 104"))
+    --value: cannot read '15x' (expected a capacitance such as 150p, 4n7, 0.1u or 104)
     """
 
     what: str
@@ -77,8 +77,8 @@ class BadValue(StockError, ValueError):
 class NotFound(StockError, LookupError):
     """A bin, plan or other named thing that is not in the store.
 
-    >>> str(NotFound("bin", "A9", "a bin id or label listed by `stock bins`"))
-    "no bin 'A9' (expected a bin id or label listed by `stock bins`)"
+    >>> print(NotFound("bin", "A9", "a bin id or label listed by `stock bins`"))
+    no bin 'A9' (expected a bin id or label listed by `stock bins`)
     """
 
     what: str

@@ -43,7 +43,7 @@ from stock.applications import Rule, Rules, load_rules
 from stock.decoded import Marking
 from stock.errors import BadValue, NotFound
 from stock.stability import (
-    AGEING_REFERENCE_HOURS, DC_BIAS_LIMITS, REFERENCE_C, SHELF_LIFE, Term, ageing_decades, ageing_rate_pct,
+    AGEING_REFERENCE_HOURS, DC_BIAS_LIMITS, REFERENCE_C, Derating, SHELF_LIFE, Term, ageing_decades, ageing_rate_pct,
     dc_bias_loss_pct, derating_for, is_polarised, pct, pm, temperature_term,
 )
 from stock.units import format_capacitance, format_number, format_temperature_range, format_voltage
@@ -167,6 +167,7 @@ class Grade:
     word: str
     reasons: tuple[str, ...]
     budget: Budget | None = None
+    deciding: int = 1       # how many of the leading reasons decided the word (the rest inform)
 
     def to_json(self) -> dict[str, Any]:
         return {"application": self.application, "grade": self.word, "reasons": list(self.reasons)}
@@ -191,6 +192,10 @@ def _voltage(marking: Marking, c: Conditions) -> tuple[VoltageCheck | None, str 
         return None, "rated voltage"
     d = marking.dielectric
     rule = derating_for(d.family if d else None, d.klass if d else None, marking.voltage_v)
+    if marking.safety_class and marking.voltage_kind == "AC":
+        # from memory of IEC 60384-14: X/Y parts are rated for continuous mains at their AC rating
+        rule = Derating(Decimal(1), "X/Y parts at up to their rated AC voltage",
+                        "from memory of IEC 60384-14")
     limit = marking.voltage_v * rule.fraction
     working, rated = format_voltage(c.working_v, None), format_voltage(marking.voltage_v, marking.voltage_kind)
     share = format_number(round(c.working_v * 100 / marking.voltage_v, 1))
@@ -443,7 +448,7 @@ def grade(marking: Marking, application: str, conditions: Conditions = Condition
     reasons += list(budget.notes)
     if rule.safety:
         reasons.append(MAINS_CAUTION)
-    return Grade(application, word, tuple(reasons), budget)
+    return Grade(application, word, tuple(reasons), budget, deciding=len(deciding))
 
 
 def grade_all(marking: Marking, conditions: Conditions = Conditions(), *,
@@ -549,30 +554,38 @@ def current_version(store) -> str:
 def refresh_stored_grades(store, bin_ids: Iterable[int] | None = None) -> int:
     """Store each part's grades at the default conditions; returns how many parts were graded.
 
-    With ``bin_ids`` those parts are graded again (their marking may have changed). Without, only
-    parts whose stored grades are missing or carry another table version (the application table,
-    a shop override beside the database, or the model changed) are graded: a cheap no-op when
-    nothing changed.
+    Each row keeps the grade word and the reasons that decided it. With ``bin_ids`` those parts are
+    graded again (their marking may have changed). Without, only parts whose stored grades are
+    missing or carry another table version (the application table, a shop override beside the
+    database, or the model changed) are graded: a cheap no-op when nothing changed.
     """
     rules = load_rules(db_path=store.path)
     if bin_ids is not None:
         ids = sorted(set(int(i) for i in bin_ids))
-        rows = [r for i in ids for r in store.rows(_PART_SQL + " WHERE b.id = ?", (i,))]
+        rows = []
+        for start in range(0, len(ids), 500):   # stay under SQLite's bound-parameter limit
+            chunk = ids[start:start + 500]
+            rows += store.rows(_PART_SQL + f" WHERE b.id IN ({', '.join('?' * len(chunk))})", chunk)
     else:
+        current = store.one("SELECT (SELECT COUNT(*) FROM grades g JOIN parts p ON p.bin_id = g.bin_id"
+                            " WHERE g.table_version = ?) AS graded,"
+                            " (SELECT COUNT(*) FROM parts) AS parts", (rules.version,))
+        if current and current["graded"] == current["parts"] * len(rules.rows):
+            return 0   # the usual case: every part carries this table's grades
         rows = store.rows(
             _PART_SQL + " WHERE (SELECT COUNT(*) FROM grades g WHERE g.bin_id = p.bin_id"
             " AND g.table_version = ?) < ?", (rules.version, len(rules.rows)))
     if not rows:
         return 0
     records = []
-    seen: dict[str, dict[str, Grade]] = {}   # many bins hold the same marking: grade it once
+    seen: dict[str, list[tuple[str, str, str]]] = {}   # many bins hold the same marking: grade it once
     for r in rows:
         key = r.get("settled_json") or r["decoded_json"]
         if key not in seen:
-            seen[key] = grade_all(_row_marking(r), Conditions(), rules=rules)
-        for name, g in seen[key].items():
-            records.append((r["bin_id"], name, g.word, json.dumps(list(g.reasons), ensure_ascii=False),
-                            rules.version))
+            # only the deciding reasons are stored; `stock grade --explain` recomputes the rest
+            seen[key] = [(name, g.word, json.dumps(list(g.reasons[:g.deciding]), ensure_ascii=False))
+                         for name, g in grade_all(_row_marking(r), Conditions(), rules=rules).items()]
+        records += [(r["bin_id"], name, word, reasons, rules.version) for name, word, reasons in seen[key]]
     with store.writing():
         store.db.conn.executemany(
             "INSERT INTO grades (bin_id, application, grade, reasons_json, table_version)"

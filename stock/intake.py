@@ -41,6 +41,7 @@ MARKING_FIELDS = ("marking", "colours", "dielectric", "tolerance", "voltage", "s
 # Fields that can carry the part's reading; a sheet with none of them cannot be imported.
 READING_FIELDS = ("marking", "value", "colours")
 BATCH = 2000
+MAX_COUNT = 2**53  # larger is a typing slip, and no longer exact as a JSON number
 PROGRESS_EVERY = 1000
 
 # Why a row was quarantined, and what the user can do about it (shown by `stock quarantine`).
@@ -68,6 +69,7 @@ class SheetReport:
     flags_raised: int = 0
     same_file: bool = False
     mapping: tuple[str, ...] = ()
+    notes: tuple[str, ...] = ()
     import_id: int | None = None
 
     def to_json(self) -> dict[str, Any]:
@@ -76,7 +78,7 @@ class SheetReport:
             "quarantined": self.quarantined, "flagged": self.flagged, "unchanged": self.unchanged,
             "new_bins": self.new_bins, "updated_bins": self.updated_bins,
             "count_movements": self.count_movements, "flags_raised": self.flags_raised,
-            "same_file": self.same_file, "mapping": list(self.mapping),
+            "same_file": self.same_file, "mapping": list(self.mapping), "notes": list(self.notes),
         }
 
 
@@ -157,6 +159,8 @@ def read_quantity(value: Any) -> int | None:
         number = int(exact)
     if number < 0:
         raise ValueError(f"quantity {cell_text(value)!r} is negative")
+    if number > MAX_COUNT:
+        raise ValueError(f"quantity {cell_text(value)!r} is too large to be a count")
     return number
 
 
@@ -230,6 +234,7 @@ def _same_value(a: Decimal, b: Decimal) -> bool:
 _VALUE_TOKEN = re.compile(r"\d[\d.,]*\s*(?:[pnuµμ]\s*F?|F)\b|\d+[pnuµμR]\d+", re.IGNORECASE)
 
 
+@lru_cache(maxsize=4096)
 def _label_value(label: str) -> tuple[str, Decimal] | None:
     """A capacitance written in a bin label ("10nF", "Box 4n7 C0G"), if it states one."""
     from stock.units import parse_capacitance
@@ -362,9 +367,10 @@ class _SheetIntake:
         self.ids[table] += 1
         return self.ids[table]
 
-    def _quarantine(self, number: int, cells: tuple[Any, ...], kind: str, message: str) -> None:
+    def _quarantine(self, number: int, cells: tuple[Any, ...],
+                    problems: list[tuple[str, str]]) -> None:
         self.counts["quarantined"] += 1
-        reasons = json.dumps([{"kind": kind, "message": message}], ensure_ascii=False)
+        reasons = json.dumps([{"kind": k, "message": m} for k, m in problems], ensure_ascii=False)
         self._sources.append((self._next_id("source_rows"), self.import_id, self.sheet.sheet, number,
                               self._raw_json(cells, self._extra), "quarantined", reasons, None))
 
@@ -421,20 +427,23 @@ class _SheetIntake:
         return full, merged
 
     def _row(self, number: int, cells: tuple[Any, ...]) -> None:
+        problems: list[tuple[str, str]] = []  # every reason a row is refused, not just the first
         try:
             quantity = read_quantity(self._raw_cell(cells, "quantity"))
         except ValueError as exc:
-            self._quarantine(number, cells, "bad-quantity", str(exc))
-            return
+            quantity = None
+            problems.append(("bad-quantity", str(exc)))
         f = self._texts(cells)
         text, colours, value_text = self._marking_text(f)
         text, marking = self._decode(text, colours)
         if marking is None or (marking.capacitance_pf is None
                                and not any(a.capacitance_pf is not None for a in marking.alternatives)):
-            shown = text or cell_text(next((c for c in cells if c not in (None, "")), ""))
-            self._quarantine(number, cells, "no-capacitance",
-                             f"no capacitance could be read from {shown!r}")
+            problems.append(("no-capacitance", f"no capacitance could be read from {text!r}" if text
+                             else "no capacitance could be read: the row has no marking or value"))
+        if problems:
+            self._quarantine(number, cells, problems)
             return
+        assert marking is not None
         label = f.get("label", "")
         location = f.get("location", "")
         cabinet = f.get("cabinet") or self.default_cabinet
@@ -445,8 +454,8 @@ class _SheetIntake:
         first = self.seen.get(key)
         if first is not None:
             where = f"row {first[1]}" + (f" of sheet {first[0]!r}" if first[0] != self.sheet.sheet else "")
-            self._quarantine(number, cells, "duplicate-row",
-                             f"bin {key!r} already came from {where} of this file")
+            self._quarantine(number, cells, [("duplicate-row",
+                                              f"bin {key!r} already came from {where} of this file")])
             return
         self.seen[key] = (self.sheet.sheet, number)
 
@@ -634,6 +643,11 @@ def _check_readable(raw_sheet: Any, header_map: Any, path: Path) -> None:
                        hint="a column such as 'Marking', 'Value' or 'Colours', or --map marking=HEADER")
 
 
+def _sheet_notes(raw_sheet: Any) -> tuple[str, ...]:
+    """What the reader found worth telling while reading (rows below a long blank run not read ...)."""
+    return tuple(getattr(raw_sheet, "notes", None) or ())
+
+
 def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
                 overrides: dict[str, str] | None = None, dry_run: bool = False,
                 progress: Callable[[int], None] | None = None) -> ImportReport:
@@ -696,6 +710,7 @@ def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
                      cur.lastrowid))
                 touched.extend(intake.touched)
                 reports.append(SheetReport(str(path), raw_sheet.sheet, mapping=mapping,
+                                           notes=_sheet_notes(raw_sheet),
                                            import_id=None if dry_run else cur.lastrowid, **c))
             if touched and not dry_run:
                 from stock.grading import refresh_stored_grades

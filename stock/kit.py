@@ -29,16 +29,24 @@ from __future__ import annotations
 import json
 import math
 from collections import defaultdict
+from collections.abc import Iterable
 from dataclasses import dataclass, field, replace
 from decimal import Decimal
 from pathlib import Path
-from typing import Any, Iterable
+from typing import Any
 
-from stock.bom import Bom, BomLine, read_bom
+from stock.bom import Bom, BomLine, BomProblem, read_bom
 from stock.decoded import Marking
 from stock.errors import BadValue, NotFound, Refused
-from stock.kit_rules import ALLOWANCES, Candidate, Verdict, check_part, choose_bins, cautions_for
+from stock.kit_rules import ALLOWANCES, Candidate, Verdict, cautions_for, check_part, choose_bins
 from stock.store import Store, now
+
+
+# Limits that keep every need inside SQLite's 64-bit INTEGER with room to spare (a plan for more
+# than a million boards is a typo, not a build).
+MAX_BOARDS = 1_000_000
+MAX_SPARE_PCT = 1000
+
 
 @dataclass(frozen=True)
 class KitOptions:
@@ -52,10 +60,12 @@ class KitOptions:
     allow: frozenset[str] = frozenset()
 
     def __post_init__(self) -> None:
-        if self.boards < 1:
-            raise BadValue("--boards", str(self.boards), "a whole number of boards, 1 or more")
-        if self.spare_pct < 0:
-            raise BadValue("--spare", str(self.spare_pct), "a percentage of 0 or more")
+        if not 1 <= self.boards <= MAX_BOARDS:
+            raise BadValue("--boards", str(self.boards),
+                           f"a whole number of boards from 1 to {MAX_BOARDS:,}")
+        if not self.spare_pct.is_finite() or not 0 <= self.spare_pct <= MAX_SPARE_PCT:
+            raise BadValue("--spare", str(self.spare_pct),
+                           f"a percentage from 0 to {MAX_SPARE_PCT}")
         unknown = set(self.allow) - set(ALLOWANCES)
         if unknown:
             raise BadValue("--allow", ", ".join(sorted(unknown)), "one of " + ", ".join(ALLOWANCES))
@@ -220,7 +230,19 @@ def _search_requirement(line: BomLine, options: KitOptions) -> Any:
         tempco_min=None if lower_ok else line.tempco_min,
         tempco_max=None if lower_ok else line.tempco_max,
         application=line.application, allow_marginal=True,
-        conditions=options.conditions(), family=family, safety_class=line.safety_class, qty=1)
+        conditions=options.conditions(), family=family,
+        safety_class=_search_safety(line.safety_class), qty=1)
+
+
+def _search_safety(wanted: str | None) -> str | None:
+    """One class for the search: of a dual marking (X1Y2) the Y class, which also covers X ones.
+
+    :func:`stock.kit_rules.check_part` then checks every class named.
+    """
+    from stock.search import safety_classes
+
+    classes = sorted(safety_classes(wanted), key=lambda c: (c[0] != "Y", c))
+    return classes[0] if classes else None
 
 
 def describe_line(line: BomLine, options: KitOptions, qty: int = 1) -> str:
@@ -234,7 +256,7 @@ def describe_line(line: BomLine, options: KitOptions, qty: int = 1) -> str:
         tol_pct=line.tol_pct if line.tol_pct is not None and 0 < line.tol_pct < 100 else None,
         tempco_min=line.tempco_min, tempco_max=line.tempco_max,
         application=line.application, conditions=options.conditions(),
-        family=None if code else None, safety_class=line.safety_class, qty=max(qty, 1))
+        safety_class=_search_safety(line.safety_class), qty=max(qty, 1))
     words = req.describe()
     extra = [code] if code and code not in words else []
     if line.voltage_v is not None:
@@ -285,11 +307,15 @@ def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
         verdict = check_part(line, cand.marking, cand.capacitance_pf, options.allow)
         notes.extend(f"{cand.bin_key}: {note}" for note in verdict.notes)
         if cand.grade == "marginal":
-            why = "; ".join(cand.grade_reasons[-1:])
-            notes.append(f"{cand.bin_key}: marginal for {line.application}"
-                         + (f" ({why})" if why else ""))
+            why = next((r for r in cand.grade_reasons if r.startswith("marginal")),
+                       f"marginal for {line.application}")
+            notes.append(f"{cand.bin_key}: {why}")
     if sum(taken.values()) < need and refused:
         notes.append("not used: " + "; ".join(refused[:3]) + (" ..." if len(refused) > 3 else ""))
+    elif not taken and not pool:
+        from stock.search import find
+
+        notes.extend(f"why: {why}" for why in find(store, req).explanation[:2])
     return taken
 
 
@@ -306,11 +332,13 @@ def _pair_text(combo: Any) -> str:
 
 
 def _pairs(store: Store, plan_id: int, line_id: int, line: BomLine, options: KitOptions,
-           left: int, notes: list[str]) -> dict[int, int]:
-    """Pairs for up to ``left`` positions (two parts per position), held as they are chosen."""
+           left: int, notes: list[str]) -> int:
+    """Pairs for up to ``left`` positions (two parts per position), held as they are chosen.
+
+    Returns the positions filled.
+    """
     from stock.search import find
 
-    taken: dict[int, int] = defaultdict(int)
     filled = 0
     for combo in find(store, _search_requirement(line, options), combine=True).combinations:
         if filled >= left:
@@ -336,13 +364,11 @@ def _pairs(store: Store, plan_id: int, line_id: int, line: BomLine, options: Kit
             continue
         for bin_id, n in per_position.items():
             _hold(store, plan_id, line_id, bin_id, n * use)
-            taken[bin_id] += n * use
         filled += use
         notes.append(f"{use} position(s) from a {_pair_text(combo)}; two parts per position")
         for v in verdicts:
             notes.extend(v.notes)
-    taken["positions"] = filled          # type: ignore[index]
-    return taken
+    return filled
 
 
 def _line_details(line: BomLine, describe: str) -> dict[str, Any]:
@@ -400,8 +426,7 @@ def _plan_line(store: Store, plan_id: int, line_no: int, line: BomLine,
             if line.is_mains:
                 notes.append("no pairs on a mains position: one rated part per position")
             else:
-                filled += _pairs(store, plan_id, line_id, line, options, need - filled,
-                                 notes).pop("positions", 0)
+                filled += _pairs(store, plan_id, line_id, line, options, need - filled, notes)
     short = need - filled
     if short:
         notes.append(f"short {short}: order {describe_line(line, options, short)}")
@@ -435,7 +460,12 @@ def plan_kit(store: Store, bom: Bom | str | Path, options: KitOptions, *,
             (now(), options.boards, bom.file, json.dumps(options.to_json())))
         plan_id = cur.lastrowid
         for line_no, line in enumerate(bom.lines, start=1):
-            _plan_line(store, plan_id, line_no, line, options)
+            try:
+                with store.writing():          # a savepoint: a line that fails leaves no trace
+                    _plan_line(store, plan_id, line_no, line, options)
+            except BadValue as exc:
+                problem = BomProblem(line.row, None, line.value_text, str(exc))
+                _plan_line(store, plan_id, line_no, replace(line, problem=problem), options)
         return load_plan(store, plan_id)
 
 

@@ -98,7 +98,8 @@ def check_part(line: BomLine, marking: Marking, capacitance_pf: Decimal | None,
 
         if not marking.safety_class:
             return Verdict(f"not safety-rated; the mains line needs {line.safety_class}")
-        if not safety_covers(safety_classes(marking.safety_class), line.safety_class):
+        have = safety_classes(marking.safety_class)
+        if not all(safety_covers(have, c) for c in safety_classes(line.safety_class)):
             return Verdict(f"rated {marking.safety_class}, which does not cover {line.safety_class}"
                            " (IEC 60384-14)")
         if marking.safety_class.upper() != line.safety_class.upper():

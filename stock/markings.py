@@ -18,6 +18,11 @@ Flag kinds raised here: ``unreadable``, ``unparsed``, ``unit-assumed``, ``ambigu
 '100 nF ±10 %  100 V DC  X7R (−55…+125 °C, ±15 %)'
 >>> decode("X2 0.1uF 275VAC").safety_class, decode("10uF 16V tantalum +").polarity
 ('X2', 'positive-marked')
+
+Text made only of colours goes to the colour decoder (:mod:`stock.colour_codes`):
+
+>>> format_capacitance(decode("yellow violet brown").capacitance_pf)
+'470 pF'
 """
 
 from __future__ import annotations
@@ -29,6 +34,7 @@ from decimal import Decimal
 from functools import lru_cache
 
 from stock.ceramic_codes import read_dielectric
+from stock.colour_codes import decode_colours, looks_like_colours
 from stock.decoded import Alternative, Dielectric, Flag, Marking, Tolerance
 from stock.families import PHRASE_WORDS, read_family
 from stock.safety_classes import CAUTION, read_safety_class
@@ -411,6 +417,8 @@ def _decode(text: str) -> Marking:
 @lru_cache(maxsize=8192)
 def _decode_cached(text: str) -> Marking:
     try:
+        if looks_like_colours(text):  # every word a colour: the colour code, not the printed codes
+            return decode_colours(text)
         return _decode(text)
     except Exception as exc:  # noqa: BLE001 - a decoder fault must not stop an import of many rows
         return Marking(text=text[:MAX_MARKING_CHARS],

@@ -331,6 +331,17 @@ class Store:
         raise NotFound("bin", text, "a bin id, key, location or label listed by `stock bins`")
 
 
+def _refuse_foreign(name: str, db: Database) -> None:
+    """Never add our tables to another program's SQLite file (``--db`` pointed at the wrong file)."""
+    tables = [t for t in db.table_names() if not t.startswith("sqlite_")]
+    if tables and "_sqlite_migrations" not in tables:
+        shown = ", ".join(tables[:4]) + (" ..." if len(tables) > 4 else "")
+        db.close()
+        raise StoreProblem(name, f"this is another program's SQLite database (tables {shown}),"
+                           " not a stock database", "nothing was changed; give --db a stock"
+                           " database or a new file name")
+
+
 def open_store(path: str | Path, *, create: bool = True) -> Store:
     """Open (or create) a stock database, with WAL, foreign keys and every migration applied.
 
@@ -344,6 +355,8 @@ def open_store(path: str | Path, *, create: bool = True) -> Store:
         conn = sqlite3.connect(name, timeout=BUSY_TIMEOUT_S, isolation_level=None)
         conn.execute(f"PRAGMA busy_timeout = {int(BUSY_TIMEOUT_S * 1000)}")
         db = Database(conn)
+        if migrations.pending(db):
+            _refuse_foreign(name, db)   # before WAL is turned on: that too would change the file
         if name != ":memory:":
             mode = conn.execute("PRAGMA journal_mode").fetchone()[0]
             if mode != "wal":

@@ -118,6 +118,11 @@ def parse_capacitance(text: str, what: str = "--value") -> Decimal:
     reading = read_value(_clean(str(text))) if str(text).strip() else None
     if reading is None or reading.chosen.tolerance_letter:
         raise BadValue(what, str(text), "a capacitance such as 150p, 4n7, 0.1u, 100nF or 104")
+    if any(f.kind == "ambiguous-code" for f in reading.flags):
+        # A typed value that reads two ways ("100": 10 pF or 100 pF) must not be guessed at.
+        spelled = " or ".join(format_capacitance(c.capacitance_pf).replace(" ", "")
+                              for c in reading.candidates)
+        raise BadValue(what, str(text), f"one value with its unit; this reads as {spelled}")
     return reading.chosen.capacitance_pf
 
 

@@ -84,6 +84,19 @@ def test_show_repeats_the_plan_as_stored(shop):
     assert shown == planned
 
 
+def test_show_without_a_number_lists_the_plans(shop):
+    db, bom, _ = shop
+    run(db, "plan", str(bom), "--boards", "2")
+    run(db, "plan", str(bom), "--boards", "3")
+    run(db, "drop", "1")
+    listed = json.loads(run(db, "show", "--json").stdout)
+    assert [(p["plan"], p["status"], p["boards"], p["lines"], p["short_lines"]) for p in listed] == [
+        (2, "reserved", 3, 2, 1), (1, "dropped", 2, 2, 1)]
+    text = run(db, "show").stdout.splitlines()
+    assert text[0] == "plan\tstatus\tboards\tlines\tshort\tcreated\tbom"
+    assert text[1].startswith("2\treserved\t3\t2\t1\t")
+
+
 def test_picklist_prints_natural_order_and_writes_xlsx(shop, tmp_path):
     db, bom, _ = shop
     run(db, "plan", str(bom), "--boards", "12")

@@ -9,6 +9,7 @@ each import: every row accounted for, on-hand equal to the ledger.
 
 from __future__ import annotations
 
+import datetime as dt
 import io
 import itertools
 import shutil
@@ -22,9 +23,10 @@ from importers.sheet import RawSheet, read_sheets
 from stock.check import check_store
 from stock.errors import BadSheet, StockError
 from stock.intake import import_file
+from stock.kit import KitOptions, plan_kit
 from stock.store import open_store
 from tests.helpers_procs import scaled, table_counts
-from tests.regression_inputs import CSV_SHEETS
+from tests.regression_inputs import BOM_SHEETS, CSV_SHEETS
 
 SUITABLE = [HealthCheck.too_slow, HealthCheck.function_scoped_fixture, HealthCheck.data_too_large]
 _counter = itertools.count()
@@ -177,7 +179,7 @@ def _fresh_store(empty_db, folder):
     return open_store(folder / "stock.db")
 
 
-@settings(max_examples=100, deadline=None, suppress_health_check=SUITABLE)
+@settings(max_examples=80, deadline=None, suppress_health_check=SUITABLE)
 @given(content=csv_files())
 def test_importing_random_csv_gives_a_report_or_a_clear_error_and_a_sound_store(
         tmp_path_factory, empty_db, content):
@@ -186,6 +188,44 @@ def test_importing_random_csv_gives_a_report_or_a_clear_error_and_a_sound_store(
         path = folder / "bins.csv"
         path.write_bytes(content)
         _import_and_judge(store, path)
+
+
+# Typed workbook cells: what a spreadsheet program stores (numbers past 2**63, dates in a count
+# column, booleans, text longer than a cell should be) rather than text.
+XLSX_CELLS = st.one_of(
+    st.none(), st.booleans(), st.integers(-2**70, 2**70),
+    st.floats(allow_nan=False, allow_infinity=False),
+    st.datetimes(min_value=dt.datetime(1900, 3, 1), max_value=dt.datetime(2100, 1, 1)),
+    st.dates(min_value=dt.date(1900, 3, 1)), st.sampled_from(CELLS), st.text(max_size=20))
+XLSX_HEADERS = st.lists(st.sampled_from(HEADERS[:17]) | st.integers(0, 999) | st.none(), min_size=1, max_size=6)
+
+
+@settings(max_examples=40, deadline=None, suppress_health_check=SUITABLE)
+@given(headers=XLSX_HEADERS, rows=st.lists(st.lists(XLSX_CELLS, max_size=8), max_size=12),
+       title=st.sampled_from(["Sheet", "Cabinet 1", "'quoted'", "x" * 31, "=A1"]))
+def test_importing_a_random_workbook_gives_a_report_or_a_clear_error_and_a_sound_store(
+        tmp_path_factory, empty_db, headers, rows, title):
+    from openpyxl import Workbook
+
+    folder = tmp_path_factory.mktemp("books", numbered=True)
+    wb = Workbook()
+    ws = wb.active
+    ws.title = title
+    ws.append(headers)
+    for r in rows:
+        ws.append([_cell_for_openpyxl(c) for c in r])
+    path = folder / "bins.xlsx"
+    wb.save(path)
+    with _fresh_store(empty_db, folder) as store:
+        _import_and_judge(store, path)
+
+
+def _cell_for_openpyxl(value):
+    # openpyxl refuses control characters in text; a sheet program would never have stored them
+    if isinstance(value, str):
+        from openpyxl.cell.cell import ILLEGAL_CHARACTERS_RE
+        return ILLEGAL_CHARACTERS_RE.sub("", value)
+    return value
 
 
 @pytest.mark.parametrize("name", list(CSV_SHEETS))
@@ -222,7 +262,7 @@ def test_a_minimum_too_large_for_the_database_keeps_the_row_with_no_minimum(tmp_
 
 
 @pytest.mark.slow
-@settings(max_examples=scaled(15), deadline=None, suppress_health_check=SUITABLE)
+@settings(max_examples=scaled(10), deadline=None, suppress_health_check=SUITABLE)
 @given(contents=st.lists(csv_files(), min_size=2, max_size=6))
 def test_many_random_imports_into_one_store_keep_it_sound(tmp_path_factory, empty_db, contents):
     folder = tmp_path_factory.mktemp("many", numbered=True)
@@ -231,3 +271,77 @@ def test_many_random_imports_into_one_store_keep_it_sound(tmp_path_factory, empt
             path = folder / f"sheet{i % 3}.csv"       # same names again: re-imports of edits
             path.write_bytes(content)
             _import_and_judge(store, path)
+
+
+# BOMs are the other sheet a user imports (`stock kit plan BOM`): any BOM gives a plan (with its
+# unreadable lines kept as problems) or a StockError, and the store stays sound.
+BOM_HEADERS = ["Refs", "Designator", "Qty", "Quantity", "Value", "Tolerance", "Voltage",
+               "Dielectric", "Application", "Notes", "Kind", "Footprint", "", "Refs"]
+BOM_CELLS = ["C1", "C1-C4", "C1-C99999", "R1", "CX1", "C1,C2, C3", "-1", "0", "1e9", "inf", "NaN",
+             "99999999999999999999", "2.5", "lots", "", "100n", "104", "4n7", "1e-28p", "X2",
+             "mains", "tuned", "10%", "±5 %", "50V", "C0G", "N750", "X7R", "=1+1", "0±30",
+             "'); DROP TABLE plans;--", "\x00", "2u2", "tantalum", "polarised", "1000000"]
+SHELF = b"Location,Marking,Qty\n" + b"".join(
+    f"S{i},{m},{20 + i}\n".encode() for i, m in enumerate(
+        ["104K", "4n7 C0G", "2u2 50V", "X2 275VAC 104K", "100uF 25V", "10pF", "1n0 J", "47n"]))
+
+
+@pytest.fixture(scope="module")
+def shelf_db(tmp_path_factory):
+    """A database holding a few bins of common parts, to copy for each plan."""
+    folder = tmp_path_factory.mktemp("shelf")
+    (folder / "shelf.csv").write_bytes(SHELF)
+    with open_store(folder / "shelf.db") as store:
+        import_file(store, folder / "shelf.csv")
+    return folder / "shelf.db"
+
+
+def _plan_and_judge(store, path, boards: int) -> None:
+    before = table_counts(store)
+    try:
+        plan_kit(store, path, KitOptions(boards=boards))
+    except StockError as exc:
+        assert "\n" not in str(exc)
+        assert table_counts(store) == before, "a refused plan changed the store"
+    report = check_store(store)
+    assert report.ok, report.problems
+
+
+@st.composite
+def bom_files(draw) -> bytes:
+    headers = draw(st.lists(st.sampled_from(BOM_HEADERS), min_size=1, max_size=6))
+    out = io.StringIO()
+    import csv
+    w = csv.writer(out)
+    w.writerow(headers)
+    for _ in range(draw(st.integers(0, 10))):
+        w.writerow(draw(st.lists(st.sampled_from(BOM_CELLS) | st.text(max_size=8),
+                                 max_size=len(headers) + 1)))
+    return out.getvalue().encode("utf-8", errors="replace")
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=SUITABLE)
+@given(content=bom_files(), boards=st.sampled_from([1, 3, 100]))
+def test_planning_a_random_bom_gives_a_plan_or_a_clear_error_and_a_sound_store(
+        tmp_path_factory, shelf_db, content, boards):
+    folder = tmp_path_factory.mktemp("boms", numbered=True)
+    shutil.copyfile(shelf_db, folder / "stock.db")
+    path = folder / "bom.csv"
+    path.write_bytes(content)
+    with open_store(folder / "stock.db") as store:
+        _plan_and_judge(store, path, boards)
+
+
+@pytest.mark.parametrize("name", list(BOM_SHEETS))
+def test_every_kept_regression_bom_plans_cleanly(tmp_path, shelf_db, name):
+    content, boards = BOM_SHEETS[name]
+    shutil.copyfile(shelf_db, tmp_path / "stock.db")
+    path = tmp_path / f"{name}.csv"
+    path.write_bytes(content)
+    with open_store(tmp_path / "stock.db") as store:
+        try:
+            KitOptions(boards=boards)
+        except StockError as exc:           # a refused board count is a clear error too
+            assert "--boards" in str(exc)
+            return
+        _plan_and_judge(store, path, boards)

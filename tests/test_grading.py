@@ -307,6 +307,14 @@ def test_voltage_margin_follows_the_family_derating(part, volts, word):
     assert g.budget.voltage.word == word
 
 
+def test_a_safety_part_may_run_at_its_rated_ac_voltage_but_not_above():
+    # from memory of IEC 60384-14: X/Y parts are rated for continuous mains at their AC rating
+    assert grade(Y2_4N7, "mains", Conditions(working_v=D(230))).word == "fit"
+    over = grade(Y2_4N7, "mains", Conditions(working_v=D(277)))
+    assert over.word == "unfit"
+    assert "277 V working is above the rated 250 V AC" in over.reasons[0]
+
+
 def test_a_part_run_above_its_rated_temperature_is_unfit_everywhere():
     part = Marking("470µF 25V 85°C", D(470_000_000), pct_tol("20"), D(25), "DC", ALU, rated_temp_c=D(85))
     g = grade(part, "bulk", Conditions(D(0), D(95)))

@@ -30,6 +30,7 @@ from stock.errors import BadSheet
 from stock.intake import import_file
 from stock.store import open_store
 from tests.helpers_procs import table_counts, write_bin_sheet
+from tests.regression_inputs import BOM_SHEETS
 
 ENV = {"COLUMNS": "200", "TERMINAL_WIDTH": "200", "_TYPER_FORCE_DISABLE_TERMINAL": "1"}
 
@@ -293,3 +294,67 @@ def test_ten_thousand_columns_import_with_every_cell_kept(tmp_path, db):
     with open_store(db) as store:
         raw = json.loads(store.one("SELECT raw_json FROM source_rows ORDER BY id DESC LIMIT 1")["raw_json"])
         assert len(raw) == width and raw[f"Extra {width}"] == f"3.{width}"
+
+
+@pytest.mark.parametrize("name", list(BOM_SHEETS))
+def test_a_hostile_bom_through_kit_plan_gives_a_plan_or_one_line_never_a_traceback(tmp_path, db, name):
+    content, boards = BOM_SHEETS[name]
+    path = tmp_path / f"{name}.csv"
+    path.write_bytes(content)
+    before = _counts(db)
+    result = _cli(db, "kit", "plan", str(path), "--boards", str(boards), "--json")
+    assert result.exception is None or isinstance(result.exception, SystemExit), repr(result.exception)
+    assert "Traceback" not in result.output
+    if result.exit_code == 0:
+        plan = json.loads(result.stdout)
+        assert plan["lines"], "the BOM line must be kept in the plan, readable or not"
+    else:
+        assert result.exit_code in (1, 2)
+        assert result.stderr.strip().splitlines()[-1].startswith("stock: ")
+        assert _counts(db) == before
+    _counts(db)        # check_store passes either way
+
+
+def _foreign_db(tmp: Path) -> Path:
+    import sqlite3
+
+    p = tmp / "browser-history.sqlite"
+    conn = sqlite3.connect(p)
+    conn.execute("CREATE TABLE visits (id INTEGER PRIMARY KEY, url TEXT)")
+    conn.execute("INSERT INTO visits (url) VALUES ('http://example.invalid')")
+    conn.commit()
+    conn.close()
+    return p
+
+
+def _csv_as_db(tmp: Path) -> Path:
+    return write_bin_sheet(tmp / "bins.csv", [("A1", "104K", 5)])
+
+
+def _cut_db(tmp: Path) -> Path:
+    whole = tmp / "whole.db"
+    with open_store(whole) as store:
+        import_file(store, write_bin_sheet(tmp / "w.csv", [(f"A{i}", "104K", i) for i in range(300)]))
+    p = tmp / "cut.db"
+    p.write_bytes(whole.read_bytes()[:8192])
+    return p
+
+
+# --db given a file that is not a stock database: one line, exit 1, and the file untouched
+# (SQLite file format, sqlite.org "Database File Format": the 16-byte header and page layout).
+@pytest.mark.parametrize("make, words", [
+    pytest.param(_foreign_db, "this is another program's SQLite database (tables visits)", id="other-programs-database"),
+    pytest.param(_csv_as_db, "this file is not a stock database (or it is damaged)", id="a-csv-given-as-db"),
+    pytest.param(_cut_db, "this file is not a stock database (or it is damaged)", id="a-database-cut-short"),
+])
+@pytest.mark.parametrize("command", ["bins", "import", "check"])
+def test_a_file_that_is_not_a_stock_database_is_refused_and_left_untouched(tmp_path, make, words, command):
+    target = make(tmp_path)
+    before = target.read_bytes()
+    args = {"bins": ["bins"], "check": ["check"],
+            "import": ["import", str(write_bin_sheet(tmp_path / "new.csv", [("N1", "472J", 2)]))]}[command]
+    result = _cli(target, *args)
+    assert result.exit_code == 1, result.output
+    (line,) = result.stderr.strip().splitlines()
+    assert line.startswith(f"stock: {target}: {words}")
+    assert target.read_bytes() == before

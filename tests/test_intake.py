@@ -67,6 +67,8 @@ def basic_csv(tmp_path):
     pytest.param("lots", "not a number", id="words-refused"),
     pytest.param(2.5, "not a whole number", id="fraction-refused"),
     pytest.param(True, "not a number", id="a-tick-box-refused"),
+    pytest.param("99999999999999999999", "too large", id="a-typing-slip-refused"),
+    pytest.param(float("inf"), "not a whole number", id="infinity-refused"),
 ])
 def test_quantity_cells_are_whole_numbers_or_blank(cell, expected):
     if isinstance(expected, str):
@@ -423,3 +425,12 @@ def test_stored_parts_get_their_grades_and_a_changed_marking_is_graded_again(sto
     import_file(store, path)
     tuned_after = store.one("SELECT grade FROM grades WHERE application = 'tuned'")["grade"]
     assert tuned_before != tuned_after
+
+
+def test_a_row_with_several_problems_is_quarantined_with_all_of_them(store, tmp_path):
+    path = write_csv(tmp_path / "bad.csv", [["J1", "", "", "lots"]])
+    import_file(store, path)
+    reasons = json.loads(store.one("SELECT reasons_json FROM source_rows")["reasons_json"])
+    assert reasons == [
+        {"kind": "bad-quantity", "message": "quantity 'lots' is not a number"},
+        {"kind": "no-capacitance", "message": "no capacitance could be read: the row has no marking or value"}]

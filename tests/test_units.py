@@ -76,6 +76,13 @@ def test_unreadable_capacitance_names_the_option_and_the_text(text):
                                  "150p, 4n7, 0.1u, 100nF or 104)")
 
 
+def test_a_typed_value_that_reads_two_ways_is_refused_with_both_readings():
+    # IEC 60062 three-digit code 100 = 10 pF; printed literally 100 = 100 pF
+    with pytest.raises(BadValue) as caught:
+        parse_capacitance("100", what="--value")
+    assert str(caught.value) == "--value: cannot read '100' (expected one value with its unit; this reads as 10pF or 100pF)"
+
+
 def test_percent_parses_plain_and_signed_forms():
     assert parse_percent("5", "--tol") == 5
     assert parse_percent("±5 %", "--tol") == 5

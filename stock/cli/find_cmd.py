@@ -11,10 +11,7 @@ from stock.cli import state
 
 FIND_HELP = """Find parts on hand for a requirement: single parts, and with --combine parallel or series pairs.
 
-A part qualifies when its whole marked tolerance stays inside --tol, its tempco band inside the
---tempco window, its rating (derated) covers --volts, its grade is fit for --use, and enough are
-available (on hand less reserved). When nothing does, the answer says what ruled out the nearest
-parts and which preferred value to buy.
+A part qualifies when its whole marked tolerance stays inside --tol, its tempco band inside the --tempco window, its rating (derated) covers --volts, its grade is fit for --use, and enough are available (on hand less reserved). When nothing does, the answer says what ruled out the nearest parts and which preferred value to buy.
 
 Examples:
 
@@ -25,6 +22,7 @@ Examples:
 
 
 def _format_result(result) -> str:  # noqa: ANN001  (a stock.search.FindResult)
+    from stock.requirement import fmt
     from stock.units import format_capacitance
 
     req = result.requirement
@@ -40,15 +38,15 @@ def _format_result(result) -> str:  # noqa: ANN001  (a stock.search.FindResult)
     if result.combinations:
         lines.append("pairs:")
     for c in result.combinations:
-        parts = (" ∥ " if c.kind == "parallel" else " + ").join(
+        parts = (" ∥ " if c.kind == "parallel" else " in series with ").join(
             f"{p.count} × {format_capacitance(p.capacitance_pf)} from bin {p.bin_key}" for p in c.parts)
         facts = [format_capacitance(c.capacitance_pf)]
         if c.tempco_ppm_per_k is not None:
-            facts.append(f"{c.tempco_ppm_per_k:.0f} ppm/K".replace("-", "−"))
+            facts.append(f"{fmt(c.tempco_ppm_per_k, 0)} ppm/K")
         if c.worst_case_pct is not None:
-            facts.append(f"worst case ±{c.worst_case_pct:.2f} %")
+            facts.append(f"worst case ±{fmt(c.worst_case_pct)} %")
         if c.voltage_v is not None:
-            facts.append(f"stands {c.voltage_v:.0f} V")
+            facts.append(f"stands {fmt(c.voltage_v, 1)} V")
         lines.append(f"  {c.kind}: {parts} → {', '.join(facts)}")
         lines.extend(f"      {r}" for r in c.reasons)
     if not result.matches and not result.combinations:

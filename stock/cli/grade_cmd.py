@@ -10,7 +10,7 @@ import typer
 
 from stock.decoded import Marking
 from stock.drift import (
-    TankDrift, TimerDrift, circuit_drift, parse_frequency, parse_inductance, parse_kelvin, parse_period,
+    TankDrift, TimerDrift, circuit_drift, format_frequency, parse_frequency, parse_inductance, parse_kelvin, parse_period,
 )
 from stock.grading import (
     APPLICATIONS, MAINS_CAUTION, REFERENCE_C, BinGrades, Budget, conditions_from_text, grade_bins, pm,
@@ -98,11 +98,11 @@ def _drift_lines(result: TankDrift | TimerDrift) -> list[str]:
             lines.append(f"on {format_number(result.period_s)} s: {format_number(round(lo, 6))} …"
                          f" {format_number(round(hi, 6))} s")
     else:
-        lines.append(f"tank: {format_number(result.f0_hz)} Hz, {format_capacitance(result.tank_pf)} in all,"
+        lines.append(f"tank: {format_frequency(result.f0_hz)}, {format_capacitance(result.tank_pf)} in all,"
                      f" this part {format_capacitance(result.part_pf)}"
                      f" ({format_number(round(result.share * 100, 1))} % of it)")
         lines.append(f"frequency shift for {format_number(result.delta_t_k)} K (Δf/f = −½·share·ΔC/C):"
-                     f" {format_number(round(result.shift_low_hz, 1))} … {format_number(round(result.shift_high_hz, 1))} Hz"
+                     f" {format_frequency(result.shift_low_hz)} … {format_frequency(result.shift_high_hz)}"
                      f" ({format_number(round(result.shift_low_ppm, 2))} … {format_number(round(result.shift_high_ppm, 2))} ppm)")
     if not p.linear:
         lines.append("note: this part's change is a window, not a slope; the figures hold for any change")

@@ -69,6 +69,8 @@ def register(app: typer.Typer) -> None:
                     where = f"{path.name}" + (f" [{s.sheet}]" if s.sheet else "")
                     lines = [f"columns used in {where}:", *(f"  {m}" for m in s.mapping)]
                     typer.echo("\n".join(lines), err=as_json)
+                    for note in s.notes:
+                        typer.echo(f"note: {where}: {note}", err=True)
         if as_json:
             typer.echo(json.dumps({"files": [f for r in reports for f in r.to_json()["files"]]},
                                   ensure_ascii=False, indent=2))

@@ -63,17 +63,30 @@ def plan_command(
         typer.echo(plan_text(plan))
 
 
-@kit_app.command("show", help="Show a plan as planned, with its status.\n\nExample:\n\n    stock kit show 3 --json")
+@kit_app.command("show", help="Show a plan as planned, with its status; with no number, list the plans.\n\n"
+                 "Example:\n\n    stock kit show 3 --json")
 def show_command(
     ctx: typer.Context,
-    plan: Annotated[str, typer.Argument(help="The plan number.")],
+    plan: Annotated[str | None, typer.Argument(help="The plan number (omit to list every plan).")] = None,
     as_json: Annotated[bool, typer.Option("--json", help="Print the plan as JSON.")] = False,
 ) -> None:
-    from stock.kit import load_plan
+    from stock.kit import list_plans, load_plan
     from stock.pick_list import plan_text
 
     with _store(ctx) as store:
-        kit = load_plan(store, plan)
+        if plan is None:
+            plans = list_plans(store)
+        else:
+            kit = load_plan(store, plan)
+    if plan is None:
+        if as_json:
+            _echo_json(plans)
+            return
+        typer.echo("plan\tstatus\tboards\tlines\tshort\tcreated\tbom")
+        for p in plans:
+            typer.echo(f"{p['plan']}\t{p['status']}\t{p['boards']}\t{p['lines'] or 0}\t"
+                       f"{p['short_lines'] or 0}\t{p['created_at']}\t{p['bom'] or ''}")
+        return
     typer.echo(json.dumps(kit.to_json(), ensure_ascii=False, indent=2) if as_json else plan_text(kit))
 
 

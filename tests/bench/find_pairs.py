@@ -21,9 +21,9 @@ import time
 from decimal import Decimal
 from pathlib import Path
 
-sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
+sys.path.insert(0, str(Path(__file__).resolve().parents[2]))
 
-from test_search import DIELECTRICS, add_bins, part  # noqa: E402
+from tests.test_search import add_bins, part  # noqa: E402
 
 from stock.search import build_requirement, find  # noqa: E402
 from stock.store import open_store  # noqa: E402
