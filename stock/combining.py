@@ -346,8 +346,8 @@ class PairIndex:
     def groups(self, tempco: bool, worst_case: bool) -> list[tuple[Any, ...]]:
         """The partner groups: (α, α tolerance, tightest minus %, tightest plus %, members, values).
 
-        With a tempco window, one group per (α, tolerance on α); when the pair's worst case counts,
-        the groups are split further by tolerance step (see :data:`_TOLERANCE_STEPS`), so a bound
+        With a tempco window, one group per (α, tolerance on α). Without one, when the pair's worst
+        case counts, one group per tolerance step (see :data:`_TOLERANCE_STEPS`), so a bound
         computed from a group's tightest member excludes few of the others.
         """
         key = (tempco, worst_case)
@@ -356,7 +356,10 @@ class PairIndex:
             for it in self.items:
                 if (tempco and it[4] is None) or (worst_case and (it[2] is None or it[3] is None)):
                     continue
-                step = bisect.bisect_left(_TOLERANCE_STEPS, max(it[2], it[3])) if worst_case else 0
+                # Split by tolerance only without a tempco window: tempco groups times tolerance
+                # steps would cost more per anchor than the walks they save.
+                step = (bisect.bisect_left(_TOLERANCE_STEPS, max(it[2], it[3]))
+                        if worst_case and not tempco else 0)
                 grouped.setdefault((it[4], it[5], step) if tempco else (0.0, 0.0, step), []).append(it)
             self._groups[key] = [
                 (a, t, min(it[2] for it in members) if worst_case else 0.0,

@@ -148,6 +148,21 @@ def test_a_csv_bom_keeps_every_line_and_reports_bad_rows_with_row_and_header(tmp
     assert rows[9].qty_per_board == 1      # counted from its designators, still reported
 
 
+@pytest.mark.parametrize("qty, reason", [
+    pytest.param("inf", "'inf' is not a whole number of parts", id="infinity"),
+    pytest.param("NaN", "'NaN' is not a whole number of parts", id="nan"),
+    pytest.param("2.5", "'2.5' is not a whole number of parts", id="fraction"),
+    pytest.param("-1", "'-1' is not a whole number of parts", id="negative"),
+    pytest.param("99999999999999999999", "is more than 1,000,000 parts per board", id="past-64-bits"),
+])
+def test_an_impossible_quantity_is_a_problem_on_its_line(tmp_path, qty, reason):
+    path = write_csv(tmp_path / "q.csv", f"Refs,Qty,Value\nC1,{qty},100n\n")
+    only = read_bom(path).lines[0]
+    assert only.problem is not None and only.problem.column == "Qty"
+    assert reason in only.problem.reason
+    assert only.qty_per_board == 1
+
+
 def test_an_xlsx_bom_reads_like_the_csv(tmp_path):
     path = write_xlsx(tmp_path / "tuner.xlsx", [
         ["Tuner board, rev B"],

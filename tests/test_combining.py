@@ -152,6 +152,11 @@ def _brute_force(kind, items, q):
         value = a[0] + b[0] if kind == "parallel" else a[0] * b[0] / (a[0] + b[0])
         if not q.lo <= value <= q.hi:
             continue
+        if q.worst_case:
+            f = (lambda x, y: x + y) if kind == "parallel" else (lambda x, y: x * y / (x + y))
+            if (f(a[0] * (1 - a[2] / 100), b[0] * (1 - b[2] / 100)) < q.lo
+                    or f(a[0] * (1 + a[3] / 100), b[0] * (1 + b[3] / 100)) > q.hi):
+                continue
         if q.wants_tempco:
             wa, wb = (a[0], b[0]) if kind == "parallel" else (b[0], a[0])
             net = (wa * a[4] + wb * b[4]) / (wa + wb)
@@ -164,18 +169,19 @@ def _brute_force(kind, items, q):
 
 
 item_strategy = st.builds(
-    lambda c, key, alpha, tol, double: cb.PairItem(float(c), key, None, None, float(alpha), float(tol),
-                                                   None, double),
+    lambda c, key, alpha, tol, double, m, p: cb.PairItem(float(c), key, float(m), float(p), float(alpha),
+                                                         float(tol), None, double),
     st.integers(1, 400), st.integers(0, 10**6), st.sampled_from([0, -150, -330, -750]),
-    st.sampled_from([0, 30, 60]), st.booleans())
+    st.sampled_from([0, 30, 60]), st.booleans(), st.sampled_from([0, 1, 2, 5, 10, 20]),
+    st.sampled_from([0, 1, 2, 5, 10, 20, 80]))
 
 
 @given(items=st.lists(item_strategy, min_size=1, max_size=25, unique_by=lambda it: it[1]),
        kind=st.sampled_from(cb.PAIR_KINDS), target=st.integers(5, 500),
-       tempco=st.sampled_from([None, (-330.0, -270.0), (-100.0, 100.0)]))
-def test_the_index_finds_the_same_best_pair_as_checking_every_pair(items, kind, target, tempco):
-    lo, hi = target * 0.95, target * 1.05
-    q = cb.PairQuery(kind, float(target), lo, hi,
+       tempco=st.sampled_from([None, (-330.0, -270.0), (-100.0, 100.0)]), worst=st.booleans())
+def test_the_index_finds_the_same_best_pair_as_checking_every_pair(items, kind, target, tempco, worst):
+    lo, hi = target * 0.9, target * 1.1
+    q = cb.PairQuery(kind, float(target), lo, hi, worst_case=worst,
                      tempco_lo=tempco[0] if tempco else float("-inf"),
                      tempco_hi=tempco[1] if tempco else float("inf"))
     found = cb.PairIndex(items).nearest(q, 5)

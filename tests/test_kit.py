@@ -122,6 +122,9 @@ def test_the_need_is_qty_times_boards_plus_the_spare_rounded_up(qty, boards, spa
 
 @pytest.mark.parametrize("kwargs, message", [
     pytest.param({"boards": 0}, "--boards: cannot read '0'", id="no-boards"),
+    pytest.param({"boards": 10**20}, "--boards: cannot read '100000000000000000000' (expected a"
+                 " whole number of boards from 1 to 1,000,000)", id="boards-past-64-bits"),
+    pytest.param({"boards": 1, "spare": "5000%"}, "--spare: cannot read '5000'", id="absurd-spare"),
     pytest.param({"boards": 1, "allow": ["cheaper"]}, "--allow: cannot read 'cheaper'", id="unknown-allow"),
     pytest.param({"boards": 1, "temp": "hot"}, "--temp: cannot read 'hot'", id="bad-temp"),
     pytest.param({"boards": 1, "spare": "lots"}, "--spare: cannot read 'lots'", id="bad-spare"),
