@@ -66,6 +66,7 @@ CABINET_A = [
     ("A46", "1n5", "152J 2A C0G", 40, 10, ""),
     ("A47", "3n3", "332K 1H X7R", 120, 20, ""),
     ("A48", "6n8", "682K 1H X7R", 110, 20, ""),
+    ("A49", "47p", "470J 1H C0G", 60, 10, "VFO stock, new reel"),
 ]
 
 # Cabinet B: film, mica, electrolytics, safety.
@@ -154,9 +155,9 @@ BOM_VFO = [
     ("C4", 1, "250p", "5%", "50V", "NP0", "tuned", "capacitor", "padder: no such value, pair it"),
     ("C5", 1, "100p", "5%", "50V", "N150", "tuned", "capacitor", "coil compensation"),
     ("C6", 1, "47p", "5%", "50V", "C0G", "tuned", "capacitor", "buffer coupling"),
-    ("C7,C8,C9,C10", 4, "100n", "20%", "16V", "X7R", "bypass", "capacitor", ""),
+    ("C7,C8,C9,C10", 4, "100n", "", "16V", "X7R", "bypass", "capacitor", ""),
     ("C11", 1, "10n", "10%", "50V", "", "signal", "capacitor", "output coupling"),
-    ("C12", 1, "10u", "20%", "16V", "", "bulk", "capacitor", "supply reservoir"),
+    ("C12", 1, "10u", "", "16V", "", "bulk", "capacitor", "supply reservoir"),
     ("L1", 1, "4.7uH", "", "", "", "", "inductor", "T50-6 toroid"),
     ("Q1,Q2", 2, "J310", "", "", "", "", "transistor", ""),
     ("R1", 1, "100k", "5%", "", "", "", "resistor", ""),
@@ -164,17 +165,17 @@ BOM_VFO = [
 BOM_FLASHER = [
     ("C1", 1, "10u", "10%", "9V", "", "timing", "capacitor", "sets ~1 Hz with R1/R2"),
     ("C2", 1, "10n", "10%", "9V", "", "bypass", "capacitor", "555 control pin"),
-    ("C3", 1, "100u", "20%", "9V", "", "bulk", "capacitor", "battery reservoir"),
-    ("C4", 1, "100n", "20%", "9V", "", "bypass", "capacitor", ""),
+    ("C3", 1, "100u", "", "9V", "", "bulk", "capacitor", "battery reservoir"),
+    ("C4", 1, "100n", "", "9V", "", "bypass", "capacitor", ""),
     ("U1", 1, "NE555", "", "", "", "", "IC", ""),
     ("R1,R2", 2, "47k", "5%", "", "", "", "resistor", ""),
     ("D1,D2", 2, "LED red", "", "", "", "", "LED", ""),
 ]
 BOM_MAINS = [
-    ("CX1", 1, "100n", "20%", "250VAC", "", "mains", "capacitor", "across the line, needs X2"),
+    ("CX1", 1, "100n", "20%", "250VAC", "X2", "mains", "capacitor", "across the line"),
     ("CY1,CY2", 2, "2n2", "20%", "250VAC", "Y2", "mains", "capacitor", "line to earth"),
-    ("C3", 1, "470u", "20%", "25V", "", "bulk", "capacitor", "after the bridge"),
-    ("C4", 1, "100n", "20%", "25V", "", "bypass", "capacitor", ""),
+    ("C3", 1, "470u", "", "25V", "", "bulk", "capacitor", "after the bridge"),
+    ("C4", 1, "100n", "", "25V", "", "bypass", "capacitor", ""),
     ("F1", 1, "T500mA", "", "", "", "", "fuse", "5x20 slow"),
     ("BR1", 1, "W04", "", "", "", "", "bridge rectifier", ""),
 ]

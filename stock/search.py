@@ -195,13 +195,6 @@ def _query(store: Store, req: Requirement, lo: float | None, hi: float | None, *
     return store.rows(sql, params)
 
 
-def _reserved(store: Store) -> dict[int, int]:
-    """Parts held per bin by plans not yet pulled or dropped."""
-    return {r["bin_id"]: int(r["n"]) for r in store.rows(
-        "SELECT r.bin_id, SUM(r.qty) AS n FROM reservations r JOIN plans pl ON pl.id = r.plan_id"
-        " WHERE pl.status = 'reserved' GROUP BY r.bin_id")}
-
-
 def _value_error(c: Decimal, target: Decimal) -> Decimal:
     return abs(c - target) * _HUNDRED / target
 

@@ -121,19 +121,25 @@ class CountReport:
                 "changes": [c.to_json() for c in self.changes]}
 
 
+MAX_COUNT = 2**53   # a larger count is a typing slip (and past what SQLite and JSON hold exactly)
+
+
 def _whole(value: Any, file: str, row: int) -> int | None:
     if value is None or (isinstance(value, str) and not value.strip()):
         return None
+    raw, number = value, None
     if isinstance(value, bool):
-        value = None
+        number = None
+    elif isinstance(value, int):
+        number = value
     elif isinstance(value, float) and value.is_integer():
-        value = int(value)
-    elif isinstance(value, str) and value.strip().isdigit():
-        value = int(value.strip())
-    if not isinstance(value, int) or value < 0:
-        raise BadSheet(file, f"cannot read {value!r} as a count", sheet=SHEET_TITLE, row=row,
+        number = int(value)
+    elif isinstance(value, str) and value.strip().isdecimal():   # isdigit() would pass "²"
+        number = int(value.strip())
+    if number is None or not 0 <= number <= MAX_COUNT:
+        raise BadSheet(file, f"cannot read {raw!r} as a count", sheet=SHEET_TITLE, row=row,
                        column="Counted", hint="a whole number, 0 or more, or a blank cell")
-    return value
+    return number
 
 
 def apply_count_sheet(store: Store, path: Path, *, dry_run: bool = False) -> CountReport:
@@ -145,8 +151,15 @@ def apply_count_sheet(store: Store, path: Path, *, dry_run: bool = False) -> Cou
     from openpyxl import load_workbook
 
     file = str(path)
-    wb = load_workbook(path, read_only=True, data_only=True)
     try:
+        wb = load_workbook(path, read_only=True, data_only=True)
+    except Exception as exc:     # not a workbook at all: zip, XML and openpyxl's own errors
+        raise BadSheet(file, f"is not a readable stock-take workbook ({type(exc).__name__})",
+                       hint="the .xlsx written by `stock export count`") from None
+    try:
+        if SHEET_TITLE not in wb.sheetnames:
+            raise BadSheet(file, f"has no sheet {SHEET_TITLE!r}",
+                           hint="the .xlsx written by `stock export count`")
         rows = list(wb[SHEET_TITLE].iter_rows(min_row=2, values_only=True))
     finally:
         wb.close()

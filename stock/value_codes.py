@@ -225,6 +225,8 @@ def _rkm_candidates(body: str, letter: str | None) -> list[ValueCandidate]:
         return [ValueCandidate(pf, "letter-and-digit", f"{body}: K as ×1000 pF (old ERIE practice)", letter)]
     if unit == "f" and match[2] == "f":
         return []       # lower-case f alone is not the farad letter
+    if match[2] == "M" and not fraction:
+        return []       # "473M": a trailing capital M is the ±20 % tolerance letter, not milli
     form = "r-decimal" if unit == "r" else "letter-and-digit"
     source = "R as the decimal point in pF" if unit == "r" else "IEC 60062 letter-and-digit code"
     return [ValueCandidate(pf, form, f"{body}: {source}", letter)]

@@ -35,6 +35,9 @@ ISSUE_EXAMPLES = [
     pytest.param("10uF 16V tantalum +",
                  "10 µF  16 V DC  tantalum (−55…+125 °C, ±10 %)  positive-marked", id="tantalum-plus"),
     pytest.param(".047 MFD 600V", "47 nF  600 V DC", id="047-MFD-600V"),
+    # IEC 60062: a three-digit code followed by M is the code with the ±20 % letter, not millifarads
+    pytest.param("473M 1H Y5V", "47 nF ±20 %  50 V DC  Y5V (−30…+85 °C, +22/−82 %)", id="473M-is-47nF-20pct"),
+    pytest.param("106M 0J X5R", "10 µF ±20 %  6.3 V DC  X5R (−55…+85 °C, ±15 %)", id="106M-is-10uF-20pct"),
 ]
 
 
