@@ -76,4 +76,18 @@ BOM_SHEETS: dict[str, tuple[bytes, int]] = {
     "refs-range-typo": (b"Refs,Qty,Value\nC1-C99999999,,100n\n", 1),
 }
 
-__all__ = ["BOM_SHEETS", "CSV_SHEETS", "DECODER_TEXTS"]
+# "Counted" cells of a filled-in stock-take sheet (stock.stocktake.apply_count_sheet): each must
+# be refused with a BadSheet naming row and column, and nothing recorded. Found: OverflowError
+# from sqlite3 for counts past 64 bits, ValueError from int("²") (str.isdigit accepts
+# superscripts), and a message showing None instead of the boolean typed. Fixed in
+# stock.stocktake._whole.
+COUNT_CELLS: dict[str, object] = {
+    "count-past-64-bits-as-text": "99999999999999999999",
+    "count-past-64-bits-as-number": 1e300,
+    "superscript-two": "²",
+    "boolean": True,
+    "negative": -1,
+    "fraction": 1.5,
+}
+
+__all__ = ["BOM_SHEETS", "COUNT_CELLS", "CSV_SHEETS", "DECODER_TEXTS"]

@@ -30,7 +30,7 @@ from stock.errors import BadSheet
 from stock.intake import import_file
 from stock.store import open_store
 from tests.helpers_procs import table_counts, write_bin_sheet
-from tests.regression_inputs import BOM_SHEETS
+from tests.regression_inputs import BOM_SHEETS, COUNT_CELLS
 
 ENV = {"COLUMNS": "200", "TERMINAL_WIDTH": "200", "_TYPER_FORCE_DISABLE_TERMINAL": "1"}
 
@@ -358,3 +358,54 @@ def test_a_file_that_is_not_a_stock_database_is_refused_and_left_untouched(tmp_p
     (line,) = result.stderr.strip().splitlines()
     assert line.startswith(f"stock: {target}: {words}")
     assert target.read_bytes() == before
+
+
+@pytest.fixture
+def count_sheet(tmp_path, db) -> Path:
+    from stock.stocktake import export_count_sheet
+
+    out = tmp_path / "count.xlsx"
+    with open_store(db) as store:
+        export_count_sheet(store, out)
+    return out
+
+
+def _fill_counted(sheet: Path, value, out: Path) -> Path:
+    from openpyxl import load_workbook
+
+    wb = load_workbook(sheet)
+    wb["Stock take"]["G2"] = value
+    wb.save(out)
+    return out
+
+
+# A filled-in stock-take sheet is a file the user edited: a bad "Counted" cell refuses the whole
+# sheet naming row 2 and column 'Counted', and nothing is recorded.
+@pytest.mark.parametrize("name", list(COUNT_CELLS))
+def test_a_hostile_counted_cell_refuses_the_count_sheet_and_records_nothing(tmp_path, db, count_sheet, name):
+    from stock.stocktake import apply_count_sheet
+
+    filled = _fill_counted(count_sheet, COUNT_CELLS[name], tmp_path / "filled.xlsx")
+    before = _counts(db)
+    with open_store(db) as store, pytest.raises(BadSheet) as err:
+        apply_count_sheet(store, filled)
+    text = str(err.value)
+    assert "sheet 'Stock take', row 2, column 'Counted': cannot read" in text
+    assert _counts(db) == before
+
+
+@pytest.mark.parametrize("make, words", [
+    pytest.param(_junk_xlsx, "is not a readable stock-take workbook", id="junk"),
+    pytest.param(_junk_csv, "is not a readable stock-take workbook", id="csv"),
+    pytest.param(lambda t: _workbook(t / "other.xlsx", [["Location", "Marking", "Qty"]]),
+                 "has no sheet 'Stock take'", id="another-workbook"),
+])
+def test_a_file_that_is_not_a_count_sheet_is_refused_in_one_line(tmp_path, db, make, words):
+    from stock.stocktake import apply_count_sheet
+
+    path = make(tmp_path)
+    before = _counts(db)
+    with open_store(db) as store, pytest.raises(BadSheet) as err:
+        apply_count_sheet(store, path)
+    assert words in str(err.value) and "\n" not in str(err.value)
+    assert _counts(db) == before

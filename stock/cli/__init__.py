@@ -20,15 +20,16 @@ from stock.errors import StockError
 
 # Command modules in the order their commands appear in `stock --help`.
 COMMAND_MODULES: tuple[str, ...] = (
+    "stock.cli.demo_cmd",
     "stock.cli.decode_cmd",
     "stock.cli.import_cmd",
     "stock.cli.bins_cmd",
-    "stock.cli.grade_cmd",
-    "stock.cli.export_cmd",
-    "stock.cli.check_cmd",
     "stock.cli.flags_cmd",
+    "stock.cli.grade_cmd",
     "stock.cli.find_cmd",
     "stock.cli.kit_cmd",
+    "stock.cli.export_cmd",
+    "stock.cli.check_cmd",
 )
 
 
