@@ -56,12 +56,17 @@ MAINS_CAUTION = ("mains work can kill: use only a part whose X/Y class and AC ra
 
 @dataclass(frozen=True)
 class Conditions:
-    """Where the part will work: temperature range (°C), DC working voltage, service life (years)."""
+    """Where the part will work: temperature range (°C), DC working voltage, service life (years).
+
+    ``position`` is the mains position when the build names one ("line-line" for an X class,
+    "line-earth" for a Y class); None leaves it to the application table.
+    """
 
     temp_min_c: Decimal = Decimal(0)
     temp_max_c: Decimal = Decimal(50)
     working_v: Decimal | None = None
     years: Decimal = Decimal(10)
+    position: str | None = None
 
     def __post_init__(self) -> None:
         if self.temp_min_c > self.temp_max_c:
@@ -82,7 +87,8 @@ class Conditions:
     def to_json(self) -> dict[str, Any]:
         return {"temp_min_c": float(self.temp_min_c), "temp_max_c": float(self.temp_max_c),
                 "working_v": None if self.working_v is None else float(self.working_v),
-                "years": float(self.years), "reference_c": float(REFERENCE_C)}
+                "years": float(self.years), "reference_c": float(REFERENCE_C),
+                "position": self.position}
 
 
 @dataclass(frozen=True)
@@ -301,7 +307,8 @@ def worst_case(marking: Marking, conditions: Conditions = Conditions(), *,
 _SAFETY = re.compile(r"([XY])([1-4])", re.IGNORECASE)
 
 
-def _safety(marking: Marking, rule: Rule) -> tuple[str, str]:
+def _safety(marking: Marking, rule: Rule, position: str | None = None) -> tuple[str, str]:
+    position = position or rule.position
     found = {m[0].upper() for m in _SAFETY.findall(marking.safety_class or "")}
     if not found:
         return "unfit", "no X/Y safety class (IEC 60384-14) marked: never use it across the mains"
@@ -309,9 +316,9 @@ def _safety(marking: Marking, rule: Rule) -> tuple[str, str]:
     if "Y" in found:
         return "fit", (f"{cls} is a Y class: it may serve line–earth and, being tested harder and"
                        " failing open, a line–line (X) position too")
-    if rule.position == "line-earth":
+    if position == "line-earth":
         return "unfit", f"{cls} is an X class only: a line–earth position needs a Y class"
-    if rule.position == "line-line":
+    if position == "line-line":
         return "fit", f"{cls} is an X class: line–line positions only"
     return "marginal", f"{cls} serves line–line (X) positions only; never put it line–earth (needs Y)"
 
@@ -342,7 +349,7 @@ def _judge(marking: Marking, rule: Rule, budget: Budget) -> list[tuple[str, str]
     c = budget.conditions
     here = format_temperature_range(c.temp_min_c, c.temp_max_c)
     if rule.safety:
-        out.append(_safety(marking, rule))
+        out.append(_safety(marking, rule, c.position))
     if budget.over_temperature:
         out.append(("unfit", budget.over_temperature))
     if budget.out_of_range:

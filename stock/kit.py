@@ -11,7 +11,8 @@ How a line's bins are chosen (common practice, no published source):
 1. Candidates come from :func:`stock.search.candidates`; each is then checked again here
    (:func:`stock.kit_rules.check_part`) so the safety rules hold whatever the search returns: a mains line takes
    only parts carrying its X/Y class or a higher one, never anything else; a tuned line never
-   takes a Class 2 ceramic; a polarised part goes only where the BOM says polarised. A looser
+   takes a Class 2 ceramic; a polarised part goes only where the BOM says polarised (or a
+   dielectric-free bulk, bypass or timing line of 1 µF or more). A looser
    tolerance or a lower dielectric class is refused unless ``allow`` names it.
 2. Fit grade before marginal, the exact nominal value before a near one.
 3. Fewest bins: the largest bins first until one bin covers what is left, then the smallest bin
@@ -340,6 +341,7 @@ def _pairs(store: Store, plan_id: int, line_id: int, line: BomLine, options: Kit
     from stock.search import find
 
     filled = 0
+    refused: list[str] = []
     for combo in find(store, _search_requirement(line, options), combine=True).combinations:
         if filled >= left:
             break
@@ -351,7 +353,11 @@ def _pairs(store: Store, plan_id: int, line_id: int, line: BomLine, options: Kit
             found = _marking_of(store, bin_id)
             verdicts.append(check_part(line, found[0], None, options.allow, in_pair=True)
                             if found else Verdict("no part recorded"))
-        if any(v.refused for v in verdicts):
+        why_not = next((f"{key}: {v.refused}" for key, v in
+                        zip((p.bin_key for p in combo.parts), verdicts) if v.refused), None)
+        if why_not:
+            if len(refused) < 2:
+                refused.append(f"{_pair_text(combo)} ({why_not})")
             continue
         if line.tol_pct is not None and "looser-tolerance" not in options.allow:
             if combo.worst_case_pct is None or combo.worst_case_pct > line.tol_pct:
@@ -368,6 +374,8 @@ def _pairs(store: Store, plan_id: int, line_id: int, line: BomLine, options: Kit
         notes.append(f"{use} position(s) from a {_pair_text(combo)}; two parts per position")
         for v in verdicts:
             notes.extend(v.notes)
+    if filled < left and refused:
+        notes.append("pairs not used: " + "; ".join(refused))
     return filled
 
 

@@ -6,7 +6,9 @@ The rules (common practice, no published source, except where a standard is name
   (:func:`stock.search.safety_covers`); a part without a class never goes there. No allowance
   relaxes this.
 - A tuned line never takes a Class 2 ceramic, nor a part whose dielectric is unknown.
-- A polarised part goes only where the BOM says the position is polarised.
+- A polarised part goes only where the BOM says the position is polarised, or, when the line
+  names no dielectric, at a bulk, bypass or timing position of 1 µF or more (where electrolytics
+  are the norm), with a note to fit it by the board's polarity mark.
 - The rated voltage asked is a minimum: a higher rating is allowed and said so.
 - A Class 1 code or tempco window needs a linear tempco inside the window (C0G for NP0 is the same
   characteristic); a Class 2 code takes Class 1 parts or Class 2 ones that cover its range and
@@ -32,6 +34,7 @@ from stock.decoded import Marking
 
 ALLOWANCES = ("looser-tolerance", "lower-class")
 GRADE_RANK = {"fit": 0, "marginal": 1, "unknown": 2}
+POLARISED_FROM_PF = Decimal(1_000_000)   # 1 µF (common practice, no published source)
 HIGH_VOLTAGE_V = Decimal(50)   # above this a charged part can hurt (common practice, no published source)
 
 
@@ -113,8 +116,13 @@ def check_part(line: BomLine, marking: Marking, capacitance_pf: Decimal | None,
     polarised = marking.polarity is not None or (dielectric is not None
                                                  and dielectric.family in POLARISED_FAMILIES)
     if polarised and not line.polarised:
-        return Verdict(f"polarised ({dielectric.family if dielectric else marking.polarity}); the"
-                       " BOM line does not say the position is polarised")
+        what = (dielectric.family if dielectric else marking.polarity or "").replace("-", " ")
+        if not _polarised_fits(line):
+            return Verdict(f"polarised ({what}); the BOM line does not say the position is"
+                           " polarised")
+        notes.append(f"polarised ({what}) where the BOM names no dielectric: usual at"
+                     f" {line.application or 'this'} positions of 1 µF and more; fit it by the"
+                     " board's polarity mark")
     if line.polarised and not polarised and line.dielectric is not None:
         return Verdict("not a polarised part; the BOM names "
                        f"{line.dielectric.family.replace('-', ' ')}")
@@ -140,6 +148,18 @@ def check_part(line: BomLine, marking: Marking, capacitance_pf: Decimal | None,
         return Verdict(None, tuple(notes))
     refused = _value_rule(line, marking, capacitance_pf, allow, notes, format_capacitance)
     return Verdict(refused, tuple(notes))
+
+
+def _polarised_fits(line: BomLine) -> bool:
+    """Whether a line that names no dielectric may take a polarised part.
+
+    From 1 µF up, reservoir, bypass and timing positions are usually electrolytic or tantalum
+    (common practice, no published source); tuned, mains and signal positions never assume it
+    (a coupling part may see its DC either way round).
+    """
+    return (line.dielectric is None and line.tempco_min is None
+            and line.application in (None, "bulk", "bypass", "timing")
+            and line.capacitance_pf is not None and line.capacitance_pf >= POLARISED_FROM_PF)
 
 
 def _dielectric_rule(line: BomLine, marking: Marking, allow: frozenset[str],
@@ -373,6 +393,8 @@ def cautions_for(store: Any, lines: Any) -> tuple[str, ...]:
     if families:
         where = "; ".join(f"{refs}" for fam in families for refs in families[fam])
         how = [POLARITY_MARKS[f] for f in POLARITY_MARKS if f in families]
+        if how:
+            how[0] = how[0][0].upper() + how[0][1:]
         cautions.append("Polarised parts (" + where + "): fit each the right way round. "
                         + ("; ".join(how) + ". " if how else "")
                         + (", ".join(marked) + ". " if marked else "")

@@ -219,6 +219,12 @@ class Requirement:
             return self.safety_class
         return "X3" if self.application == "mains" else None
 
+    def mains_position(self) -> str | None:
+        """The position a named safety class implies: X → line–line, Y → line–earth (IEC 60384-14)."""
+        if not self.safety_class:
+            return None
+        return "line-earth" if "Y" in self.safety_class.upper() else "line-line"
+
     def is_mains(self) -> bool:
         return self.application == "mains" or self.safety_class is not None
 
@@ -347,7 +353,7 @@ def check_part(m: Marking, req: Requirement, *, working_v: Decimal | None) -> Ve
         reasons.append(check.reason)
     word = None
     if req.application:
-        g = grade(m, req.application, replace(cond, working_v=working_v))
+        g = grade(m, req.application, replace(cond, working_v=working_v, position=req.mains_position()))
         word = g.word
         if word not in ("fit", "marginal") or (word == "marginal" and not req.allow_marginal):
             return Verdict(False, tuple(g.reasons[:2]) or (f"{word} for {req.application}",),

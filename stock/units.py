@@ -112,10 +112,15 @@ def parse_capacitance(text: str, what: str = "--value") -> Decimal:
 
     >>> parse_capacitance("0.1u"), parse_capacitance("150p"), parse_capacitance("104")
     (Decimal('100000'), Decimal('150'), Decimal('100000'))
+    >>> parse_capacitance("147p")  # typed by a user, a lower-case p is the unit, not the letter P
+    Decimal('147')
     """
     from stock.value_codes import read_value   # value_codes formats with this module
 
-    reading = read_value(_clean(str(text))) if str(text).strip() else None
+    cleaned = _clean(str(text))
+    if re.fullmatch(r"\d+(?:\.\d+)?p", cleaned):
+        return Decimal(cleaned[:-1])
+    reading = read_value(cleaned) if str(text).strip() else None
     if reading is None or reading.chosen.tolerance_letter:
         raise BadValue(what, str(text), "a capacitance such as 150p, 4n7, 0.1u, 100nF or 104")
     if any(f.kind == "ambiguous-code" for f in reading.flags):

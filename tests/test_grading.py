@@ -392,3 +392,17 @@ def test_grading_a_decoded_marking_gives_the_classic_outcome():
     assert grade(decode("101J C0G"), "tuned").word == "fit"
     assert grade(decode("104K X7R 50V"), "tuned").word == "unfit"
     assert grade(decode("104K X7R 50V"), "bypass").word == "fit"
+
+
+# IEC 60384-14: X classes are for line–line positions, Y classes for line–earth (and may serve X).
+@pytest.mark.parametrize("safety, position, word", [
+    pytest.param("X2", "line-line", "fit", id="X2-line-line-fit"),
+    pytest.param("X2", "line-earth", "unfit", id="X2-line-earth-unfit"),
+    pytest.param("X2", None, "marginal", id="X2-position-unnamed-marginal"),
+    pytest.param("Y2", "line-earth", "fit", id="Y2-line-earth-fit"),
+])
+def test_the_build_position_decides_whether_an_x_part_may_serve(safety, position, word):
+    from stock.markings import decode
+
+    m = decode(f"{safety} 0.1uF 275VAC")
+    assert grade(m, "mains", Conditions(position=position)).word == word

@@ -209,3 +209,23 @@ def test_the_purchasing_list_carries_hostile_markings_as_text(loaded, tmp_path, 
         joined = "\n".join(str(c.value) for c in cells)
     for _, mark, _ in HOSTILE_ROWS:
         assert mark in joined
+
+
+def test_the_pick_list_workbook_holds_hostile_markings_as_string_cells(loaded, tmp_path):
+    from stock.kit import KitOptions, plan_kit
+    from stock.pick_list import pick_list, write_pick_list_xlsx
+    from tests.helpers_procs import write_bom
+
+    out = tmp_path / "pick.xlsx"
+    with open_store(loaded) as store:
+        plan = plan_kit(store, write_bom(tmp_path / "bom.csv", qty_per_board=4, tolerance=""),
+                        KitOptions(boards=5))
+        assert write_pick_list_xlsx(pick_list(store, plan.id), out) >= 2
+    rows = _xlsx_cells(out, "Pick list")
+    header = [c.value for c in rows[0]]
+    marks = {mark for _, mark, _ in HOSTILE_ROWS}
+    picked = [row[header.index("Marking")] for row in rows[1:-1]]       # last row: totals
+    assert {c.value for c in picked} <= marks
+    assert any(c.value.startswith(FORMULA_PREFIXES) for c in picked)    # "=104K" was picked
+    for cell in picked:
+        _assert_text_cell(cell, cell.value)

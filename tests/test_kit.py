@@ -187,6 +187,12 @@ def test_bins_are_chosen_fit_first_then_exact_then_fewest(need, specs, expected)
                  id="tighter-tolerance-allowed"),
     pytest.param(line(), part("10u tant", 100000, dielectric="tantalum"),
                  "does not say the position is polarised", None, id="polarised-part-needs-a-polarised-line"),
+    pytest.param(line(pf=10_000_000, application="signal"),
+                 part("10u tant", 10_000_000, dielectric="tantalum"),
+                 "does not say the position is polarised", None, id="no-polarised-part-for-coupling"),
+    pytest.param(line(pf=100_000_000, application="bulk"),
+                 part("100u 25V", 100_000_000, dielectric="aluminium-electrolytic"),
+                 None, "fit it by the board's polarity mark", id="electrolytic-on-a-plain-bulk-line"),
     pytest.param(line(safety_class="X2"), part("104 275VAC", 100000, volts=275, kind="AC"),
                  "not safety-rated", None, id="non-safety-never-on-mains"),
     pytest.param(line(safety_class="X2"), part("104 X1", 100000, safety="X1"),
@@ -409,7 +415,7 @@ def test_cautions_name_polarity_by_family_high_voltage_and_mains(store):
         line("C3", 1, tol_pct=10, voltage_v=250),
     ), KitOptions(boards=1))
     text = " ".join(kit.cautions)
-    assert "aluminium electrolytics usually mark the negative lead" in text
+    assert "Aluminium electrolytics usually mark the negative lead" in text
     assert "tantalums usually mark the positive lead" in text
     assert "Parts rated above 50 V (cab/H1 (104K 400V))" in text
     assert "discharge" in text
