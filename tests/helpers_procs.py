@@ -83,12 +83,8 @@ def import_worker(db: str, folder: str, name: str, seconds: float, go: str, log:
 
     rng = random.Random(name)
     store = open_store(db)
-    while not Path(go).exists():
-        time.sleep(0.005)
-    end = time.monotonic() + seconds
-    version = 0
-    while time.monotonic() < end:
-        version += 1
+
+    def one_import(version: int) -> None:
         sheet = Path(folder) / f"{name}-v{version}" / f"{name}.csv"
         sheet.parent.mkdir()
         write_bin_sheet(sheet, [(f"B{i}", "4n7 J 100V", rng.randrange(0, 50)) for i in range(40)])
@@ -97,6 +93,15 @@ def import_worker(db: str, folder: str, name: str, seconds: float, go: str, log:
             _log(Path(log), {"who": name, "import": version, "stored": report.sheets[0].stored})
         except StockError as exc:
             _log(Path(log), {"who": name, "import": version, "error": str(exc)})
+
+    one_import(0)      # before the start: the cabinet exists, so every later import recounts
+    while not Path(go).exists():
+        time.sleep(0.005)
+    end = time.monotonic() + seconds
+    version = 0
+    while time.monotonic() < end:
+        version += 1
+        one_import(version)
     store.close()
 
 

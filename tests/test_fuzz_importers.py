@@ -16,7 +16,7 @@ import shutil
 import zipfile
 
 import pytest
-from hypothesis import HealthCheck, assume, given, settings
+from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from importers.sheet import RawSheet, read_sheets

@@ -15,7 +15,6 @@ from __future__ import annotations
 
 import io
 import json
-import os
 import re
 import time
 import zipfile
@@ -95,7 +94,7 @@ def _junk_csv(tmp: Path) -> Path:
 
 def _junk_xlsx(tmp: Path) -> Path:
     p = tmp / "bins.xlsx"
-    p.write_bytes(os.urandom(0) + b"\x00\x01garbage" * 500)
+    p.write_bytes(b"\x00\x01garbage\xff" * 500)
     return p
 
 
