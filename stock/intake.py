@@ -22,27 +22,23 @@ from __future__ import annotations
 
 import hashlib
 import json
-import re
 from collections.abc import Callable
-from dataclasses import dataclass, replace
-from datetime import date, datetime
-from decimal import Decimal
-from functools import lru_cache
+from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from stock.decoded import Alternative, Flag, Marking
-from stock.errors import BadSheet, BadValue
+from stock.decoded import Marking
+from stock.errors import BadSheet
+from stock.row_reading import (MARKING_FIELDS, MAX_COUNT, PART_COLUMNS, READING_FIELDS, RowReader,
+                               bin_key, cell_text, decode_cached, normalise, part_columns,
+                               read_quantity)
 from stock.store import Store, now
 
-# Fields of the "bins" vocabulary whose text joins the marking, in the order it is written.
-MARKING_FIELDS = ("marking", "colours", "dielectric", "tolerance", "voltage", "safety_class",
-                  "polarity", "rated_temp")
-# Fields that can carry the part's reading; a sheet with none of them cannot be imported.
-READING_FIELDS = ("marking", "value", "colours")
 BATCH = 2000
-MAX_COUNT = 2**53  # larger is a typing slip, and no longer exact as a JSON number
 PROGRESS_EVERY = 1000
+# Page cache for the import's transaction (KiB): the parts and grades indexes of a big sheet
+# outgrow SQLite's default 2 MiB and then every insert rereads pages from the OS.
+IMPORT_CACHE_KIB = 65536
 
 # Why a row was quarantined, and what the user can do about it (shown by `stock quarantine`).
 QUARANTINE_FIXES: dict[str, str] = {
@@ -94,129 +90,11 @@ class ImportReport:
         return {"files": [s.to_json() | {"dry_run": self.dry_run} for s in self.sheets]}
 
 
-def normalise(text: str) -> str:
-    """Bin-key form of a name: trimmed, white space made single, lower case."""
-    return " ".join(str(text).split()).casefold()
-
-
-def bin_key(cabinet: str, location: str) -> str:
-    """The identity of a bin: ``"<cabinet>/<location>"`` normalised (see the module docstring)."""
-    return f"{normalise(cabinet)}/{normalise(location)}"
-
-
-@lru_cache(maxsize=65536)
-def decode_cached(text: str) -> Marking:
-    """:func:`stock.markings.decode` remembered per text: sheets repeat their markings a lot."""
-    from stock.markings import decode
-    return decode(text)
-
-
-def cell_text(value: Any) -> str:
-    """A cell as the text a person would read: 104.0 is "104", 2.2e-05 is "0.000022".
-
-    >>> cell_text(104.0), cell_text(2.2e-05), cell_text("  4n7 "), cell_text(None)
-    ('104', '0.000022', '4n7', '')
-    """
-    if value is None:
-        return ""
-    if isinstance(value, bool):
-        return "yes" if value else "no"
-    if isinstance(value, float):
-        if value.is_integer():
-            return str(int(value))
-        return format(Decimal(repr(value)), "f")
-    if isinstance(value, (datetime, date)):
-        return value.isoformat()
-    return " ".join(str(value).split())
-
-
-_NUMBER = re.compile(r"^[+-]?(\d+(\.\d*)?|\.\d+)$")
-
-
-def read_quantity(value: Any) -> int | None:
-    """A count cell as a whole number; None for a blank. Raises ValueError with the reason.
-
-    >>> read_quantity(10.0), read_quantity(" 25 "), read_quantity(None)
-    (10, 25, None)
-    """
-    if value is None or (isinstance(value, str) and not value.strip()):
-        return None
-    if isinstance(value, bool):
-        raise ValueError(f"quantity {cell_text(value)!r} is not a number")
-    if isinstance(value, int):
-        number = value
-    elif isinstance(value, float):
-        if not value.is_integer():
-            raise ValueError(f"quantity {cell_text(value)!r} is not a whole number")
-        number = int(value)
-    else:
-        text = str(value).strip()
-        if not _NUMBER.match(text):
-            raise ValueError(f"quantity {text!r} is not a number")
-        exact = Decimal(text)
-        if exact != exact.to_integral_value():
-            raise ValueError(f"quantity {text!r} is not a whole number")
-        number = int(exact)
-    if number < 0:
-        raise ValueError(f"quantity {cell_text(value)!r} is negative")
-    if number > MAX_COUNT:
-        raise ValueError(f"quantity {cell_text(value)!r} is too large to be a count")
-    return number
-
-
-# A polarity column often says only whether the part is polarised, not which lead is marked:
-# such words add nothing to the marking (the decoder assumes the family's usual mark and says so).
-_POLARITY_WORDS = {w: "" for w in ("yes", "y", "true", "x", "1", "no", "n", "false", "0",
-                                   "polarised", "polarized", "polar", "non-polar", "np")}
-
-
-@lru_cache(maxsize=4096)
-def _decode_colours_cached(text: str) -> Marking:
-    from stock.colour_codes import decode_colours
-    return decode_colours(text)
-
-
-def _colours_unused(colours: str) -> tuple[Flag, ...]:
-    return (Flag("unparsed", f"the colours {colours!r} were not used: the printed marking gave"
-                 " the value"),)
-
-
-def _with_unit(text: str, unit: str | None) -> str:
-    """A bare number from a column whose header names a unit gets that unit ("100" + "pF")."""
-    if unit and _NUMBER.match(text):
-        return f"{text}{unit.replace('µ', 'u').replace('μ', 'u')}"  # ASCII: every decoder reads "uF"
-    return text
-
-
-def _part_columns(m: Marking) -> tuple[Any, ...]:
-    """The flat parts columns of a marking, in the order of :data:`_PART_COLUMNS`."""
-    tol, diel = m.tolerance, m.dielectric
-
-    def f(v: Decimal | None) -> float | None:
-        return None if v is None else float(v)
-
-    return (
-        f(m.capacitance_pf),
-        f(tol.minus) if tol else None, f(tol.plus) if tol else None,
-        tol.unit if tol else None, tol.code if tol else None,
-        f(m.voltage_v), m.voltage_kind,
-        diel.code if diel else None, diel.family if diel else None, diel.klass if diel else None,
-        f(diel.tempco_ppm_per_k) if diel else None, f(diel.tempco_tol_ppm_per_k) if diel else None,
-        f(diel.temp_min_c) if diel else None, f(diel.temp_max_c) if diel else None,
-        f(diel.change_minus_pct) if diel else None, f(diel.change_plus_pct) if diel else None,
-        m.safety_class, m.polarity, f(m.rated_temp_c),
-    )
-
-
-_PART_COLUMNS = ("capacitance_pf", "tol_minus", "tol_plus", "tol_unit", "tol_code", "voltage_v",
-                 "voltage_kind", "dielectric_code", "family", "class", "tempco_ppm_per_k",
-                 "tempco_tol_ppm_per_k", "temp_min_c", "temp_max_c", "change_minus_pct",
-                 "change_plus_pct", "safety_class", "polarity", "rated_temp_c")
 _INSERT_PART = (
-    f"INSERT INTO parts (bin_id, marking, {', '.join(_PART_COLUMNS)}, package, mounting,"
-    f" decoded_json) VALUES ({', '.join('?' * (len(_PART_COLUMNS) + 5))})")
+    f"INSERT INTO parts (bin_id, marking, {', '.join(PART_COLUMNS)}, package, mounting,"
+    f" decoded_json) VALUES ({', '.join('?' * (len(PART_COLUMNS) + 5))})")
 _UPDATE_PART = (
-    f"UPDATE parts SET marking = ?, {', '.join(c + ' = ?' for c in _PART_COLUMNS)},"
+    f"UPDATE parts SET marking = ?, {', '.join(c + ' = ?' for c in PART_COLUMNS)},"
     " package = COALESCE(?, package), mounting = COALESCE(?, mounting), decoded_json = ?"
     " WHERE bin_id = ?")
 _INSERT_BIN = ("INSERT INTO bins (id, bin_key, label, location, cabinet, notes, minimum, date_code,"
@@ -225,26 +103,8 @@ _INSERT_SOURCE = ("INSERT INTO source_rows (id, import_id, sheet, row_number, ra
                   " reasons_json, bin_id) VALUES (?,?,?,?,?,?,?,?)")
 _INSERT_LEDGER = ("INSERT INTO ledger (bin_id, delta, kind, ref, note, actor, at)"
                   " VALUES (?, ?, 'import', ?, NULL, NULL, ?)")
-
-
-def _same_value(a: Decimal, b: Decimal) -> bool:
-    return abs(a - b) <= abs(b) * Decimal("1e-9")
-
-
-_VALUE_TOKEN = re.compile(r"\d[\d.,]*\s*(?:[pnuµμ]\s*F?|F)\b|\d+[pnuµμR]\d+", re.IGNORECASE)
-
-
-@lru_cache(maxsize=4096)
-def _label_value(label: str) -> tuple[str, Decimal] | None:
-    """A capacitance written in a bin label ("10nF", "Box 4n7 C0G"), if it states one."""
-    from stock.units import parse_capacitance
-    for match in _VALUE_TOKEN.finditer(label):
-        token = match.group(0).replace(" ", "")
-        try:
-            return token, parse_capacitance(token, what="label")
-        except (BadValue, ValueError):
-            continue
-    return None
+_INSERT_FLAG = ("INSERT OR IGNORE INTO flags (bin_id, source_row_id, kind, message, details_json,"
+                " fingerprint, status, opened_at) VALUES (?, ?, ?, ?, ?, ?, 'open', ?)")
 
 
 @dataclass
@@ -270,7 +130,6 @@ class _SheetIntake:
         self.conn = store.db.conn
         self.path = path
         self.sheet = raw_sheet
-        self.map = header_map
         self.import_id = import_id
         self.seen = seen_keys
         self.ids = ids
@@ -285,36 +144,13 @@ class _SheetIntake:
         self._parts: list[tuple] = []
         self._ledger: list[tuple] = []
         self._sources: list[tuple] = []
-        self._flags: list[dict[str, Any]] = []
-        units = getattr(header_map, "units", None) or {}
-        self.units: dict[str, str] = dict(units)
-        self.index = dict(header_map.field_to_index)
+        self._flags: list[tuple] = []
+        # the readers see to it that headers are unique
+        self.reader = RowReader(header_map, [cell_text(h) for h in raw_sheet.headers])
         self.default_cabinet = raw_sheet.sheet if raw_sheet.sheet else path.stem
-        self.headers = [cell_text(h) for h in raw_sheet.headers]  # unique: the readers see to it
-        self._text_fields = [(n, i) for n, i in self.index.items() if n not in ("quantity", "minimum")]
         self._cabinet_keys: dict[str, str] = {}
         self._forms: dict[int, tuple[Marking, tuple[Any, ...], str]] = {}
-
-    def _texts(self, cells: tuple[Any, ...]) -> dict[str, str]:
-        """The non-blank text of each mapped field of a row (the hot path: one pass, no lookups)."""
-        out: dict[str, str] = {}
-        for name, i in self._text_fields:
-            v = cells[i] if i < len(cells) else None
-            if v is None:
-                continue
-            if type(v) is str:
-                t = v.strip()
-                if "  " in t or "\n" in t or "\t" in t:
-                    t = " ".join(t.split())
-            else:
-                t = cell_text(v)
-            if t:
-                out[name] = t
-        return out
-
-    def _raw_cell(self, cells: tuple[Any, ...], name: str) -> Any:
-        i = self.index.get(name)
-        return None if i is None or i >= len(cells) else cells[i]
+        self._flag_forms: dict[str, tuple[Marking, tuple[tuple[str, str, str], ...], str]] = {}
 
     def _existing_for(self, cabinet_key: str) -> dict[str, _Existing]:
         """Every stored bin of one cabinet, read once (no per-row SELECT)."""
@@ -348,19 +184,30 @@ class _SheetIntake:
         if self.progress:
             self.progress(self.counts["rows"])
 
-    def _raw_json(self, cells: tuple[Any, ...], extra: tuple[tuple[str, Any], ...] = ()) -> str:
-        raw = {h: c for h, c in zip(self.headers, cells) if c is not None and c != ""}
-        raw.update(extra)  # cells right of the header are kept too: nothing read is lost
-        return json.dumps(raw, default=str, ensure_ascii=False)
-
     def _stored_form(self, m: Marking) -> tuple[tuple[Any, ...], str]:
-        """Flat columns and JSON of a marking, remembered by identity: the decode cache hands out
-        one object per distinct text, so a sheet's repeated markings are turned into rows once."""
+        """Flat columns and JSON of a marking, remembered by identity: the reader hands out one
+        object per distinct reading, so a sheet's repeated markings are turned into rows once."""
         found = self._forms.get(id(m))
         if found is None or found[0] is not m:
-            found = (m, _part_columns(m), json.dumps(m.to_json(), ensure_ascii=False))
+            found = (m, part_columns(m), json.dumps(m.to_json(), ensure_ascii=False))
             if len(self._forms) < 65536:
                 self._forms[id(m)] = found
+        return found[1], found[2]
+
+    def _marking_flags(self, text: str, m: Marking) -> tuple[tuple[tuple[str, str, str], ...], str]:
+        """A marking's own flags as (kind, message, fingerprint suffix after the bin key), and
+        their reasons JSON, remembered per marking text."""
+        found = self._flag_forms.get(text)
+        if found is None or found[0] is not m:
+            seen: dict[str, int] = {}
+            out = []
+            for f in m.flags:
+                n = seen.get(f.kind, 0)
+                seen[f.kind] = n + 1
+                out.append((f.kind, f.message, f"|{f.kind}|{text}" + (f"|{n}" if n else "")))
+            found = (m, tuple(out), _reasons_json([(k, msg) for k, msg, _ in out]))
+            if len(self._flag_forms) < 65536:
+                self._flag_forms[text] = found
         return found[1], found[2]
 
     def _next_id(self, table: str) -> int:
@@ -370,72 +217,20 @@ class _SheetIntake:
     def _quarantine(self, number: int, cells: tuple[Any, ...],
                     problems: list[tuple[str, str]]) -> None:
         self.counts["quarantined"] += 1
-        reasons = json.dumps([{"kind": k, "message": m} for k, m in problems], ensure_ascii=False)
         self._sources.append((self._next_id("source_rows"), self.import_id, self.sheet.sheet, number,
-                              self._raw_json(cells, self._extra), "quarantined", reasons, None))
-
-    def _marking_text(self, f: dict[str, str]) -> tuple[str, str, str]:
-        """(marking text to decode, the colours column's text or "", the explicit value or "")."""
-        pieces = []
-        for name in MARKING_FIELDS:
-            text = f.get(name)
-            if not text or name == "colours":
-                continue
-            if name == "voltage":
-                text = _with_unit(text, self.units.get(name) or "V")
-            elif name == "tolerance":
-                text = _with_unit(text, self.units.get(name) or "%")
-            elif name == "rated_temp":
-                text = _with_unit(text, "°C")
-            elif name == "polarity":
-                text = _POLARITY_WORDS.get(text.casefold(), text)
-                if not text:
-                    continue
-            elif name == "marking":
-                text = _with_unit(text, self.units.get(name))
-            pieces.append(text)
-        value = f.get("value", "")
-        if value:
-            value = _with_unit(value, self.units.get("value"))
-        colours = f.get("colours", "")
-        if value and "marking" not in f and not colours:
-            return " ".join([value, *pieces]), "", ""  # the value column is the marking
-        return " ".join(pieces), colours, value
-
-    def _decode(self, text: str, colours: str) -> tuple[str, Marking | None]:
-        """Decode a row's text; a colours column is read as colour bands, the rest fills in."""
-        if not colours:
-            return text, decode_cached(text) if text else None
-        full = f"{text} {colours}".strip() if text else colours
-        rest = decode_cached(text) if text else None
-        if rest is not None and rest.capacitance_pf is not None:
-            return full, rest.with_flags(*_colours_unused(colours))
-        bands = _decode_colours_cached(colours)
-        if rest is None:
-            return full, bands
-        merged = replace(
-            bands, text=full,
-            tolerance=bands.tolerance or rest.tolerance,
-            voltage_v=bands.voltage_v or rest.voltage_v,
-            voltage_kind=bands.voltage_kind or rest.voltage_kind,
-            dielectric=bands.dielectric or rest.dielectric,
-            safety_class=bands.safety_class or rest.safety_class,
-            polarity=bands.polarity or rest.polarity,
-            rated_temp_c=bands.rated_temp_c or rest.rated_temp_c,
-            flags=bands.flags + tuple(x for x in rest.flags if x.kind not in ("unreadable",)),
-            unparsed=bands.unparsed + rest.unparsed)
-        return full, merged
+                              self.reader.raw_json(cells, self._extra), "quarantined",
+                              _reasons_json(problems), None))
 
     def _row(self, number: int, cells: tuple[Any, ...]) -> None:
+        reader = self.reader
         problems: list[tuple[str, str]] = []  # every reason a row is refused, not just the first
         try:
-            quantity = read_quantity(self._raw_cell(cells, "quantity"))
+            quantity = read_quantity(reader.raw_cell(cells, "quantity"))
         except ValueError as exc:
             quantity = None
             problems.append(("bad-quantity", str(exc)))
-        f = self._texts(cells)
-        text, colours, value_text = self._marking_text(f)
-        text, marking = self._decode(text, colours)
+        f = reader.texts(cells)
+        text, marking, value_text, claimed = reader.reading(f)
         if marking is None or (marking.capacitance_pf is None
                                and not any(a.capacitance_pf is not None for a in marking.alternatives)):
             problems.append(("no-capacitance", f"no capacitance could be read from {text!r}" if text
@@ -459,76 +254,52 @@ class _SheetIntake:
             return
         self.seen[key] = (self.sheet.sheet, number)
 
-        marking, extra_flags = self._cross_check(key, text, marking, value_text, label)
-        self._store(number, cells, f, key, cabinet, cabinet_key, label, location or None, text,
+        marking, extra_flags = reader.cross_check(key, text, marking, value_text, claimed, label)
+        self._store(number, cells, f, key, cabinet, label, location or None, text,
                     marking, extra_flags, quantity)
-
-    def _cross_check(self, key: str, text: str, marking: Marking, value_text: str,
-                     label: str) -> tuple[Marking, list[tuple[str, str, str]]]:
-        """Compare the marking's reading with an explicit value and a label; keep the marking's."""
-        found: list[tuple[str, str, str]] = []  # (kind, message, fingerprint)
-        nominal = marking.capacitance_pf
-        if nominal is None:
-            return marking, found
-        from stock.units import format_capacitance
-        claims: list[tuple[str, str, Decimal]] = []
-        if value_text:
-            other = decode_cached(value_text).capacitance_pf
-            if other is not None:
-                claims.append(("the value column", value_text, other))
-        if label:
-            said = _label_value(label)
-            if said is not None:
-                claims.append(("the label", said[0], said[1]))
-        for where, raw, other in claims:
-            if _same_value(other, nominal):
-                continue
-            message = (f"{where} says {format_capacitance(other)} ({raw!r}), the marking {text!r}"
-                       f" says {format_capacitance(nominal)}; kept the marking's reading")
-            marking = replace(marking, alternatives=marking.alternatives + (
-                Alternative(reason=f"{where} says {raw}", capacitance_pf=other),),
-                flags=marking.flags + (Flag("label-conflict", message),))
-            found.append(("label-conflict", message, f"{key}|label-conflict|{text}|{raw}"))
-        return marking, found
 
     def _flags_for(self, key: str, text: str, marking: Marking,
                    extra: list[tuple[str, str, str]], quantity: int | None,
-                   ) -> list[tuple[str, str, str]]:
-        out: list[tuple[str, str, str]] = []
-        seen: dict[str, int] = {}
-        extra_messages = {m for _, m, _ in extra}
-        for f in marking.flags:
-            if f.message in extra_messages:
-                continue
-            n = seen.get(f.kind, 0)
-            seen[f.kind] = n + 1
-            fp = f"{key}|{f.kind}|{text}" + (f"|{n}" if n else "")
-            out.append((f.kind, f.message, fp))
-        out.extend(extra)
+                   ) -> tuple[list[tuple[str, str, str]], str]:
+        """The row's flags as (kind, message, fingerprint), and their reasons JSON."""
+        if not extra:
+            own, reasons = self._marking_flags(text, marking)
+            out = [(kind, message, key + suffix) for kind, message, suffix in own]
+        else:  # a label conflict is among the marking's flags too: list it once, as found
+            out = []
+            seen: dict[str, int] = {}
+            extra_messages = {m for _, m, _ in extra}
+            for f in marking.flags:
+                if f.message in extra_messages:
+                    continue
+                n = seen.get(f.kind, 0)
+                seen[f.kind] = n + 1
+                out.append((f.kind, f.message, f"{key}|{f.kind}|{text}" + (f"|{n}" if n else "")))
+            out.extend(extra)
+            reasons = ""
         if quantity is None:
             out.append(("unknown-quantity", f"bin {key!r} has no count in the sheet (blank is"
                         " not zero); count it", f"{key}|unknown-quantity"))
-        return out
+            reasons = ""
+        return out, reasons or _reasons_json([(k, m) for k, m, _ in out])
 
     def _store(self, number: int, cells: tuple[Any, ...], f: dict[str, str], key: str,
-               cabinet: str, cabinet_key: str, label: str, location: str | None, text: str,
+               cabinet: str, label: str, location: str | None, text: str,
                marking: Marking, extra: list[tuple[str, str, str]], quantity: int | None) -> None:
-        in_cabinet = self._existing_for(cabinet_key)
+        in_cabinet = self._existing_for(self._cabinet_keys[cabinet])
         existing = in_cabinet.get(key)
         notes = f.get("notes")
         date_code = f.get("date_code")
         try:
-            minimum = read_quantity(self._raw_cell(cells, "minimum"))
+            minimum = read_quantity(self.reader.raw_cell(cells, "minimum"))
         except ValueError:
             minimum = None  # a bad minimum is no reason to lose the row; the raw cell is kept
         package = f.get("package")
         mounting = f.get("mounting")
         known = quantity if existing is None or quantity is not None else existing.on_hand
-        flags = self._flags_for(key, text, marking, extra, known)
+        flags, reasons = self._flags_for(key, text, marking, extra, known)
         source_id = self._next_id("source_rows")
         status = "flagged" if flags else "stored"
-        reasons = (json.dumps([{"kind": k, "message": m} for k, m, _ in flags], ensure_ascii=False)
-                   if flags else "[]")
 
         if existing is None:
             bin_id = self._next_id("bins")
@@ -555,14 +326,12 @@ class _SheetIntake:
                 self.touched.append(bin_id)
         if flags:
             self.counts["flagged"] += 1
+            details = json.dumps({"marking": text, "row": number, "sheet": self.sheet.sheet,
+                                  "file": self.path.name}, default=str)
             for kind, message, fp in flags:
-                self._flags.append(dict(kind=kind, message=message, fingerprint=fp, bin_id=bin_id,
-                                        source_row_id=source_id,
-                                        details={"marking": text, "row": number,
-                                                 "sheet": self.sheet.sheet,
-                                                 "file": self.path.name}))
+                self._flags.append((bin_id, source_id, kind, message, details, fp, self.stamp))
         self._sources.append((source_id, self.import_id, self.sheet.sheet, number,
-                              self._raw_json(cells, self._extra), status, reasons, bin_id))
+                              self.reader.raw_json(cells, self._extra), status, reasons, bin_id))
 
     def _update(self, old: _Existing, label: str, location: str | None, notes: str | None,
                 minimum: int | None, date_code: str | None, text: str, marking: Marking,
@@ -588,7 +357,7 @@ class _SheetIntake:
                 from stock.bins import part_marking
                 shown = part_marking({"decoded_json": json.dumps(marking.to_json()),
                                       "settled_json": old.settled_json})
-            columns = _part_columns(shown)
+            columns = part_columns(shown)
             decoded = json.dumps(marking.to_json())
             if old.marking is None:
                 self.conn.execute(_INSERT_PART, (old.id, text, *columns, package, mounting, decoded))
@@ -617,10 +386,20 @@ class _SheetIntake:
         if self._sources:
             conn.executemany(_INSERT_SOURCE, self._sources)
             self._sources.clear()
-        for f in self._flags:
-            if self.store.raise_flag(**f) is not None:
-                self.counts["flags_raised"] += 1
-        self._flags.clear()
+        if self._flags:
+            # Store.raise_flag's insert-or-ignore by fingerprint, many at once: a flag already
+            # raised (open or settled) is neither duplicated nor reopened.
+            before = conn.total_changes
+            conn.executemany(_INSERT_FLAG, self._flags)
+            self.counts["flags_raised"] += conn.total_changes - before
+            self._flags.clear()
+
+
+def _reasons_json(reasons: list[tuple[str, str]]) -> str:
+    """The ``reasons_json`` of a source row: a list of {kind, message}."""
+    if not reasons:
+        return "[]"
+    return json.dumps([{"kind": k, "message": m} for k, m in reasons], ensure_ascii=False)
 
 
 class _DryRun(Exception):
@@ -676,6 +455,10 @@ def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
     sha = file_sha256(path)
     reports: list[SheetReport] = []
     seen: dict[str, tuple[str | None, int]] = {}
+    conn = store.db.conn
+    cache = conn.execute("PRAGMA cache_size").fetchone()[0]
+    if 0 <= cache or -cache < IMPORT_CACHE_KIB:
+        conn.execute(f"PRAGMA cache_size = -{IMPORT_CACHE_KIB}")  # this connection only
     try:
         with store.writing():
             ids = {t: store.one(f"SELECT COALESCE(MAX(id), 0) AS n FROM {t}")["n"]
@@ -719,8 +502,11 @@ def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
                 raise _DryRun
     except _DryRun:
         pass
+    finally:
+        conn.execute(f"PRAGMA cache_size = {cache}")
     return ImportReport(str(path), tuple(reports), dry_run=dry_run)
 
 
-__all__ = ["ImportReport", "QUARANTINE_FIXES", "SheetReport", "bin_key", "cell_text",
-           "decode_cached", "import_file", "normalise", "read_quantity"]
+__all__ = ["BATCH", "MARKING_FIELDS", "MAX_COUNT", "QUARANTINE_FIXES", "READING_FIELDS",
+           "ImportReport", "SheetReport", "bin_key", "cell_text", "decode_cached", "import_file",
+           "normalise", "read_quantity"]

@@ -34,7 +34,7 @@ def natural_key(text: str | None) -> tuple:
     ['A2', 'a3', 'A10', 'B1']
     """
     parts = re.split(r"(\d+)", (text or "").casefold())
-    return tuple((0, int(p)) if p.isdigit() else (1, p) for p in parts if p != "")
+    return tuple((0, int(p)) if p.isdecimal() else (1, p) for p in parts if p != "")  # isdigit() passes "²"
 
 
 def export_count_sheet(store: Store, out: Path) -> int:

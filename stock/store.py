@@ -317,7 +317,7 @@ class Store:
             NotFound: nothing matches, or a location/label matches several bins.
         """
         text = ref.strip()
-        if text.isdigit():
+        if text.isascii() and text.isdigit() and len(text) < 19:   # "²" is a digit to isdigit(); 19 digits pass int64
             row = self.one("SELECT * FROM bins WHERE id = ?", (int(text),))
             if row:
                 return row

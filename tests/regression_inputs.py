@@ -90,4 +90,26 @@ COUNT_CELLS: dict[str, object] = {
     "fraction": 1.5,
 }
 
-__all__ = ["BOM_SHEETS", "COUNT_CELLS", "CSV_SHEETS", "DECODER_TEXTS"]
+# Command lines with hostile values: each must end in one clear line and exit 1 or 2, never a
+# traceback. Found: OverflowError from sqlite3 when a bin or plan number past 64 bits reached a
+# query (stock.store.Store.find_bin, stock.kit), ValueError from int("²") (str.isdigit accepts
+# superscripts; fixed in Store.find_bin), OverflowError from `find --qty` past 64 bits.
+CLI_ARGS: tuple[tuple[str, ...], ...] = (
+    ("show", "99999999999999999999"),
+    ("show", "²"),
+    ("grade", "99999999999999999999"),
+    ("kit", "pull", "99999999999999999999"),
+    ("kit", "show", "plan:99999999999999999999"),
+    ("kit", "undo", "²"),
+    ("kit", "drop", "99999999999999999999"),
+    ("find", "--value", "100n", "--qty", "99999999999999999999"),
+    ("find", "--value", "1e400p"),
+    ("show", "'); DROP TABLE bins;--"),
+)
+
+# Bin locations that sorting must survive (count sheet, pick list: "A2 before A10"). Found:
+# ValueError from int("²") in stock.stocktake.natural_key (fixed: isdecimal) and in
+# stock.kit_rules.natural_key.
+LOCATIONS: tuple[str, ...] = ("²", "A²", "①", "٣", "A٣", "A10", "A2", "", "  ")
+
+__all__ = ["BOM_SHEETS", "CLI_ARGS", "LOCATIONS", "COUNT_CELLS", "CSV_SHEETS", "DECODER_TEXTS"]

@@ -29,7 +29,7 @@ from stock.errors import BadSheet
 from stock.intake import import_file
 from stock.store import open_store
 from tests.helpers_procs import table_counts, write_bin_sheet
-from tests.regression_inputs import BOM_SHEETS, COUNT_CELLS
+from tests.regression_inputs import BOM_SHEETS, CLI_ARGS, COUNT_CELLS, LOCATIONS
 
 ENV = {"COLUMNS": "200", "TERMINAL_WIDTH": "200", "_TYPER_FORCE_DISABLE_TERMINAL": "1"}
 
@@ -408,3 +408,32 @@ def test_a_file_that_is_not_a_count_sheet_is_refused_in_one_line(tmp_path, db, m
         apply_count_sheet(store, path)
     assert words in str(err.value) and "\n" not in str(err.value)
     assert _counts(db) == before
+
+
+@pytest.mark.parametrize("args", CLI_ARGS, ids=["-".join(a)[:40] for a in CLI_ARGS])
+def test_a_hostile_command_line_value_gives_one_line_never_a_traceback(db, args):
+    before = _counts(db)
+    result = _cli(db, *args)
+    assert result.exception is None or isinstance(result.exception, SystemExit), repr(result.exception)
+    assert result.exit_code in (1, 2), result.output
+    assert "Traceback" not in result.output
+    if result.exit_code == 1:
+        (line,) = result.stderr.strip().splitlines()
+        assert line.startswith("stock: ")
+    assert _counts(db) == before
+
+
+def test_odd_locations_sort_in_the_count_sheet_and_the_pick_list(tmp_path, db):
+    from stock.kit import KitOptions, plan_kit
+    from stock.pick_list import pick_list, write_pick_list_xlsx
+    from stock.stocktake import export_count_sheet
+    from tests.helpers_procs import write_bom
+
+    rows = [(loc, "104K", 3) for loc in LOCATIONS if loc.strip()]
+    path = write_bin_sheet(tmp_path / "odd.csv", rows, headers=("Location", "Marking", "Qty"))
+    with open_store(db) as store:
+        (sheet,) = import_file(store, path).sheets
+        assert sheet.stored == len(rows)
+        assert export_count_sheet(store, tmp_path / "count.xlsx") == 3 + len(rows)
+        plan = plan_kit(store, write_bom(tmp_path / "bom.csv"), KitOptions(boards=3 * len(rows) + 10))
+        assert write_pick_list_xlsx(pick_list(store, plan.id), tmp_path / "pick.xlsx") >= len(rows)

@@ -76,3 +76,22 @@ def test_a_bad_count_refuses_the_whole_sheet_naming_row_and_column(shelf, tmp_pa
 def test_natural_order_puts_a2_before_a10():
     # common practice for drawer labels, no published source
     assert sorted(["A10", "A2", "A1"], key=natural_key) == ["A1", "A2", "A10"]
+
+
+def test_importing_the_filled_sheet_through_the_cli_records_counts(shelf, tmp_path):
+    from typer.testing import CliRunner
+
+    from stock.cli import app
+
+    out = tmp_path / "take.xlsx"
+    export_count_sheet(shelf, out)
+    _fill(out, {"cab/A2": 9})
+    db = shelf.path
+    result = CliRunner().invoke(app, ["--db", db, "import", str(out), "--json"])
+    assert result.exit_code == 0, result.output
+    import json
+
+    report = json.loads(result.stdout)
+    assert report["files"] == [] and report["counts"][0]["changes"] == [
+        {"bin": "cab/A2", "row": 2, "expected": 7, "counted": 9, "delta": 2}]
+    assert shelf.one("SELECT on_hand FROM bins WHERE bin_key = 'cab/A2'")["on_hand"] == 9

@@ -49,13 +49,25 @@ def register(app: typer.Typer) -> None:
         from rich.progress import BarColumn, Progress, SpinnerColumn, TextColumn, TimeElapsedColumn
 
         from stock.intake import import_file
+        from stock.stocktake import apply_count_sheet, is_count_sheet, preview_count_sheet
         from stock.store import open_store
 
         overrides = _overrides(mapping or [])
         err = Console(stderr=True)
         reports = []
+        counts = []
         with open_store(state(ctx).db_path) as store:
             for path in paths:
+                if is_count_sheet(path):  # our own stock-take sheet, filled in: counts, not bins
+                    count = (preview_count_sheet if dry_run else apply_count_sheet)(store, path)
+                    counts.append(count)
+                    if not as_json:
+                        typer.echo(f"{path.name}: stock-take sheet, {count.counted} bins counted,"
+                                   f" {count.not_counted} not counted, {len(count.changes)} differences")
+                        for c in count.changes:
+                            was = "unknown" if c.expected is None else str(c.expected)
+                            typer.echo(f"  {c.bin_key}: {was} → {c.counted} ({c.delta:+d})")
+                    continue
                 with Progress(SpinnerColumn(), TextColumn("{task.description}"), BarColumn(),
                               TextColumn("{task.completed} rows"), TimeElapsedColumn(),
                               console=err, transient=True,
@@ -72,8 +84,13 @@ def register(app: typer.Typer) -> None:
                     for note in s.notes:
                         typer.echo(f"note: {where}: {note}", err=True)
         if as_json:
-            typer.echo(json.dumps({"files": [f for r in reports for f in r.to_json()["files"]]},
+            typer.echo(json.dumps({"files": [f for r in reports for f in r.to_json()["files"]],
+                                   "counts": [c.to_json() for c in counts]},
                                   ensure_ascii=False, indent=2))
+            return
+        if not reports:
+            if dry_run:
+                typer.echo("dry run: nothing was written", err=True)
             return
         rows = []
         for r in reports:
