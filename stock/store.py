@@ -32,6 +32,7 @@ from sqlite_utils import Database, Migrations
 from stock.errors import NotFound, Refused, StoreProblem
 
 BUSY_TIMEOUT_S = 10.0
+MAX_ON_HAND = 2**53          # the largest count kept exactly in SQLite, JSON and floats alike
 LEDGER_KINDS = ("import", "count", "pull", "undo", "adjust", "merge", "settle")
 
 migrations = Migrations("stock")
@@ -244,7 +245,7 @@ class Store:
         would leave fewer than zero parts is refused and nothing is written.
 
         Raises:
-            Refused: the bin would go negative.
+            Refused: the bin would go negative, or hold more than ``MAX_ON_HAND``.
             NotFound: no such bin.
         """
         if kind not in LEDGER_KINDS:
@@ -258,6 +259,9 @@ class Store:
         if new < 0:
             raise Refused(f"take {-delta} from bin {row['bin_key']}",
                           f"it holds only {row['on_hand'] or 0}")
+        if new > MAX_ON_HAND:   # a typing slip; SQLite's INTEGER would overflow a little further on
+            raise Refused(f"put {delta} parts in bin {row['bin_key']}",
+                          f"a bin holding more than {MAX_ON_HAND:,} parts is not a count")
         stamp = now()
         self.db.conn.execute(
             "INSERT INTO ledger (bin_id, delta, kind, ref, note, actor, at) VALUES (?,?,?,?,?,?,?)",
@@ -372,4 +376,4 @@ def open_store(path: str | Path, *, create: bool = True) -> Store:
     return Store(db, name)
 
 
-__all__ = ["LEDGER_KINDS", "Store", "migrations", "now", "open_store"]
+__all__ = ["LEDGER_KINDS", "MAX_ON_HAND", "Store", "migrations", "now", "open_store"]
