@@ -66,6 +66,7 @@ class OrderLine:
     capacitance_pf: Decimal | None
     tol_pct: Decimal | None
     voltage_v: Decimal | None
+    voltage_kind: str
     dielectric: str
     safety_class: str
     polarity: str
@@ -74,7 +75,8 @@ class OrderLine:
     needed_by: list[str] = field(default_factory=list)
 
     def key(self) -> tuple:
-        return (self.capacitance_pf, self.tol_pct, self.voltage_v, self.dielectric, self.safety_class,
+        return (self.capacitance_pf, self.tol_pct, self.voltage_v, self.voltage_kind, self.dielectric,
+                self.safety_class,
                 self.polarity, self.requirement)
 
 
@@ -84,7 +86,7 @@ def _dec(value: Any) -> Decimal | None:
 
 def purchasing_lines(store: Store, plan_ids: Sequence[int] = (), below_minimum: bool = False,
                      spare_pct: Decimal = Decimal(10)) -> list[OrderLine]:
-    """What to order: the shortfalls of plans (all held plans unless ids are given) and, with
+    """What to order: the shortfalls of plans (every plan held or pulled, unless ids are given) and, with
     ``below_minimum``, bins under their minimum. Equal requirements are merged."""
     lines: dict[tuple, OrderLine] = {}
 
@@ -105,15 +107,18 @@ def purchasing_lines(store: Store, plan_ids: Sequence[int] = (), below_minimum: 
                                " ORDER BY plan_id, line_no", tuple(plan_ids))
     else:
         plan_rows = store.rows("SELECT l.* FROM plan_lines l JOIN plans p ON p.id = l.plan_id"
-                               " WHERE l.short > 0 AND p.status = 'reserved' ORDER BY l.plan_id, l.line_no")
+                               " WHERE l.short > 0 AND p.status IN ('reserved', 'pulled')"
+                               " ORDER BY l.plan_id, l.line_no")
     for row in plan_rows:
         req = json.loads(row["requirement_json"] or "{}")
         refs = ",".join(json.loads(row["refs_json"] or "[]"))
         add(OrderLine(
             capacitance_pf=_dec(req.get("capacitance_pf")), tol_pct=_dec(req.get("tol_pct")),
-            voltage_v=_dec(req.get("working_v") or req.get("voltage_v")),
-            dielectric=str(req.get("dielectric_code") or req.get("family") or ""),
-            safety_class=str(req.get("safety_class") or ""), polarity="", quantity=0,
+            voltage_v=_dec(req.get("voltage_v") or req.get("working_v")),
+            voltage_kind=str(req.get("voltage_kind") or ""),
+            dielectric=str(req.get("dielectric") or req.get("dielectric_code") or req.get("family") or ""),
+            safety_class=str(req.get("safety_class") or ""),
+            polarity="polarised" if req.get("polarised") else "", quantity=0,
             requirement=str(req.get("describe") or req.get("text") or "")),
             int(row["short"]), f"plan {row['plan_id']} line {row['line_no']}" + (f" ({refs})" if refs else ""))
 
@@ -125,18 +130,21 @@ def purchasing_lines(store: Store, plan_ids: Sequence[int] = (), below_minimum: 
             tol = m.tolerance.as_percent(m.capacitance_pf) if m.tolerance else None
             add(OrderLine(
                 capacitance_pf=m.capacitance_pf, tol_pct=max(tol) if tol else None,
-                voltage_v=m.voltage_v, dielectric=m.dielectric.code if m.dielectric else "",
+                voltage_v=m.voltage_v, voltage_kind=m.voltage_kind or "",
+                dielectric=m.dielectric.code if m.dielectric else "",
                 safety_class=m.safety_class or "", polarity=m.polarity or "",
                 quantity=0, requirement=f"like bin {row['bin_key']}: {row['marking']}"),
                 int(row["minimum"]) - int(row["on_hand"] or 0),
-                f"bin {row['bin_key']} (holds {row['on_hand'] or 0}, minimum {row['minimum']})")
+                f"bin {row['bin_key']} (holds "
+                + ("an unknown count" if row["on_hand"] is None else str(row["on_hand"]))
+                + f", minimum {row['minimum']})")
     return list(lines.values())
 
 
 PURCHASING_COLUMNS = (
     Column("Value", 12), Column("Capacitance (pF)", 16, "0.###"), Column("Tolerance", 11),
-    Column("Voltage (V)", 11, "0.#"), Column("Dielectric", 14), Column("Safety class", 12),
-    Column("Polarity / mounting", 18), Column("Quantity", 10, "#,##0"),
+    Column("Voltage (V)", 11, "0.#"), Column("AC/DC", 7), Column("Dielectric", 14),
+    Column("Safety class", 12), Column("Polarity / mounting", 18), Column("Quantity", 10, "#,##0"),
     Column("Preferred value", 15), Column("Needed by", 40), Column("Requirement", 50),
 )
 
@@ -151,7 +159,7 @@ def _purchasing_row(line: OrderLine) -> list[Any]:
     return [
         _fmt_cap(float(line.capacitance_pf)) if line.capacitance_pf else "",
         float(line.capacitance_pf) if line.capacitance_pf else None,
-        tol, float(line.voltage_v) if line.voltage_v else None, line.dielectric,
+        tol, float(line.voltage_v) if line.voltage_v else None, line.voltage_kind, line.dielectric,
         line.safety_class, line.polarity, line.quantity,
         _fmt_cap(float(preferred)) if preferred else "", "; ".join(line.needed_by), line.requirement,
     ]
@@ -165,7 +173,7 @@ def export_purchasing(store: Store, out: Path, plan_ids: Sequence[int] = (),
     if kind == "csv":
         return write_csv(out, PURCHASING_COLUMNS, rows)
     wb = new_workbook()
-    add_table_sheet(wb, "To order", PURCHASING_COLUMNS, rows, totals={0: "Total", 7: "sum"})
+    add_table_sheet(wb, "To order", PURCHASING_COLUMNS, rows, totals={0: "Total", 8: "sum"})
     save_workbook(wb, out)
     return len(rows)
 

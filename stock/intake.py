@@ -1,7 +1,8 @@
 """Intake: turn the rows of a read sheet into stored bins, parts, ledger movements and flags.
 
-The readers in :mod:`importers` give raw rows; this module decodes each row's marking, checks it
-against any explicit value or label, and stores the result in one transaction per file. Every
+The readers in :mod:`importers` give raw rows; :mod:`stock.row_reading` says what each row means
+(its fields' text, its count, its decoded marking checked against any explicit value or label);
+this module stores the result in one transaction per file, batched (``executemany``). Every
 row read is accounted for exactly once: stored (perhaps with flags), unchanged (already stored
 that way), or quarantined with its reason. Nothing is dropped and nothing is silently changed.
 

@@ -368,9 +368,16 @@ def open_store(path: str | Path, *, create: bool = True) -> Store:
         conn.execute("PRAGMA synchronous = NORMAL")
         conn.execute("PRAGMA foreign_keys = ON")
         if migrations.pending(db):
+            # Applied under one write lock: a second process creating the same new file waits
+            # here, then finds nothing pending (each migration nests as a savepoint).
             conn.execute("BEGIN IMMEDIATE")
-            conn.execute("COMMIT")  # take and release the write lock: waits out another writer
-            migrations.apply(db)
+            try:
+                migrations.apply(db)
+                conn.execute("COMMIT")
+            except BaseException:
+                if conn.in_transaction:
+                    conn.execute("ROLLBACK")
+                raise
     except sqlite3.Error as exc:
         raise _friendly(name, exc) from exc
     return Store(db, name)

@@ -166,3 +166,36 @@ def test_readers_see_the_store_as_it_was_while_held_and_after_the_writer_is_kill
         assert check_store(store).ok
         with store.writing():          # and the lock is free again
             store.move(1, 1, "adjust", note="recount after the edit was abandoned")
+
+
+OPENER = r"""
+import sys, time
+from pathlib import Path
+while not Path(sys.argv[2]).exists():
+    time.sleep(0.001)
+from stock.errors import StockError
+from stock.store import open_store
+try:
+    open_store(sys.argv[1]).close()
+    print("ok")
+except StockError as exc:
+    print(exc)
+"""
+
+
+# Found by this suite: two processes creating the same new database at once both applied the
+# first migration ("table bins already exists"). Fixed in stock.store.open_store, which now
+# applies migrations under one write lock.
+@pytest.mark.parametrize("attempt", range(2))
+def test_four_processes_creating_one_new_database_at_once_all_open_it(tmp_path, attempt):
+    db, go = tmp_path / "new.db", tmp_path / "go"
+    children = [subprocess.Popen([sys.executable, "-c", OPENER, str(db), str(go)], text=True,
+                                 stdout=subprocess.PIPE, env=dict(os.environ, PYTHONPATH=str(ROOT)))
+                for _ in range(4)]
+    time.sleep(1.0)
+    go.write_text("go")
+    said = [child.communicate(timeout=60)[0].strip() for child in children]
+    assert said == ["ok"] * 4
+    with open_store(db) as store:
+        names = [r["name"] for r in store.rows("SELECT name FROM _sqlite_migrations")]
+        assert len(names) == len(set(names)) and check_store(store).ok

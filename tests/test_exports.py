@@ -68,14 +68,14 @@ def test_the_preferred_value_is_the_nearest_in_the_series_for_the_tolerance(pf, 
 
 
 def test_the_purchasing_list_carries_shortfalls_with_spare_and_a_totals_row(store, tmp_path):
-    short_plan(store, {"capacitance_pf": 140, "tol_pct": 10, "working_v": 50, "dielectric_code": "C0G",
-                       "describe": "140 pF ±10 %, C0G, ≥ 50 V"}, short=9)
+    short_plan(store, {"capacitance_pf": 140, "tol_pct": 10, "voltage_v": 50, "voltage_kind": "DC",
+                       "dielectric": "C0G", "describe": "140 pF ±10 %, C0G, ≥ 50 V"}, short=9)
     put_part(store, "cab/A2", Marking("103K X7R", Decimal(10000), Tolerance(Decimal(10), Decimal(10), "%"),
                                       dielectric=X7R), on_hand=2, minimum=5)
     out = tmp_path / "order.xlsx"
     assert export_purchasing(store, out, below_minimum=True) == 2
     ws = load_workbook(out)["To order"]
-    assert ws.freeze_panes == "A2" and ws.auto_filter.ref == "A1:K3"
+    assert ws.freeze_panes == "A2" and ws.auto_filter.ref == "A1:L3"
     rows = list(ws.iter_rows(values_only=True))
     assert rows[0][:3] == ("Value", "Capacitance (pF)", "Tolerance")
     first = dict(zip(rows[0], rows[1]))
@@ -85,8 +85,8 @@ def test_the_purchasing_list_carries_shortfalls_with_spare_and_a_totals_row(stor
     assert "plan 1 line 1 (C1,C2)" in first["Needed by"]
     second = dict(zip(rows[0], rows[2]))
     assert second["Quantity"] == 4           # minimum 5 − 2 on hand = 3, +10 % → 4
-    assert rows[3][0] == "Total" and rows[3][7] == "=SUM(H2:H3)"
-    assert ws["H2"].number_format == "#,##0"
+    assert rows[3][0] == "Total" and rows[3][8] == "=SUM(I2:I3)"
+    assert ws["I2"].number_format == "#,##0"
 
 
 def test_text_that_looks_like_a_formula_stays_text_in_xlsx_and_csv(store, tmp_path):
@@ -134,3 +134,15 @@ def test_inventory_lists_grades_flags_and_charts_each_dielectric(store, tmp_path
 def test_worst_case_change_follows_the_code(d, t, expected):
     got = worst_case_change_pct(d, t)
     assert got == (pytest.approx(expected) if expected is not None else None)
+
+
+def test_a_pulled_plan_still_needs_its_shortfall_ordered_and_a_dropped_one_does_not(store):
+    # common practice in purchasing, no published source
+    from stock.exports import purchasing_lines
+
+    pulled = short_plan(store, {"capacitance_pf": 1000, "describe": "1 nF"}, short=3)
+    dropped = short_plan(store, {"capacitance_pf": 2200, "describe": "2.2 nF"}, short=4)
+    store.db.conn.execute("UPDATE plans SET status = 'pulled' WHERE id = ?", (pulled,))
+    store.db.conn.execute("UPDATE plans SET status = 'dropped' WHERE id = ?", (dropped,))
+    lines = purchasing_lines(store)
+    assert [(line.requirement, line.quantity) for line in lines] == [("1 nF", 4)]

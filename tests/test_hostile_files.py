@@ -197,7 +197,9 @@ def test_a_workbook_with_one_cell_far_below_the_rest_stops_at_the_blank_run_and_
     assert result.exit_code == 0, result.output
     (sheet,) = json.loads(result.stdout)["files"]
     assert (sheet["rows"], sheet["stored"]) == (5, 5)
-    assert f"{EMPTY_RUN_LIMIT} blank rows in a row; rows below are not read" in result.stderr
+    stop = f"{EMPTY_RUN_LIMIT} blank rows in a row; rows below are not read"
+    assert stop in result.stderr                                  # told on the terminal
+    assert any(stop in note for note in sheet["notes"])           # and in the JSON report
 
 
 def test_a_far_cell_within_the_blank_run_is_read_with_its_own_row_number(tmp_path, db):
