@@ -25,6 +25,7 @@ import hashlib
 import json
 from collections.abc import Callable
 from dataclasses import dataclass
+from json.encoder import encode_basestring_ascii
 from pathlib import Path
 from typing import Any
 
@@ -152,6 +153,8 @@ class _SheetIntake:
         self._cabinet_keys: dict[str, str] = {}
         self._forms: dict[int, tuple[Marking, tuple[Any, ...], str]] = {}
         self._flag_forms: dict[str, tuple[Marking, tuple[tuple[str, str, str], ...], str]] = {}
+        self._ref = f"import:{import_id}"
+        self._where = json.dumps({"sheet": raw_sheet.sheet, "file": path.name})[1:-1]
 
     def _existing_for(self, cabinet_key: str) -> dict[str, _Existing]:
         """Every stored bin of one cabinet, read once (no per-row SELECT)."""
@@ -311,7 +314,7 @@ class _SheetIntake:
             if quantity is not None:
                 # A new bin's count arrives as one 'import' movement in the same transaction as
                 # the bin row, so on_hand equals the ledger sum from the start.
-                self._ledger.append((bin_id, quantity, f"import:{self.import_id}", self.stamp))
+                self._ledger.append((bin_id, quantity, self._ref, self.stamp))
             self.counts["new_bins"] += 1
             self.counts["stored"] += 1
             self.touched.append(bin_id)
@@ -327,8 +330,8 @@ class _SheetIntake:
                 self.touched.append(bin_id)
         if flags:
             self.counts["flagged"] += 1
-            details = json.dumps({"marking": text, "row": number, "sheet": self.sheet.sheet,
-                                  "file": self.path.name}, default=str)
+            # what Store.raise_flag writes: json.dumps(details) of marking, row, sheet and file
+            details = f'{{"marking": {encode_basestring_ascii(text)}, "row": {number}, {self._where}}}'
             for kind, message, fp in flags:
                 self._flags.append((bin_id, source_id, kind, message, details, fp, self.stamp))
         self._sources.append((source_id, self.import_id, self.sheet.sheet, number,

@@ -479,7 +479,8 @@ def plan_kit(store: Store, bom: Bom | str | Path, options: KitOptions, *,
 
 def _plan_row(store: Store, plan: int | str) -> dict[str, Any]:
     text = str(plan).strip().removeprefix("plan:").removeprefix("#")
-    row = store.one("SELECT * FROM plans WHERE id = ?", (int(text),)) if text.isdigit() else None
+    plain = text.isascii() and text.isdigit() and len(text) < 19   # "²" passes isdigit(); int64 ids
+    row = store.one("SELECT * FROM plans WHERE id = ?", (int(text),)) if plain else None
     if row is None:
         raise NotFound("plan", str(plan), "a plan number shown by `stock kit plan`")
     return row

@@ -331,7 +331,7 @@ def natural_key(text: str | None) -> tuple[Any, ...]:
         return (1,)
     parts: list[tuple[int, Any]] = []
     for chunk in re.split(r"(\d+)", str(text).strip().lower()):
-        if chunk.isdigit():
+        if chunk.isdecimal():            # isdigit() would pass "²", which int() refuses
             parts.append((0, int(chunk)))
         elif chunk:
             parts.append((1, chunk))

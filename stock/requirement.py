@@ -80,7 +80,10 @@ def fmt(value: Decimal, places: int = 2) -> str:
     >>> fmt(Decimal("1E+2")), fmt(Decimal("-300.0")), fmt(Decimal("-0.001"))
     ('100', '−300', '0')
     """
-    q = value.quantize(Decimal(1).scaleb(-places)).normalize()
+    try:
+        q = value.quantize(Decimal(1).scaleb(-places)).normalize()
+    except InvalidOperation:        # too many digits to quantize (1e300 V): show it as it is
+        q = value.normalize()
     if q.is_zero():
         return "0"
     return format(q, "f").replace("-", "−")
@@ -154,6 +157,9 @@ def safety_covers(part_classes: frozenset[str], needed: str) -> bool:
     return any(needed in SAFETY_SUBSTITUTES.get(c, frozenset()) for c in part_classes)
 
 
+MAX_WORKING_V = Decimal(1_000_000)   # past 1 MV a working voltage is a typing slip (common practice)
+
+
 @dataclass(frozen=True)
 class Requirement:
     """What a position in a circuit needs (see the module docstring for what each field demands)."""
@@ -177,8 +183,10 @@ class Requirement:
             raise BadValue("--value", str(self.capacitance_pf), "a capacitance above zero")
         if self.tol_pct is not None and not Decimal(0) < self.tol_pct < _HUNDRED:
             raise BadValue("--tol", str(self.tol_pct), "a tolerance between 0 and 100 %")
-        if self.qty < 1:
+        if not 1 <= self.qty <= 2**53:   # past 2**53 a count is a typing slip (and overflows SQLite)
             raise BadValue("--qty", str(self.qty), "a quantity of 1 or more")
+        if self.working_v is not None and not abs(self.working_v) <= MAX_WORKING_V:
+            raise BadValue("--volts", str(self.working_v), f"a working voltage up to {MAX_WORKING_V:,} V")
         if self.application is not None and self.application not in APPLICATIONS:
             raise BadValue("--use", self.application, "one of " + ", ".join(APPLICATIONS))
         if self.family is not None and self.family not in FAMILIES:

@@ -180,8 +180,7 @@ def fill_store(store: Any, n: int, seed: int = 5, *, distinct: int = 300,
     columns made by the importer's own column function), with its capacitance moved to a log-uniform
     value so a value window returns rows in proportion to its width.
     """
-    from stock.intake import decode_cached
-    from stock.row_reading import part_columns
+    from stock.row_reading import PART_COLUMNS, decode_cached, part_columns
 
     rng = random.Random(seed)
     forms = []
@@ -193,8 +192,8 @@ def fill_store(store: Any, n: int, seed: int = 5, *, distinct: int = 300,
     stamp = "2026-12-01T00:00:00+00:00"
     conn = store.db.conn
     values = log_uniform_values(n, seed, lo_pf, hi_pf)
-    placeholders = ", ".join("?" * 24)
-    insert_part = (f"INSERT INTO parts (bin_id, marking, {', '.join(_COLUMNS)}, package, mounting,"
+    placeholders = ", ".join("?" * (len(PART_COLUMNS) + 5))
+    insert_part = (f"INSERT INTO parts (bin_id, marking, {', '.join(PART_COLUMNS)}, package, mounting,"
                    f" decoded_json) VALUES ({placeholders})")
     with store.writing():
         batch_bins: list[tuple] = []
@@ -214,8 +213,3 @@ def fill_store(store: Any, n: int, seed: int = 5, *, distinct: int = 300,
         conn.executemany(insert_part, batch_parts)
     conn.execute("ANALYZE")
 
-
-_COLUMNS = ("capacitance_pf", "tol_minus", "tol_plus", "tol_unit", "tol_code", "voltage_v",
-            "voltage_kind", "dielectric_code", "family", "class", "tempco_ppm_per_k",
-            "tempco_tol_ppm_per_k", "temp_min_c", "temp_max_c", "change_minus_pct",
-            "change_plus_pct", "safety_class", "polarity", "rated_temp_c")
