@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import json
 from decimal import Decimal
+from functools import lru_cache
 from typing import Any
 
 from stock.decoded import Marking
@@ -29,12 +30,26 @@ def part_marking(row: dict[str, Any]) -> Marking:
     """
     settled = row.get("settled_json")
     if settled:
-        data = json.loads(settled)
-        if isinstance(data, dict) and isinstance(data.get("marking"), dict):
-            data = data["marking"]
-        if isinstance(data, dict) and "text" in data:
-            return Marking.from_json(data)
-    return Marking.from_json(json.loads(row["decoded_json"]))
+        found = _settled_marking(settled)
+        if found is not None:
+            return found
+    return _marking_from_text(row["decoded_json"])
+
+
+@lru_cache(maxsize=16384)
+def _marking_from_text(text: str) -> Marking:
+    """Markings repeat across bins: parse each stored JSON text once (Markings are frozen)."""
+    return Marking.from_json(json.loads(text))
+
+
+@lru_cache(maxsize=4096)
+def _settled_marking(text: str) -> Marking | None:
+    data = json.loads(text)
+    if isinstance(data, dict) and isinstance(data.get("marking"), dict):
+        data = data["marking"]
+    if isinstance(data, dict) and "text" in data:
+        return Marking.from_json(data)
+    return None
 
 
 def _fmt_cap(pf: float | None) -> str | None:

@@ -19,6 +19,7 @@ from decimal import Decimal
 from pathlib import Path
 from typing import Any
 
+from stock.bins import part_marking
 from stock.decoded import Dielectric, Marking
 from stock.preferred_values import in_series, nearest
 from stock.spreadsheet import (Column, add_table_sheet, new_workbook, output_kind, save_workbook,
@@ -27,10 +28,6 @@ from stock.store import Store
 
 APPLICATION_COLUMNS = ("tuned", "timing", "signal", "bypass", "bulk", "mains")
 DRIFT_TEMPERATURES = tuple(range(-55, 155, 5))     # °C, the widest EIA-198 Class 2 span
-
-
-def _marking(row: dict[str, Any]) -> Marking:
-    return Marking.from_json(json.loads(row.get("settled_json") or row["decoded_json"]))
 
 
 def _fmt_cap(pf: float | None) -> str:
@@ -126,7 +123,7 @@ def purchasing_lines(store: Store, plan_ids: Sequence[int] = (), below_minimum: 
         for row in store.rows(
                 "SELECT b.bin_key, b.on_hand, b.minimum, p.* FROM bins b JOIN parts p ON p.bin_id = b.id"
                 " WHERE b.minimum IS NOT NULL AND COALESCE(b.on_hand, 0) < b.minimum ORDER BY b.bin_key"):
-            m = _marking(row)
+            m = part_marking(row)
             tol = m.tolerance.as_percent(m.capacitance_pf) if m.tolerance else None
             add(OrderLine(
                 capacitance_pf=m.capacitance_pf, tol_pct=max(tol) if tol else None,
@@ -193,7 +190,7 @@ def inventory_rows(store: Store) -> list[list[Any]]:
     out = []
     for row in store.rows("SELECT b.id AS bid, b.bin_key, b.location, b.cabinet, b.label, b.on_hand,"
                           " p.* FROM bins b JOIN parts p ON p.bin_id = b.id ORDER BY b.bin_key"):
-        m = _marking(row)
+        m = part_marking(row)
         d = m.dielectric
         on_hand = row["on_hand"]
         out.append([
@@ -228,7 +225,7 @@ def worst_case_change_pct(d: Dielectric, temp_c: int) -> float | None:
     Linear tempcos give (|α| + tolerance) × |T − 25 °C|; change windows give their lower limit
     inside the rated range and nothing outside it (the code promises nothing there).
 
-    >>> from stock.decoded import Dielectric
+    >>> from stock.decoded import Dielectric, Marking
     >>> worst_case_change_pct(Dielectric("C0G", "ceramic", 1, Decimal(0), Decimal(30)), 125)
     -0.3
     >>> worst_case_change_pct(Dielectric("X7R", "ceramic", 2, None, None, Decimal(-55), Decimal(125),
@@ -248,7 +245,7 @@ def worst_case_change_pct(d: Dielectric, temp_c: int) -> float | None:
 def _dielectrics_on_hand(store: Store) -> list[Dielectric]:
     seen: dict[str, Dielectric] = {}
     for row in store.rows("SELECT decoded_json, settled_json FROM parts WHERE dielectric_code IS NOT NULL"):
-        d = _marking(row).dielectric
+        d = part_marking(row).dielectric
         if d and d.code not in seen and (d.tempco_ppm_per_k is not None or d.change_minus_pct is not None):
             seen[d.code] = d
     return sorted(seen.values(), key=lambda d: (d.klass or 9, d.code))
