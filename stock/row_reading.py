@@ -176,6 +176,36 @@ _VALUE_TOKEN = re.compile(r"\d[\d.,]*\s*(?:[pnuµμ]\s*F?|F)\b|\d+[pnuµμR]\d+"
 
 
 @lru_cache(maxsize=4096)
+def agreed_by_claim(marking: Marking, where: str, raw: str) -> Marking:
+    """Drop the value doubts that a label or value column agreeing with the reading settles.
+
+    A ``100`` code (10 pF, or 100 pF printed literally) in a drawer labelled ``10p`` is no longer
+    in doubt about its value: the ``ambiguous-code`` and ``unit-assumed`` flags that name one of
+    the other values go. The alternatives stay, with the agreement noted, so nothing is hidden;
+    doubts about anything else (a voltage, a dielectric) are kept.
+
+    >>> from stock.markings import decode
+    >>> m = agreed_by_claim(decode("100"), "the label", "10p")
+    >>> m.flag_kinds(), m.alternatives[-1].reason
+    (set(), 'the label says 10p, agreeing with the reading chosen')
+    """
+    from stock.units import format_capacitance
+
+    nominal = marking.capacitance_pf
+    others = {format_capacitance(a.capacitance_pf) for a in marking.alternatives
+              if a.capacitance_pf is not None and nominal is not None
+              and not same_value(a.capacitance_pf, nominal)}
+    if not others:
+        return marking
+    kept = tuple(f for f in marking.flags
+                 if f.kind not in ("ambiguous-code", "unit-assumed")
+                 or not any(o in f.message for o in others))
+    if len(kept) == len(marking.flags):
+        return marking
+    note = Alternative(reason=f"{where} says {raw}, agreeing with the reading chosen", capacitance_pf=nominal)
+    return replace(marking, flags=kept, alternatives=marking.alternatives + (note,))
+
+
 def label_value(label: str) -> tuple[str, Decimal] | None:
     """A capacitance written in a bin label ("10nF", "Box 4n7 C0G"), if it states one.
 
@@ -334,6 +364,7 @@ class RowReader:
                 claims.append(("the label", said[0], said[1]))
         for where, raw, other in claims:
             if same_value(other, nominal):
+                marking = agreed_by_claim(marking, where, raw)
                 continue
             from stock.units import format_capacitance
             message = (f"{where} says {format_capacitance(other)} ({raw!r}), the marking {text!r}"

@@ -434,3 +434,16 @@ def test_a_row_with_several_problems_is_quarantined_with_all_of_them(store, tmp_
     assert reasons == [
         {"kind": "bad-quantity", "message": "quantity 'lots' is not a number"},
         {"kind": "no-capacitance", "message": "no capacitance could be read: the row has no marking or value"}]
+
+
+# IEC 60062: "100" is the code for 10 pF, or 100 pF printed literally; a label settles which.
+@pytest.mark.parametrize("label, flags, pf", [
+    pytest.param("10p", set(), 10.0, id="label-10p-settles-the-code-reading"),
+    pytest.param("100p", {"ambiguous-code", "label-conflict"}, 10.0, id="label-100p-is-a-conflict-to-measure"),
+    pytest.param("", {"ambiguous-code"}, 10.0, id="no-label-keeps-the-doubt"),
+])
+def test_a_label_that_agrees_with_the_reading_settles_a_value_doubt(store, tmp_path, label, flags, pf):
+    path = write_csv(tmp_path / "cab.csv", [["A3", label, "100", "5"]])
+    import_file(store, path)
+    assert {r["kind"] for r in store.rows("SELECT kind FROM flags")} == flags
+    assert store.one("SELECT capacitance_pf FROM parts")["capacitance_pf"] == pf
