@@ -360,7 +360,7 @@ def map_headers(headers: Iterable[str], vocabulary: Vocabulary = "bins",
         i = _find_header(headers, str(header), field_name)
         if i in taken:
             raise BadValue("--map", f"{field_name}={header}",
-                           f"a header not already given to another field by --map")
+                           "a header not already given to another field by --map")
         field_to_index[field_name], scores[field_name], how[field_name] = i, 100.0, "--map"
         unit = split_unit(headers[i])[1]
         if unit:

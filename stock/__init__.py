@@ -19,7 +19,8 @@ Storing
     flags), ``bins`` (queries), ``check`` (verify a database).
 Physics
     ``stability`` (dielectric figures), ``applications`` (the application table),
-    ``grading`` (worst-case budget and grades), ``drift`` (tank and timer drift),
+    ``grading`` (worst-case budget and grades), ``bin_grades`` (grades over the store),
+    ``drift`` (tank and timer drift),
     ``combining`` (series and parallel pairs).
 The jobs
     ``requirement`` + ``search`` (find), ``bom`` + ``kit`` + ``kit_rules`` + ``pick_list``

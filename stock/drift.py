@@ -306,7 +306,7 @@ def resolve_part(db_path: str | Path | None, text: str) -> Marking:
         BadValue: neither a bin nor a marking the decoder understands.
     """
     if db_path is not None and Path(db_path).is_file():
-        from stock.grading import bin_marking
+        from stock.bin_grades import bin_marking
         from stock.store import open_store
 
         with open_store(db_path, create=False) as store:

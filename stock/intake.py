@@ -500,7 +500,7 @@ def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
                                            notes=_sheet_notes(raw_sheet),
                                            import_id=None if dry_run else cur.lastrowid, **c))
             if touched and not dry_run:
-                from stock.grading import refresh_stored_grades
+                from stock.bin_grades import refresh_stored_grades
                 refresh_stored_grades(store, touched)
             if dry_run:
                 raise _DryRun

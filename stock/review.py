@@ -418,7 +418,7 @@ def close_flags(store: Store, flag_ids: Iterable[int], decision: dict[str, Any])
 
 
 def _refresh_grades(store: Store, bin_ids: list[int]) -> None:
-    from stock.grading import refresh_stored_grades
+    from stock.bin_grades import refresh_stored_grades
 
     refresh_stored_grades(store, bin_ids)
 

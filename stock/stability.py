@@ -27,6 +27,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass, replace
 from decimal import Decimal
+from typing import Any
 
 from stock.decoded import Dielectric
 from stock.units import format_number, format_temperature_range

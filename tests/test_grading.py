@@ -17,9 +17,9 @@ from hypothesis import strategies as st
 
 from stock.decoded import FAMILIES, Dielectric, Marking, Tolerance
 from stock.errors import BadValue
+from stock.bin_grades import grade_bins, refresh_stored_grades
 from stock.grading import (
-    APPLICATIONS, MAINS_CAUTION, Conditions, conditions_from_text, grade, grade_all, grade_bins,
-    refresh_stored_grades, worst_case,
+    APPLICATIONS, MAINS_CAUTION, Conditions, conditions_from_text, grade, grade_all, worst_case,
 )
 from stock.store import now
 

@@ -269,7 +269,8 @@ def test_the_settled_reading_is_what_part_marking_returns(store):
 
 
 def test_settling_refreshes_the_stored_grades(store):
-    from stock.grading import grade_all, refresh_stored_grades
+    from stock.bin_grades import refresh_stored_grades
+    from stock.grading import grade_all
 
     m = Marking("100J X7R", Decimal(100), Tolerance(Decimal(5), Decimal(5), "%", "J"), dielectric=X7R,
                 flags=(Flag("disputed-code", "x"),),

@@ -17,8 +17,7 @@ from hypothesis import strategies as st
 from stock.decoded import Dielectric, Marking, Tolerance
 from stock.errors import BadValue
 from stock.grading import Conditions, grade
-from stock.search import (Combination, Requirement, build_requirement, candidates, find,
-                          parse_tempco_window)
+from stock.search import Requirement, build_requirement, find, parse_tempco_window
 from stock.store import Store, open_store
 
 D = Decimal

@@ -12,9 +12,8 @@ from stock.decoded import Marking
 from stock.drift import (
     TankDrift, TimerDrift, circuit_drift, format_frequency, parse_frequency, parse_inductance, parse_kelvin, parse_period,
 )
-from stock.grading import (
-    APPLICATIONS, MAINS_CAUTION, REFERENCE_C, BinGrades, Budget, conditions_from_text, grade_bins, pm,
-)
+from stock.bin_grades import BinGrades, grade_bins
+from stock.grading import APPLICATIONS, MAINS_CAUTION, REFERENCE_C, Budget, conditions_from_text, pm
 from stock.applications import load_rules
 from stock.store import open_store
 from stock.units import format_capacitance, format_number, format_tolerance, format_voltage
