@@ -9,6 +9,7 @@ the reading a person confirmed.
 from __future__ import annotations
 
 import json
+import re
 from decimal import Decimal
 from functools import lru_cache
 from typing import Any
@@ -50,6 +51,23 @@ def _settled_marking(text: str) -> Marking | None:
     if isinstance(data, dict) and "text" in data:
         return Marking.from_json(data)
     return None
+
+
+def natural_key(text: str | None) -> tuple[Any, ...]:
+    """A sort key that orders the digits inside a name as numbers; missing names sort last.
+
+    >>> sorted(["A10", "B1", "A2", "a3", None], key=natural_key)
+    ['A2', 'a3', 'A10', 'B1', None]
+    """
+    if text is None or not str(text).strip():
+        return (1,)
+    parts: list[tuple[int, Any]] = []
+    for chunk in re.split(r"(\d+)", str(text).strip().lower()):
+        if chunk.isdecimal():            # isdigit() would pass "²", which int() refuses
+            parts.append((0, int(chunk)))
+        elif chunk:
+            parts.append((1, chunk))
+    return (0, tuple(parts))
 
 
 def _fmt_cap(pf: float | None) -> str | None:
@@ -191,4 +209,4 @@ def quarantined_rows(store: Store) -> list[dict[str, Any]]:
     return out
 
 
-__all__ = ["bin_detail", "list_bins", "part_marking", "quarantined_rows"]
+__all__ = ["bin_detail", "list_bins", "natural_key", "part_marking", "quarantined_rows"]

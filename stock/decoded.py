@@ -159,6 +159,7 @@ class Alternative:
         return {
             "capacitance_pf": _num(self.capacitance_pf),
             "tolerance": self.tolerance.to_json() if self.tolerance else None,
+            "tolerance_code": self.tolerance.code if self.tolerance else None,
             "voltage_v": _num(self.voltage_v),
             "dielectric": self.dielectric.to_json() if self.dielectric else None,
             "reason": self.reason,
@@ -168,7 +169,7 @@ class Alternative:
     def from_json(cls, data: dict[str, Any]) -> Alternative:
         return cls(
             reason=data["reason"], capacitance_pf=_dec(data.get("capacitance_pf")),
-            tolerance=Tolerance.from_json(data.get("tolerance")),
+            tolerance=Tolerance.from_json(data.get("tolerance"), code=data.get("tolerance_code")),
             voltage_v=_dec(data.get("voltage_v")),
             dielectric=Dielectric.from_json(data.get("dielectric")),
         )

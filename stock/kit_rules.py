@@ -23,12 +23,12 @@ bins, part-full bins used up.
 
 from __future__ import annotations
 
-import re
 from collections import defaultdict
 from dataclasses import dataclass
 from decimal import Decimal
 from typing import Any
 
+from stock.bins import natural_key
 from stock.bom import POLARISED_FAMILIES, BomLine
 from stock.decoded import Marking
 
@@ -319,23 +319,6 @@ def choose_bins(need: int, candidates: list[Candidate]) -> list[tuple[Candidate,
         if left == 0:
             break
     return chosen
-
-
-def natural_key(text: str | None) -> tuple[Any, ...]:
-    """A sort key that orders the digits inside a name as numbers; missing names sort last.
-
-    >>> sorted(["A10", "B1", "A2", "a3", None], key=natural_key)
-    ['A2', 'a3', 'A10', 'B1', None]
-    """
-    if text is None or not str(text).strip():
-        return (1,)
-    parts: list[tuple[int, Any]] = []
-    for chunk in re.split(r"(\d+)", str(text).strip().lower()):
-        if chunk.isdecimal():            # isdigit() would pass "²", which int() refuses
-            parts.append((0, int(chunk)))
-        elif chunk:
-            parts.append((1, chunk))
-    return (0, tuple(parts))
 
 
 # Which lead the band or sign marks, by family (from memory of maker datasheets; always check the

@@ -9,11 +9,12 @@ number, a bin the store does not know) refuses the whole sheet with its row and 
 
 from __future__ import annotations
 
-import re
+from decimal import Decimal
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
+from stock.bins import natural_key
 from stock.errors import BadSheet
 from stock.spreadsheet import Column, new_workbook, save_workbook, sheet_cell
 from stock.store import Store
@@ -27,21 +28,11 @@ COUNT_COLUMNS = (
 _COUNTED = 6
 
 
-def natural_key(text: str | None) -> tuple:
-    """Sort key that puts A2 before A10 and 9 before 10.
-
-    >>> sorted(["A10", "A2", "B1", "a3"], key=natural_key)
-    ['A2', 'a3', 'A10', 'B1']
-    """
-    parts = re.split(r"(\d+)", (text or "").casefold())
-    return tuple((0, int(p)) if p.isdecimal() else (1, p) for p in parts if p != "")  # isdigit() passes "²"
-
-
 def export_count_sheet(store: Store, out: Path) -> int:
     """Write the stock-take sheet for every bin, in natural location order; returns its rows."""
     from openpyxl.worksheet.datavalidation import DataValidation
 
-    from stock.exports import _fmt_cap
+    from stock.units import format_capacitance
 
     bins = store.rows("SELECT b.bin_key, b.location, b.label, b.on_hand, p.marking, p.capacitance_pf"
                       " FROM bins b LEFT JOIN parts p ON p.bin_id = b.id")
@@ -63,7 +54,8 @@ def export_count_sheet(store: Store, out: Path) -> int:
     ws.append([sheet_cell(ws, c.header, bold=True) for c in COUNT_COLUMNS])
     for r in bins:
         ws.append([sheet_cell(ws, r["bin_key"]), sheet_cell(ws, r["location"]), sheet_cell(ws, r["label"]),
-                   sheet_cell(ws, r["marking"]), sheet_cell(ws, _fmt_cap(r["capacitance_pf"])),
+                   sheet_cell(ws, r["marking"]), sheet_cell(ws, format_capacitance(Decimal(str(r["capacitance_pf"])))
+                              if r["capacitance_pf"] is not None else ""),
                    r["on_hand"], None, None])
     about = wb.create_sheet("About")
     about.sheet_state = "hidden"

@@ -174,7 +174,7 @@ def _friendly(path: str, exc: sqlite3.Error) -> StoreProblem:
                             "nothing of this change was written; free space and run it again")
     if "not a database" in text or "malformed" in text:
         return StoreProblem(path, "this file is not a stock database (or it is damaged)",
-                            "run `stock check` on it, or give another --db")
+                            "give the path of a stock database with --db, or a new file name to start one")
     return StoreProblem(path, f"database error: {exc}")
 
 

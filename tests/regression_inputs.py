@@ -113,8 +113,8 @@ CLI_ARGS: tuple[tuple[str, ...], ...] = (
 )
 
 # Bin locations that sorting must survive (count sheet, pick list: "A2 before A10"). Found:
-# ValueError from int("²") in stock.stocktake.natural_key (fixed: isdecimal) and in
-# stock.kit_rules.natural_key.
+# ValueError from int("²") in natural_key (fixed: isdecimal), once in stock.stocktake and
+# stock.kit_rules, now one function in stock.bins.
 LOCATIONS: tuple[str, ...] = ("²", "A²", "①", "٣", "A٣", "A10", "A2", "", "  ")
 
 __all__ = ["BOM_SHEETS", "CLI_ARGS", "LOCATIONS", "COUNT_CELLS", "CSV_SHEETS", "DECODER_TEXTS"]
