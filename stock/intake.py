@@ -501,7 +501,9 @@ def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
                                            import_id=None if dry_run else cur.lastrowid, **c))
             if touched and not dry_run:
                 from stock.bin_grades import refresh_stored_grades
+                from stock.stock_checks import raise_stock_flags
                 refresh_stored_grades(store, touched)
+                raise_stock_flags(store)   # below minimum, shelf life: known as soon as imported
             if dry_run:
                 raise _DryRun
     except _DryRun:

@@ -277,6 +277,20 @@ def _marking_of(store: Store, bin_id: int) -> tuple[Marking, str, dict[str, Any]
     return part_marking(row), row["marking"], row
 
 
+# Open flags that question what a bin holds or its condition; such bins are used last.
+DOUBT_KINDS = ("shelf-life", "label-conflict", "ambiguous-code", "disputed-code", "both-ends",
+               "layout-ambiguous", "conflicting-readings", "unreadable", "duplicate")
+
+
+def _doubts(store: Store) -> dict[int, tuple[str, ...]]:
+    found: dict[int, list[str]] = {}
+    marks = ",".join("?" * len(DOUBT_KINDS))
+    for row in store.rows(f"SELECT DISTINCT bin_id, kind FROM flags WHERE status = 'open'"
+                          f" AND bin_id IS NOT NULL AND kind IN ({marks}) ORDER BY kind", DOUBT_KINDS):
+        found.setdefault(row["bin_id"], []).append(row["kind"])
+    return {k: tuple(v) for k, v in found.items()}
+
+
 def _hold(store: Store, plan_id: int, line_id: int, bin_id: int, qty: int) -> None:
     store.db.conn.execute("INSERT INTO reservations (plan_id, line_id, bin_id, qty) VALUES (?,?,?,?)",
                           (plan_id, line_id, bin_id, qty))
@@ -290,6 +304,7 @@ def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
     req = _search_requirement(line, options)
     refused: list[str] = []
     pool: list[Candidate] = []
+    doubts = _doubts(store)
     for match in candidates(store, req):
         marking = match.decoded if match.decoded is not None else _marking_of(store, match.bin_id)[0]
         verdict = check_part(line, marking, match.capacitance_pf, options.allow)
@@ -301,10 +316,14 @@ def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
             continue
         pool.append(Candidate(match.bin_id, match.bin_key, match.location, marking,
                               match.capacitance_pf, free, match.grade, tuple(match.reasons),
-                              exact=match.capacitance_pf == line.capacitance_pf))
+                              exact=match.capacitance_pf == line.capacitance_pf,
+                              doubts=doubts.get(match.bin_id, ())))
     taken: dict[int, int] = {}
     for cand, qty in choose_bins(need, pool):
         taken[cand.bin_id] = qty
+        if cand.doubts:
+            notes.append(f"{cand.bin_key}: used although it has open flags ({', '.join(cand.doubts)});"
+                         " see `stock flags`")
         verdict = check_part(line, cand.marking, cand.capacitance_pf, options.allow)
         notes.extend(f"{cand.bin_key}: {note}" for note in verdict.notes)
         if cand.grade == "marginal":

@@ -51,11 +51,13 @@ class Candidate:
     grade: str | None = None
     grade_reasons: tuple[str, ...] = ()
     exact: bool = True
+    doubts: tuple[str, ...] = ()    # open flags that question the part (shelf life, a conflict …)
 
     @property
-    def tier(self) -> tuple[int, int]:
-        """Fit before marginal, then the exact value before a near one (lower sorts first)."""
-        return GRADE_RANK.get(self.grade or "fit", 1), 0 if self.exact else 1
+    def tier(self) -> tuple[int, int, int]:
+        """Fit before marginal, the exact value before a near one, undoubted bins before bins with
+        open doubts (lower sorts first)."""
+        return GRADE_RANK.get(self.grade or "fit", 1), 0 if self.exact else 1, 1 if self.doubts else 0
 
 
 @dataclass(frozen=True)
@@ -279,7 +281,8 @@ def _value_rule(line: BomLine, marking: Marking, capacitance_pf: Decimal | None,
 def choose_bins(need: int, candidates: list[Candidate]) -> list[tuple[Candidate, int]]:
     """Bins and quantities for ``need`` parts, never more than a bin has free.
 
-    Tiers (grade, then exact value) are used in order; inside a tier the largest bins are taken
+    Tiers (grade, then exact value, then bins without open doubts) are used in order; inside a
+    tier the largest bins are taken
     until one bin covers the rest, then the smallest bin that does (fewest bins, part-full bins
     used up); between equal bins the first in natural location order goes first.
 
@@ -294,8 +297,8 @@ def choose_bins(need: int, candidates: list[Candidate]) -> list[tuple[Candidate,
     """
     chosen: list[tuple[Candidate, int]] = []
     left = need
-    tiers: dict[tuple[int, int], list[Candidate]] = defaultdict(list)
-    order: list[tuple[int, int]] = []
+    tiers: dict[tuple[int, int, int], list[Candidate]] = defaultdict(list)
+    order: list[tuple[int, int, int]] = []
     for cand in candidates:
         key = cand.tier
         if key not in tiers:

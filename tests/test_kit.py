@@ -259,6 +259,18 @@ def test_a_plan_prefers_fit_and_exact_and_uses_up_a_part_full_bin(store):
     assert [(a.bin_key, a.qty) for a in kit.lines[0].allocations] == [("cab/A2", 6)]
 
 
+def test_a_bin_with_an_open_doubt_is_used_only_after_the_undoubted_ones(store):
+    # common practice, no published source: an electrolytic past its shelf life waits its turn
+    old = add_bin(store, "cab/A1", "A1", part("104K", 100000, tol="10"), 10)
+    add_bin(store, "cab/A2", "A2", part("104K", 100000, tol="10"), 50)
+    store.raise_flag(kind="shelf-life", message="old", fingerprint="cab/a1|shelf-life|1996", bin_id=old)
+    kit = plan_kit(store, bom(line("C1", 1, tol_pct=10)), KitOptions(boards=5))
+    assert [(a.bin_key, a.qty) for a in kit.lines[0].allocations] == [("cab/A2", 5)]
+    kit = plan_kit(store, bom(line("C1", 1, tol_pct=10)), KitOptions(boards=50))
+    assert [(a.bin_key, a.qty) for a in kit.lines[0].allocations] == [("cab/A2", 45), ("cab/A1", 5)]
+    assert any("open flags (shelf-life)" in n for n in kit.lines[0].notes)
+
+
 def test_a_line_split_over_bins_never_takes_more_than_is_free(store):
     add_bin(store, "cab/A1", "A1", part("104K", 100000, tol="10"), 4)
     add_bin(store, "cab/A2", "A2", part("104K", 100000, tol="10"), 5)
