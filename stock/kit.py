@@ -457,6 +457,7 @@ def _plan_line(store: Store, plan_id: int, line_no: int, line: BomLine,
     short = need - filled
     if short:
         notes.append(f"short {short}: order {describe_line(line, options, short)}")
+    notes = list(dict.fromkeys(notes))      # the same substitution named once per line
     conn.execute("UPDATE plan_lines SET short = ?, notes_json = ? WHERE id = ?",
                  (short, json.dumps(notes), line_id))
 
