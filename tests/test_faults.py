@@ -1,6 +1,6 @@
 """Faults a shop meets: a read-only database, a full disk. A clear message, an intact database.
 
-Sources: SQLite result codes SQLITE_READONLY and SQLITE_FULL, and PRAGMA query_only and
+Source: SQLite result codes SQLITE_READONLY and SQLITE_FULL, and PRAGMA query_only and
 max_page_count as documented on sqlite.org (used to simulate the faults without root tricks).
 """
 

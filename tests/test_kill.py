@@ -6,7 +6,7 @@ SQLite's integrity check passes. Through ``stock import``, a read-only database 
 give one clear line and exit 1, and the database is as it was. (The library-level read-only and
 full-disk cases are in tests/test_faults.py; the killed import is in tests/test_import_crash.py.)
 
-Sources: SQLite documentation (sqlite.org): "Atomic Commit In SQLite" and "Write-Ahead Logging"
+Source: SQLite documentation (sqlite.org): "Atomic Commit In SQLite" and "Write-Ahead Logging"
 (an uncommitted transaction is rolled back when the next connection opens the database),
 ``PRAGMA integrity_check``, ``PRAGMA max_page_count`` (simulates a full disk), the SQLITE_READONLY
 result and URI ``mode=ro``. SIGKILL cannot be caught (POSIX signal(7)), so no cleanup code runs.

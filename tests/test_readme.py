@@ -1,7 +1,7 @@
 """The README's tour is real output: every ```console block is run and compared line by line.
 
 Regenerate the blocks after a change in output with ``python -m tests.test_readme --write``.
-Sources: the demo shop in demo_inventory/ (invented for the demo); the application table and
+Source: the demo shop in demo_inventory/ (invented for the demo); the application table and
 derating rules checked here against stock/applications.py and stock/stability.py (common
 practice of the trade, no published source, as the README says).
 """
