@@ -243,6 +243,8 @@ def _settle_value(facts: _Facts, family: str | None) -> tuple[Decimal | None, st
                 facts.values.append((token, value))
                 facts.alternatives.append(Alternative(reason=f"{token}: voltage code {format_voltage(volts, 'DC')}",
                                                       voltage_v=volts))
+                if value.chosen.form == "with-unit":
+                    continue    # "1F 5.5V": a value with its unit beside a printed voltage is no code
                 facts.flags.append(Flag("ambiguous-code", f"{token}: read as a value, since the voltage is "
                                                           f"printed in full; as a voltage code it is "
                                                           f"{format_voltage(volts, None)}"))

@@ -230,3 +230,11 @@ def test_decode_never_raises_on_any_mix_of_real_tokens(tokens):
 def test_json_round_trip_keeps_every_field():
     m = decode("104K 2A X7R")
     assert Marking.from_json(m.to_json()) == m
+
+
+def test_a_value_with_its_unit_beside_a_printed_voltage_is_not_doubted_as_a_voltage_code():
+    # EIA voltage code: 1F would be 31.5 V; with 5.5 V printed and F the farad unit, it is 1 F
+    m = decode("1F 5.5V double layer")
+    assert m.capacitance_pf == Decimal(10) ** 12 and m.voltage_v == Decimal("5.5")
+    assert "ambiguous-code" not in m.flag_kinds()
+    assert any(a.voltage_v == Decimal("31.5") for a in m.alternatives)
