@@ -279,7 +279,10 @@ def _add_drift_chart(wb: Any, dielectrics: Sequence[Dielectric]) -> None:
 
 def export_inventory(store: Store, out: Path) -> int:
     """Write the inventory (XLSX with a drift chart sheet, or CSV); returns the number of bins."""
+    from stock.bin_grades import refresh_stored_grades
+
     kind = output_kind(out)
+    refresh_stored_grades(store)    # nothing to do unless the grading table changed since
     rows = inventory_rows(store)
     if kind == "csv":
         return write_csv(out, INVENTORY_COLUMNS, rows)

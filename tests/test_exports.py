@@ -104,10 +104,9 @@ def test_text_that_looks_like_a_formula_stays_text_in_xlsx_and_csv(store, tmp_pa
 
 
 def test_inventory_lists_grades_flags_and_charts_each_dielectric(store, tmp_path):
-    a = put_part(store, "cab/A1", Marking("101J C0G", Decimal(100), dielectric=C0G), on_hand=20)
+    a = put_part(store, "cab/A1", Marking("101J C0G", Decimal(100), Tolerance(Decimal(5), Decimal(5), "%"),
+                                          dielectric=C0G), on_hand=20)
     put_part(store, "cab/A2", Marking("104K X7R", Decimal(100000), dielectric=X7R), on_hand=50)
-    with store.writing() as db:
-        db.conn.execute("INSERT INTO grades (bin_id, application, grade, table_version) VALUES (?, 'tuned', 'fit', 't')", (a,))
     store.raise_flag(kind="duplicate", message="x", fingerprint="f", bin_id=a)
     out = tmp_path / "inv.xlsx"
     assert export_inventory(store, out) == 2
@@ -146,3 +145,18 @@ def test_a_pulled_plan_still_needs_its_shortfall_ordered_and_a_dropped_one_does_
     store.db.conn.execute("UPDATE plans SET status = 'dropped' WHERE id = ?", (dropped,))
     lines = purchasing_lines(store)
     assert [(line.requirement, line.quantity) for line in lines] == [("1 nF", 4)]
+
+
+def test_the_inventory_grades_follow_a_changed_grading_table(store, tmp_path):
+    # the grading table is this project's (common practice, no published source); a shop's
+    # stock-grading.toml next to the database overrides a row, and the export must follow it
+    put_part(store, "cab/A1", Marking("101J C0G", Decimal(100), Tolerance(Decimal(5), Decimal(5), "%"),
+                                      dielectric=C0G), on_hand=3)
+    out = tmp_path / "inv.xlsx"
+    export_inventory(store, out)
+    first = dict(zip(*list(load_workbook(out)["Bins"].iter_rows(values_only=True))[:2]))
+    assert first["Bulk"] == "unfit"         # 100 pF is below bulk's 1 µF
+    (tmp_path / "stock-grading.toml").write_text("[bulk]\nmin_capacitance_pf = 10\n", encoding="utf-8")
+    export_inventory(store, out)
+    again = dict(zip(*list(load_workbook(out)["Bins"].iter_rows(values_only=True))[:2]))
+    assert again["Bulk"] == "fit"
