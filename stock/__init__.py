@@ -23,8 +23,9 @@ Physics
     ``drift`` (tank and timer drift),
     ``combining`` (series and parallel pairs).
 The jobs
-    ``requirement`` + ``search`` (find), ``bom`` + ``kit`` + ``kit_rules`` + ``pick_list``
-    (kitting), ``review`` + ``duplicates`` + ``stock_checks`` (flags), ``spreadsheet`` +
+    ``requirement`` + ``search`` (find), ``bom`` + ``kit`` (planning) + ``kit_plans`` (stored
+    plans: pull, undo, drop) + ``kit_rules`` + ``pick_list`` (kitting), ``flag_kinds`` (what
+    each flag means) + ``review`` + ``duplicates`` + ``stock_checks`` (flags), ``spreadsheet`` +
     ``exports`` + ``stocktake`` (spreadsheets out), ``demo`` (the demo shop).
 The command
     ``cli``: one ``<name>_cmd.py`` per command group.

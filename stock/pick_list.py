@@ -17,7 +17,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from stock.kit import KitPlan, load_plan
+from stock.kit_plans import KitPlan, load_plan
 from stock.kit_rules import natural_key
 from stock.store import Store
 

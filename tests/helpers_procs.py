@@ -113,7 +113,8 @@ def kit_worker(db: str, bom: str, name: str, seconds: float, go: str, log: str) 
     successful pull is logged with its plan id.
     """
     from stock.errors import StockError
-    from stock.kit import KitOptions, drop_plan, plan_kit, pull_plan, undo_pull
+    from stock.kit import KitOptions, plan_kit
+    from stock.kit_plans import drop_plan, pull_plan, undo_pull
     from stock.store import open_store
 
     rng = random.Random(name)

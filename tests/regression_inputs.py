@@ -92,7 +92,7 @@ COUNT_CELLS: dict[str, object] = {
 
 # Command lines with hostile values: each must end in one clear line and exit 1 or 2, never a
 # traceback. Found: OverflowError from sqlite3 when a bin or plan number past 64 bits reached a
-# query (stock.store.Store.find_bin, stock.kit), ValueError from int("²") (str.isdigit accepts
+# query (stock.store.Store.find_bin, stock.kit_plans), ValueError from int("²") (str.isdigit accepts
 # superscripts; fixed in Store.find_bin), OverflowError from `find --qty` past 64 bits.
 CLI_ARGS: tuple[tuple[str, ...], ...] = (
     ("show", "99999999999999999999"),

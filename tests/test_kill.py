@@ -31,7 +31,8 @@ import stock.store
 from stock.check import check_store
 from stock.cli import app
 from stock.intake import import_file
-from stock.kit import KitOptions, plan_kit, pull_plan, undo_pull
+from stock.kit import KitOptions, plan_kit
+from stock.kit_plans import pull_plan, undo_pull
 from stock.store import open_store
 from tests.helpers_procs import ledger_mismatches, scaled, table_counts, write_bin_sheet, write_bom
 
@@ -46,7 +47,7 @@ CHILD = r"""
 import sys, time
 from pathlib import Path
 import stock.store
-from stock.kit import pull_plan, undo_pull
+from stock.kit_plans import pull_plan, undo_pull
 from stock.store import open_store
 
 db, plan, marker, sleep_s = sys.argv[1], sys.argv[2], Path(sys.argv[3]), float(sys.argv[4])

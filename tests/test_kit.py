@@ -22,7 +22,8 @@ from stock.ceramic_codes import decode_dielectric
 from stock.decoded import Marking, Tolerance
 from stock.errors import BadValue, NotFound, Refused
 from stock.families import decode_family
-from stock.kit import KitOptions, drop_plan, kit_options, load_plan, plan_kit, pull_plan, undo_pull
+from stock.kit import KitOptions, kit_options, plan_kit
+from stock.kit_plans import drop_plan, load_plan, pull_plan, undo_pull
 from stock.kit_rules import Candidate, check_part, choose_bins
 from stock.pick_list import natural_key, pick_list, pick_list_text, write_pick_list_xlsx
 from stock.store import now, open_store

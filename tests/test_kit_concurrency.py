@@ -27,7 +27,7 @@ import json, sys, time
 from pathlib import Path
 from stock.errors import StockError
 from stock.store import open_store
-from stock import kit
+from stock import kit, kit_plans
 
 db, action, arg, go = sys.argv[1:5]
 store = open_store(db)
@@ -35,7 +35,7 @@ while not Path(go).exists():
     time.sleep(0.002)
 try:
     if action == "pull":
-        done = kit.pull_plan(store, arg)
+        done = kit_plans.pull_plan(store, arg)
         print(json.dumps({"ok": True, "moves": done.moves}))
     else:
         plan = kit.plan_kit(store, arg, kit.KitOptions(boards=10))

@@ -18,9 +18,9 @@ import pytest
 
 from stock.decoded import Alternative, Dielectric, Flag, Marking, Tolerance
 from stock.errors import BadValue, NotFound, Refused
+from stock.flag_kinds import FLAG_KINDS, flag_kind
 from stock.review import (
-    FLAG_KINDS, current_marking, flag_kind, list_flags, part_columns, pick_reading, readings, reopen,
-    settle,
+    current_marking, list_flags, part_columns, pick_reading, readings, reopen, settle,
 )
 from stock.stock_checks import parse_date_code, raise_stock_flags
 

@@ -70,7 +70,7 @@ def show_command(
     plan: Annotated[str | None, typer.Argument(help="The plan number (omit to list every plan).")] = None,
     as_json: Annotated[bool, typer.Option("--json", help="Print the plan as JSON.")] = False,
 ) -> None:
-    from stock.kit import list_plans, load_plan
+    from stock.kit_plans import list_plans, load_plan
     from stock.pick_list import plan_text
 
     with _store(ctx) as store:
@@ -110,9 +110,9 @@ def picklist_command(
 
 
 def _action(ctx: typer.Context, name: str, plan: str, as_json: bool) -> None:
-    from stock import kit
+    from stock import kit_plans
 
-    function = {"pull": kit.pull_plan, "undo": kit.undo_pull, "drop": kit.drop_plan}[name]
+    function = {"pull": kit_plans.pull_plan, "undo": kit_plans.undo_pull, "drop": kit_plans.drop_plan}[name]
     with _store(ctx) as store:
         done = function(store, plan)
     if as_json:
