@@ -129,7 +129,8 @@ def purchasing_lines(store: Store, plan_ids: Sequence[int] = (), below_minimum: 
                 capacitance_pf=m.capacitance_pf, tol_pct=max(tol) if tol else None,
                 voltage_v=m.voltage_v, voltage_kind=m.voltage_kind or "",
                 dielectric=m.dielectric.code if m.dielectric else "",
-                safety_class=m.safety_class or "", polarity=m.polarity or "",
+                safety_class=m.safety_class or "",
+                polarity=", ".join(x for x in (m.polarity, row.get("package"), row.get("mounting")) if x),
                 quantity=0, requirement=f"like bin {row['bin_key']}: {row['marking']}"),
                 int(row["minimum"]) - int(row["on_hand"] or 0),
                 f"bin {row['bin_key']} (holds "
