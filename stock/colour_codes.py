@@ -68,7 +68,8 @@ _RESISTOR_STYLE_MULTIPLIER: dict[str, Decimal] = {
 TOLERANCE_PF_THRESHOLD = Decimal(10)   # ≤ 10 pF: pF column; above: % column (S19, S20, S21)
 
 
-def _pct(minus: str, plus: str | None = None) -> Tolerance:
+def pct(minus: str, plus: str | None = None) -> Tolerance:
+    """A percentage tolerance from table text: ``pct("5")`` is ±5 %, ``pct("20", "80")`` +80/−20 %."""
     return Tolerance(Decimal(minus), Decimal(plus if plus is not None else minus), "%")
 
 
@@ -78,25 +79,25 @@ def _pf(value: str) -> Tolerance:
 
 # Tolerance above 10 pF: every reading a source gives, preferred first.
 TOLERANCE_ABOVE_10PF: dict[str, tuple[tuple[Tolerance, str], ...]] = {
-    "black": ((_pct("20"), "S19, S20, S21"),),
-    "brown": ((_pct("1"), "S19, S20, S21"),),
-    "red": ((_pct("2"), "S19, S20, S21"),),
-    "orange": ((_pct("3"), "S19"),),
-    "yellow": ((_pct("4"), "S19"),),
-    "green": ((_pct("5"), "S20, S21"), (_pct("0.5"), "S22")),
-    "grey": ((_pct("20", "80"), "S19"),),
-    "white": ((_pct("10"), "S19, S20, S21"),),
-    "gold": ((_pct("5"), "S19, S20"), (_pf("0.5"), "S22")),
-    "silver": ((_pct("10"), "S19, S20, S22"),),
-    "none": ((_pct("20"), "S20: no band"),),
+    "black": ((pct("20"), "S19, S20, S21"),),
+    "brown": ((pct("1"), "S19, S20, S21"),),
+    "red": ((pct("2"), "S19, S20, S21"),),
+    "orange": ((pct("3"), "S19"),),
+    "yellow": ((pct("4"), "S19"),),
+    "green": ((pct("5"), "S20, S21"), (pct("0.5"), "S22")),
+    "grey": ((pct("20", "80"), "S19"),),
+    "white": ((pct("10"), "S19, S20, S21"),),
+    "gold": ((pct("5"), "S19, S20"), (_pf("0.5"), "S22")),
+    "silver": ((pct("10"), "S19, S20, S22"),),
+    "none": ((pct("20"), "S20: no band"),),
 }
 # Tolerance at 10 pF and below. Where a source gives the colour no pF meaning, the % reading stays.
 TOLERANCE_AT_MOST_10PF: dict[str, tuple[tuple[Tolerance, str], ...]] = {
     "black": ((_pf("2"), "S19, S20, S21"),),
-    "brown": ((_pf("0.1"), "S19"), (_pct("1"), "S20, S21: % column only")),
-    "red": ((_pf("0.25"), "S19"), (_pct("2"), "S20, S21: % column only")),
+    "brown": ((_pf("0.1"), "S19"), (pct("1"), "S20, S21: % column only")),
+    "red": ((_pf("0.25"), "S19"), (pct("2"), "S20, S21: % column only")),
     "green": ((_pf("0.5"), "S19, S20, S21"),),
-    "grey": ((_pf("0.25"), "S20, S21"), (_pct("20", "80"), "S19: % column only")),
+    "grey": ((_pf("0.25"), "S20, S21"), (pct("20", "80"), "S19: % column only")),
     "white": ((_pf("1"), "S19, S20, S21"),),
 }
 
@@ -295,7 +296,7 @@ def _value_readings(layout: str, colours: tuple[str, ...], figure_count: int, *,
         value = Decimal(significant) * multiplier
         tolerances: tuple[tuple[Tolerance | None, tuple[Flag, ...]], ...]
         if tolerance_at is None:
-            tolerances = ((_pct("20"), (Flag("tolerance-assumed",
+            tolerances = ((pct("20"), (Flag("tolerance-assumed",
                                              "no tolerance band; the tables read none as ±20 % (S20)"),)),)
         else:
             tolerances = tolerance_readings(colours[tolerance_at], value)
@@ -345,8 +346,8 @@ def _band_readings(parsed: ColourText) -> list[Reading]:
 # Five-band polyester film capacitors (the moulded "C280" style): 2 figures, multiplier in pF,
 # tolerance, voltage. From memory of that maker's colour code; only the colours remembered surely.
 POLYESTER_TOLERANCE: dict[str, Tolerance] = {
-    "black": _pct("20"),
-    "white": _pct("10"),
+    "black": pct("20"),
+    "white": pct("10"),
 }
 POLYESTER_VOLTAGE: dict[str, Decimal] = {
     "red": Decimal(250),

@@ -28,7 +28,7 @@ from __future__ import annotations
 from decimal import Decimal
 from itertools import product
 
-from stock.colour_codes import DIGIT, Reading, figures
+from stock.colour_codes import DIGIT, Reading, figures, pct
 from stock.decoded import Dielectric, Flag, Tolerance
 
 _TYPE_DOTS = ("white", "black", "silver")
@@ -47,23 +47,19 @@ MICA_MULTIPLIER: dict[str, Decimal] = {
 }
 
 
-def _pct(value: str) -> Tolerance:
-    return Tolerance(Decimal(value), Decimal(value), "%")
-
-
 # Tolerance on EIA and JAN mica, every reading preferred first (general code S19-S21; S24, S25).
 MICA_TOLERANCE: dict[str, tuple[tuple[Tolerance, str], ...]] = {
-    "black": ((_pct("20"), "general colour code"),),
-    "brown": ((_pct("1"), "general colour code"),),
-    "red": ((_pct("2"), "general colour code"),),
-    "orange": ((_pct("3"), "S19"),),
-    "yellow": ((_pct("4"), "one AWS chart, S25"),),      # blank in the other AWS chart (S25)
-    "green": ((_pct("5"), "general colour code"),),
-    "blue": ((_pct("2"), "S24 worked example"),),       # the general code gives blue no tolerance
-    "white": ((_pct("10"), "general colour code"),),
-    "gold": ((_pct("5"), "general colour code"),),
-    "silver": ((_pct("10"), "general colour code"),),
-    "none": ((_pct("20"), "S26: no dot"),),
+    "black": ((pct("20"), "general colour code"),),
+    "brown": ((pct("1"), "general colour code"),),
+    "red": ((pct("2"), "general colour code"),),
+    "orange": ((pct("3"), "S19"),),
+    "yellow": ((pct("4"), "one AWS chart, S25"),),      # blank in the other AWS chart (S25)
+    "green": ((pct("5"), "general colour code"),),
+    "blue": ((pct("2"), "S24 worked example"),),       # the general code gives blue no tolerance
+    "white": ((pct("10"), "general colour code"),),
+    "gold": ((pct("5"), "general colour code"),),
+    "silver": ((pct("10"), "general colour code"),),
+    "none": ((pct("20"), "S26: no dot"),),
 }
 _TOLERANCE_DOUBTS: dict[str, str] = {
     "yellow": "yellow is ±4 % in one AWS chart and blank in another (S25)",
@@ -72,18 +68,18 @@ _TOLERANCE_DOUBTS: dict[str, str] = {
 
 # Older RMA tolerance and voltage dots (S26): a figure colour means that many %, or 100 V each.
 RMA_TOLERANCE: dict[str, Tolerance] = {
-    "brown": _pct("1"),
-    "red": _pct("2"),
-    "orange": _pct("3"),
-    "yellow": _pct("4"),
-    "green": _pct("5"),
-    "blue": _pct("6"),
-    "violet": _pct("7"),
-    "grey": _pct("8"),
-    "white": _pct("9"),
-    "gold": _pct("5"),
-    "silver": _pct("10"),
-    "none": _pct("20"),
+    "brown": pct("1"),
+    "red": pct("2"),
+    "orange": pct("3"),
+    "yellow": pct("4"),
+    "green": pct("5"),
+    "blue": pct("6"),
+    "violet": pct("7"),
+    "grey": pct("8"),
+    "white": pct("9"),
+    "gold": pct("5"),
+    "silver": pct("10"),
+    "none": pct("20"),
 }
 RMA_VOLTAGE: dict[str, Decimal] = {
     "brown": Decimal(100),
