@@ -239,7 +239,7 @@ def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
     elif not taken and not pool:
         from stock.search import find
 
-        notes.extend(f"why: {why}" for why in find(store, req).explanation[:2])
+        notes.extend(f"no single part: {why}" for why in find(store, req).explanation[:2])
     return taken
 
 
