@@ -38,9 +38,25 @@ LEDGER_KINDS = ("import", "count", "pull", "undo", "adjust", "merge", "settle")
 migrations = Migrations("stock")
 
 
+def _run_script(db: Database, script: str) -> None:
+    """Run SQL statements one by one inside the caller's transaction.
+
+    ``sqlite3``'s ``executescript`` commits any open transaction first, which would make a
+    migration half-applied if the process died midway; statement by statement it stays atomic.
+    """
+    statement = ""
+    for line in script.splitlines(keepends=True):
+        statement += line
+        if sqlite3.complete_statement(statement):
+            db.conn.execute(statement)
+            statement = ""
+    if statement.strip():
+        raise ValueError(f"incomplete SQL statement in a migration: {statement.strip()[:60]!r}")
+
+
 @migrations()
 def m001_core(db: Database) -> None:
-    db.executescript(f"""
+    _run_script(db, f"""
     CREATE TABLE bins (
         id INTEGER PRIMARY KEY,
         bin_key TEXT NOT NULL UNIQUE,

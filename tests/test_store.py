@@ -123,3 +123,20 @@ def test_a_second_writer_gets_a_clear_message_after_a_bounded_wait(tmp_path, mon
                 pass
     finally:
         a.db.conn.execute("ROLLBACK")
+
+
+def test_a_failing_first_migration_leaves_no_half_made_schema(tmp_path, monkeypatch):
+    # SQLite transactions (sqlite.org): DDL is transactional; the migration must not commit midway
+    import stock.store as store_module
+
+    def broken(db, script):
+        db.conn.execute("CREATE TABLE bins_half (x)")
+        raise RuntimeError("power cut")
+
+    monkeypatch.setattr(store_module, "_run_script", broken)
+    path = tmp_path / "new.db"
+    with pytest.raises(RuntimeError, match="power cut"):
+        open_store(path)
+    monkeypatch.undo()
+    s = open_store(path)          # opens as a new stock database, not as a foreign file
+    assert "bins" in s.db.table_names() and "bins_half" not in s.db.table_names()
