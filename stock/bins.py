@@ -14,7 +14,7 @@ from decimal import Decimal
 from functools import lru_cache
 from typing import Any
 
-from stock.decoded import Marking
+from stock.decoded import Marking, Tolerance
 from stock.store import Store
 
 
@@ -29,12 +29,20 @@ def part_marking(row: dict[str, Any]) -> Marking:
     >>> m.text, m.capacitance_pf
     ('104', Decimal('100000.0'))
     """
-    settled = row.get("settled_json")
-    if settled:
-        found = _settled_marking(settled)
+    return stored_marking(row["decoded_json"], row.get("settled_json"))
+
+
+def stored_marking(decoded_json: str, settled_json: str | None) -> Marking:
+    """:func:`part_marking` from the two JSON columns themselves (for callers reading plain tuples).
+
+    >>> stored_marking('{"text": "104"}', '{"marking": {"text": "474"}}').text
+    '474'
+    """
+    if settled_json:
+        found = _settled_marking(settled_json)
         if found is not None:
             return found
-    return _marking_from_text(row["decoded_json"])
+    return _marking_from_text(decoded_json)
 
 
 @lru_cache(maxsize=16384)
@@ -81,7 +89,6 @@ def _fmt_volt(v: float | None, kind: str | None) -> str | None:
 
 
 def _fmt_tol(minus: float | None, plus: float | None, unit: str | None) -> str | None:
-    from stock.decoded import Tolerance
     from stock.units import format_tolerance
     if minus is None or plus is None or unit is None:
         return None
@@ -209,4 +216,4 @@ def quarantined_rows(store: Store) -> list[dict[str, Any]]:
     return out
 
 
-__all__ = ["bin_detail", "list_bins", "natural_key", "part_marking", "quarantined_rows"]
+__all__ = ["bin_detail", "list_bins", "natural_key", "part_marking", "quarantined_rows", "stored_marking"]

@@ -36,6 +36,7 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass, replace
 from decimal import Decimal, InvalidOperation
+from functools import cached_property, lru_cache
 from typing import Any
 
 from stock import combining
@@ -202,17 +203,31 @@ class Requirement:
         if self.dielectric_code is not None and self.dielectric() is None:
             raise BadValue("--tempco", self.dielectric_code, "a dielectric code such as C0G, N750 or X7R")
 
+    # The derived values below are asked for once per candidate part: work them out once per
+    # requirement (a frozen dataclass, so they never go stale; cached_property keeps them beside it).
     def dielectric(self) -> Dielectric | None:
         """The decoded dielectric the requirement names, if any."""
+        return self._dielectric
+
+    @cached_property
+    def _dielectric(self) -> Dielectric | None:
         return decode_dielectric(self.dielectric_code) if self.dielectric_code else None
 
     def value_window(self) -> tuple[Decimal, Decimal]:
         """The (low, high) limits the delivered value must stay within, in pF."""
+        return self._value_window
+
+    @cached_property
+    def _value_window(self) -> tuple[Decimal, Decimal]:
         pct = self.tol_pct if self.tol_pct is not None else NOMINAL_MATCH_PCT
         return combining.band(self.capacitance_pf, pct, pct)
 
     def tempco_window(self) -> tuple[Decimal, Decimal] | None:
         """The (low, high) window on α in ppm/K, from the window and the magnitude limit together."""
+        return self._tempco_window
+
+    @cached_property
+    def _tempco_window(self) -> tuple[Decimal, Decimal] | None:
         lo, hi = self.tempco_min, self.tempco_max
         if self.max_abs_tempco is not None:
             lo = -self.max_abs_tempco if lo is None else max(lo, -self.max_abs_tempco)
@@ -304,6 +319,11 @@ class Verdict:
     grade: str | None = None
 
 
+# A pass with nothing to report (no tempco window, no per-part constraint asked for): one shared
+# frozen value, since a plain value search meets it once per candidate row.
+_PASSED = Verdict(True, ())
+
+
 def _same_dielectric(wanted: Dielectric, have: Dielectric | None) -> bool:
     """Whether a part's dielectric is the one asked for or an equivalent (NP0 for C0G)."""
     if have is None:
@@ -367,6 +387,8 @@ def check_part(m: Marking, req: Requirement, *, working_v: Decimal | None) -> Ve
             return Verdict(False, tuple(g.reasons[:2]) or (f"{word} for {req.application}",),
                            "application", word)
         reasons.append(g.reasons[0] if g.reasons else f"{word} for {req.application}")
+    if not reasons and word is None:
+        return _PASSED
     return Verdict(True, tuple(reasons), None, word)
 
 
@@ -377,6 +399,11 @@ def tolerance_pct(m: Marking) -> tuple[Decimal, Decimal] | None:
     return m.tolerance.as_percent(m.capacitance_pf)
 
 
+# Part values repeat across bins (E-series): each reason's text is worked out once per value.
+_cap_text = lru_cache(maxsize=8192)(format_capacitance)
+_tol_text = lru_cache(maxsize=1024)(format_tolerance)
+
+
 def check_value(m: Marking, req: Requirement) -> Verdict:
     """Whether a single part delivers the value: its whole tolerance band inside the requirement."""
     c = m.capacitance_pf
@@ -385,27 +412,27 @@ def check_value(m: Marking, req: Requirement) -> Verdict:
     lo, hi = req.value_window()
     if req.tol_pct is None:
         if not lo <= c <= hi:
-            return Verdict(False, (f"{format_capacitance(c)} is not {format_capacitance(req.capacitance_pf)}",),
+            return Verdict(False, (f"{_cap_text(c)} is not {_cap_text(req.capacitance_pf)}",),
                            "value")
-        return Verdict(True, (f"{format_capacitance(c)} nominal",))
+        return Verdict(True, (f"{_cap_text(c)} nominal",))
     tol = tolerance_pct(m)
     if tol is None:
-        return Verdict(False, (f"{format_capacitance(c)} with no marked tolerance cannot promise "
+        return Verdict(False, (f"{_cap_text(c)} with no marked tolerance cannot promise "
                                f"±{fmt(req.tol_pct)} %",), "tolerance")
     p_lo, p_hi = combining.band(c, *tol)
     if p_lo < lo or p_hi > hi:
-        return Verdict(False, (f"{format_capacitance(c)} {format_tolerance(m.tolerance)} may deliver "
-                               f"{format_capacitance(p_lo)}…{format_capacitance(p_hi)}, outside "
-                               f"{format_capacitance(lo)}…{format_capacitance(hi)}",), "tolerance")
-    return Verdict(True, (f"{format_capacitance(c)} {format_tolerance(m.tolerance)} delivers "
-                          f"{format_capacitance(p_lo)}…{format_capacitance(p_hi)}, within ±{fmt(req.tol_pct)} %",))
+        return Verdict(False, (f"{_cap_text(c)} {_tol_text(m.tolerance)} may deliver "
+                               f"{_cap_text(p_lo)}…{_cap_text(p_hi)}, outside "
+                               f"{_cap_text(lo)}…{_cap_text(hi)}",), "tolerance")
+    return Verdict(True, (f"{_cap_text(c)} {_tol_text(m.tolerance)} delivers "
+                          f"{_cap_text(p_lo)}…{_cap_text(p_hi)}, within ±{fmt(req.tol_pct)} %",))
 
 
 def check_tempco(m: Marking, req: Requirement) -> Verdict:
     """Whether a single part's α band lies in the requirement's tempco window."""
     window = req.tempco_window()
     if window is None:
-        return Verdict(True, ())
+        return _PASSED
     diel = m.dielectric
     if diel is None or diel.tempco_ppm_per_k is None:
         what = diel.code if diel else "dielectric not marked"
@@ -420,6 +447,7 @@ def check_tempco(m: Marking, req: Requirement) -> Verdict:
                           + f" ppm/K within {window_text(window)}{note}",))
 
 
+@lru_cache(maxsize=256)
 def window_text(window: tuple[Decimal, Decimal]) -> str:
     """A tempco window in words: "−330…−270 ppm/K", "≤ 100 ppm/K"."""
     lo, hi = window
@@ -434,15 +462,21 @@ def check_single(part: Stocked, req: Requirement) -> Verdict:
     """Every constraint a single part must meet, in the order an explanation reports them."""
     reasons: list[str] = []
     word = None
-    for verdict in (check_value(part.marking, req), check_tempco(part.marking, req),
-                    check_part(part.marking, req, working_v=req.working_v)):
+    m = part.marking
+    for check in (check_value, check_tempco):
+        verdict = check(m, req)
         if not verdict.ok:
             return verdict
         reasons.extend(verdict.reasons)
-        word = verdict.grade or word
-    if part.available < req.qty:
-        return Verdict(False, (f"{part.available} available, {req.qty} needed",), "quantity")
-    reasons.append(f"{part.available} available" + (f" ({part.reserved} reserved)" if part.reserved else ""))
+    verdict = check_part(m, req, working_v=req.working_v)
+    if not verdict.ok:
+        return verdict
+    reasons.extend(verdict.reasons)
+    word = verdict.grade
+    available = part.available
+    if available < req.qty:
+        return Verdict(False, (f"{available} available, {req.qty} needed",), "quantity")
+    reasons.append(f"{available} available" + (f" ({part.reserved} reserved)" if part.reserved else ""))
     return Verdict(True, tuple(reasons), None, word)
 
 

@@ -23,7 +23,7 @@ from typing import Any
 from weakref import WeakKeyDictionary
 
 from stock import combining
-from stock.bins import part_marking
+from stock.bins import part_marking, stored_marking
 from stock.decoded import Marking
 from stock.errors import BadValue
 from stock.preferred_values import nearest, series_for_tolerance
@@ -199,6 +199,14 @@ def _value_error(c: Decimal, target: Decimal) -> Decimal:
     return abs(c - target) * _HUNDRED / target
 
 
+# The columns a single-part search needs, as plain tuples (no dict per row): bin, JSON, reserved.
+_CANDIDATE_SELECT = (
+    "SELECT b.id, b.bin_key, b.location, b.on_hand, p.decoded_json, p.settled_json,"
+    " (SELECT COALESCE(SUM(r.qty), 0) FROM reservations r JOIN plans pl ON pl.id = r.plan_id"
+    "  WHERE r.bin_id = b.id AND pl.status = 'reserved') AS reserved"
+    " FROM parts p JOIN bins b ON b.id = p.bin_id")
+
+
 def candidates(store: Store, req: Requirement) -> list[Match]:
     """The single parts that meet the requirement, best first (value error, grade, spare, bin).
 
@@ -206,18 +214,20 @@ def candidates(store: Store, req: Requirement) -> list[Match]:
     then checked exactly with :func:`check_single`.
     """
     lo, hi = req.value_window()
-    rows = _query(store, req, float(lo), float(hi), strict=True)
+    where, params = _where(req, float(lo), float(hi), strict=True, single=True)
+    sql = (f"SELECT * FROM ({_CANDIDATE_SELECT} WHERE {' AND '.join(where)})"
+           " WHERE COALESCE(on_hand, 0) - reserved >= ?")
+    target, qty = req.capacitance_pf, req.qty
     found = []
-    for row in rows:
-        part = _stocked(row)
+    for bin_id, bin_key, location, on_hand, decoded, settled, reserved in store.db.conn.execute(
+            sql, (*params, qty)):
+        part = Stocked(bin_id, bin_key, location, on_hand, int(reserved), stored_marking(decoded, settled))
         verdict = check_single(part, req)
         if verdict.ok:
             c = part.marking.capacitance_pf
-            found.append(Match(part.bin_id, part.bin_key, part.location, part.marking.text, c,
-                               part.available, verdict.grade, verdict.reasons, part.marking,
-                               _value_error(c, req.capacitance_pf)))
-    found.sort(key=lambda m: (m.value_error_pct, _GRADE_RANK[m.grade], -(m.available - req.qty),
-                              m.bin_key))
+            found.append(Match(bin_id, bin_key, location, part.marking.text, c, part.available,
+                               verdict.grade, verdict.reasons, part.marking, _value_error(c, target)))
+    found.sort(key=lambda m: (m.value_error_pct, _GRADE_RANK[m.grade], -(m.available - qty), m.bin_key))
     return found
 
 
