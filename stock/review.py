@@ -120,27 +120,12 @@ def current_marking(part: Mapping[str, Any]) -> Marking:
 
 
 def part_columns(marking: Marking) -> dict[str, Any]:
-    """The flat ``parts`` columns that follow a marking (floats, as SQL stores them)."""
-    def num(v: Decimal | None) -> float | None:
-        return None if v is None else float(v)
+    """The flat ``parts`` columns that follow a marking, by name: the same values import writes
+    (:func:`stock.row_reading.part_columns`), so search sees a settled reading as it sees an
+    imported one."""
+    from stock.row_reading import PART_COLUMNS, part_columns as columns_in_order
 
-    tol, die = marking.tolerance, marking.dielectric
-    return {
-        "capacitance_pf": num(marking.capacitance_pf),
-        "tol_minus": num(tol.minus) if tol else None, "tol_plus": num(tol.plus) if tol else None,
-        "tol_unit": tol.unit if tol else None, "tol_code": tol.code if tol else None,
-        "voltage_v": num(marking.voltage_v), "voltage_kind": marking.voltage_kind,
-        "dielectric_code": die.code if die else None, "family": die.family if die else None,
-        "class": die.klass if die else None,
-        "tempco_ppm_per_k": num(die.tempco_ppm_per_k) if die else None,
-        "tempco_tol_ppm_per_k": num(die.tempco_tol_ppm_per_k) if die else None,
-        "temp_min_c": num(die.temp_min_c) if die else None,
-        "temp_max_c": num(die.temp_max_c) if die else None,
-        "change_minus_pct": num(die.change_minus_pct) if die else None,
-        "change_plus_pct": num(die.change_plus_pct) if die else None,
-        "safety_class": marking.safety_class, "polarity": marking.polarity,
-        "rated_temp_c": num(marking.rated_temp_c),
-    }
+    return dict(zip(PART_COLUMNS, columns_in_order(marking)))
 
 
 def reading_summary(marking: Marking) -> dict[str, Any]:
