@@ -15,6 +15,7 @@ from pathlib import Path
 from typing import Any
 
 from stock.inventory.bins import natural_key
+from stock.counts import read_quantity
 from stock.errors import BadSheet
 from stock.sheets_out.workbook import Column, new_workbook, save_workbook, sheet_cell
 from stock.store.database import Store
@@ -70,11 +71,11 @@ def is_count_sheet(path: Path) -> bool:
     """Whether a file is a stock-take sheet this tool wrote (its hidden marker)."""
     if path.suffix.lower() not in (".xlsx", ".xlsm"):
         return False
-    try:
-        from openpyxl import load_workbook
+    from importers.xlsx_sheet import open_workbook
 
-        wb = load_workbook(path, read_only=True, data_only=True)
-    except Exception:  # not a workbook we can open: the normal importer will say why
+    try:
+        wb = open_workbook(path)
+    except BadSheet:  # not a workbook we can open: the normal importer will say why
         return False
     try:
         if "About" not in wb.sheetnames or SHEET_TITLE not in wb.sheetnames:
@@ -113,25 +114,12 @@ class CountReport:
                 "changes": [c.to_json() for c in self.changes]}
 
 
-MAX_COUNT = 2**53   # a larger count is a typing slip (and past what SQLite and JSON hold exactly)
-
-
 def _whole(value: Any, file: str, row: int) -> int | None:
-    if value is None or (isinstance(value, str) and not value.strip()):
-        return None
-    raw, number = value, None
-    if isinstance(value, bool):
-        number = None
-    elif isinstance(value, int):
-        number = value
-    elif isinstance(value, float) and value.is_integer():
-        number = int(value)
-    elif isinstance(value, str) and value.strip().isdecimal():   # isdigit() would pass "²"
-        number = int(value.strip())
-    if number is None or not 0 <= number <= MAX_COUNT:
-        raise BadSheet(file, f"cannot read {raw!r} as a count", sheet=SHEET_TITLE, row=row,
-                       column="Counted", hint="a whole number, 0 or more, or a blank cell")
-    return number
+    try:
+        return read_quantity(value)
+    except ValueError:
+        raise BadSheet(file, f"cannot read {value!r} as a count", sheet=SHEET_TITLE, row=row,
+                       column="Counted", hint="a whole number, 0 or more, or a blank cell") from None
 
 
 def apply_count_sheet(store: Store, path: Path, *, dry_run: bool = False) -> CountReport:
@@ -140,13 +128,13 @@ def apply_count_sheet(store: Store, path: Path, *, dry_run: bool = False) -> Cou
     Raises:
         BadSheet: a counted cell is not a whole number ≥ 0, or a bin is unknown (nothing is recorded).
     """
-    from openpyxl import load_workbook
+    from importers.xlsx_sheet import open_workbook
 
     file = str(path)
     try:
-        wb = load_workbook(path, read_only=True, data_only=True)
-    except Exception as exc:     # not a workbook at all: zip, XML and openpyxl's own errors
-        raise BadSheet(file, f"is not a readable stock-take workbook ({type(exc).__name__})",
+        wb = open_workbook(path)
+    except BadSheet as exc:
+        raise BadSheet(file, f"is not a readable stock-take workbook ({exc.reason})",
                        hint="the .xlsx written by `stock export count`") from None
     try:
         if SHEET_TITLE not in wb.sheetnames:
