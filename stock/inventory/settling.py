@@ -447,7 +447,7 @@ def settle(store: Store, bin_ref: str, *, reading: int | None = None, value: str
 
 
 def _parse_value(text: str) -> Decimal:
-    from stock.units import parse_capacitance
+    from stock.markings.typed_values import parse_capacitance
 
     return parse_capacitance(text, what="--value")
 
