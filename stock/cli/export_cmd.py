@@ -16,7 +16,7 @@ export_app = typer.Typer(help="Write spreadsheets: what to order, what is on han
 
 
 def _store(ctx: typer.Context):
-    from stock.cli import state
+    from stock.cli.context import state
 
     return open_store(state(ctx).db_path, create=False)
 

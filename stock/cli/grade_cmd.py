@@ -131,7 +131,7 @@ def register(app: typer.Typer) -> None:
 
         Example: stock grade --temp -10..60 --volts 12;  stock grade --explain A3
         """
-        from stock.cli import state
+        from stock.cli.context import state
 
         conditions = conditions_from_text(temp, volts, years)
         db_path = state(ctx).db_path
@@ -172,7 +172,7 @@ def register(app: typer.Typer) -> None:
 
         Example: stock drift --part '47p N750' --f0 10MHz --tank 150p --delta-t 10
         """
-        from stock.cli import state
+        from stock.cli.context import state
         from stock.markings.typed_values import parse_capacitance
 
         result = circuit_drift(
