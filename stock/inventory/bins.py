@@ -15,6 +15,7 @@ from functools import lru_cache
 from typing import Any
 
 from stock.decoded import Marking, Tolerance
+from stock.inventory.source_records import source_record
 from stock.store.flag_kinds import QUARANTINE_FIXES
 from stock.store.database import Store
 
@@ -183,10 +184,10 @@ def bin_detail(store: Store, ref: str) -> dict[str, Any]:
     detail["history"] = history
     detail["source_rows"] = [
         {"file": s["file_name"], "sheet": s["sheet"], "row": s["row_number"],
-         "status": s["status"], "imported_at": s["at"], "raw": json.loads(s["raw_json"]),
+         "status": s["status"], "imported_at": s["at"], "raw": source_record(s["raw_json"], s["headers_json"]),
          "reasons": json.loads(s["reasons_json"])}
         for s in store.rows(
-            "SELECT s.*, i.file_name, i.at FROM source_rows s JOIN imports i ON i.id = s.import_id"
+            "SELECT s.*, i.file_name, i.at, i.headers_json FROM source_rows s JOIN imports i ON i.id = s.import_id"
             " WHERE s.bin_id = ? ORDER BY s.id", (found["id"],))]
     return detail
 
@@ -199,7 +200,8 @@ def quarantined_rows(store: Store) -> list[dict[str, Any]]:
     """
     out = []
     for r in store.rows(
-            "SELECT s.row_number, s.sheet, s.raw_json, s.reasons_json, i.file_name, i.path, i.at"
+            "SELECT s.row_number, s.sheet, s.raw_json, s.reasons_json, i.file_name, i.path, i.at,"
+            " i.headers_json"
             " FROM source_rows s JOIN imports i ON i.id = s.import_id"
             " WHERE s.status = 'quarantined' AND i.id = (SELECT MAX(j.id) FROM imports j"
             "   WHERE j.file_name = i.file_name AND j.sheet IS i.sheet)"
@@ -210,7 +212,7 @@ def quarantined_rows(store: Store) -> list[dict[str, Any]]:
         fixes = [QUARANTINE_FIXES.get(k or "", "correct the row, then import the file again")
                  for k in kinds]
         out.append({"file": r["file_name"], "path": r["path"], "sheet": r["sheet"],
-                    "row": r["row_number"], "raw": json.loads(r["raw_json"]),
+                    "row": r["row_number"], "raw": source_record(r["raw_json"], r["headers_json"]),
                     "reason": "; ".join(messages), "kind": kinds[0] if kinds else None,
                     "fix": "; ".join(dict.fromkeys(fixes)), "imported_at": r["at"]})
     return out

@@ -27,8 +27,9 @@ from typing import Any
 
 from stock.decoded import Marking
 from stock.errors import BadValue, NotFound, Refused
-from stock.inventory.readings import current_marking, decided, part_columns, pick_reading, reading_summary
+from stock.inventory.readings import current_marking, decided, pick_reading, reading_summary
 from stock.inventory.stored_grades import refresh_stored_grades
+from stock.inventory.stored_markings import set_reading
 from stock.markings.decoder import decode
 from stock.markings.typed_values import parse_capacitance
 from stock.store.database import Store
@@ -163,10 +164,7 @@ def settle(store: Store, bin_ref: str, *, reading: int | None = None, value: str
     with store.writing():
         ledger_id = None
         if chosen is not None:
-            cols = part_columns(chosen)
-            sets = ", ".join(f'"{c}" = ?' for c in cols)
-            store.db.conn.execute(f"UPDATE parts SET {sets}, settled_json = ? WHERE bin_id = ?",
-                                  (*cols.values(), json.dumps(chosen.to_json(), ensure_ascii=False), bin_id))
+            set_reading(store.db.conn, bin_id, settled=chosen)   # the bin now shows the chosen reading
         counted = False
         if count is not None:
             was_unknown = bin_row["on_hand"] is None
@@ -218,10 +216,9 @@ def reopen(store: Store, bin_ref: str, *, note: str | None = None, by: str | Non
         record["old"], record["new"] = old, new
     with store.writing():
         if old is not None:
-            cols = part_columns(Marking.from_json(json.loads(part["decoded_json"])))
-            sets = ", ".join(f'"{c}" = ?' for c in cols)
-            store.db.conn.execute(f"UPDATE parts SET {sets}, settled_json = NULL WHERE bin_id = ?",
-                                  (*cols.values(), bin_id))
+            # back to the decoder's reading, with its own columns (a migrated store kept none)
+            set_reading(store.db.conn, bin_id, Marking.from_json(json.loads(part["decoded_json"])),
+                        settled=None, text=part["marking"])
         for fid in ids:
             store.db.conn.execute(
                 "UPDATE flags SET status = 'open', closed_at = NULL, decision_json = NULL WHERE id = ?",

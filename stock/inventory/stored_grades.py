@@ -81,69 +81,54 @@ def current_version(store) -> str:
     return load_rules(db_path=store.path).version
 
 
-# Grades go in by one INSERT … SELECT joining each bin to its marking's set of grades: SQLite then
-# writes the (bins × applications) rows itself, at half the cost of binding each from Python.
-_STORE_GRADES = ("INSERT INTO grades (bin_id, application, grade, reasons_json, table_version)"
-                 " SELECT b.bin_id, s.application, s.grade, s.reasons_json, ? FROM temp.graded_bins b"
-                 " JOIN temp.grade_sets s ON s.set_id = b.set_id WHERE true"
-                 " ON CONFLICT(bin_id, application) DO UPDATE SET grade = excluded.grade,"
-                 " reasons_json = excluded.reasons_json, table_version = excluded.table_version")
+_UPSERT_GRADE = ("INSERT INTO marking_grades (marking_id, application, grade, reasons_json, table_version)"
+                 " VALUES (?, ?, ?, ?, ?) ON CONFLICT(marking_id, application) DO UPDATE SET"
+                 " grade = excluded.grade, reasons_json = excluded.reasons_json,"
+                 " table_version = excluded.table_version")
+# Readings in force for some bin whose stored grades are missing or from another table version.
+_STALE = ("SELECT m.id FROM markings m WHERE EXISTS (SELECT 1 FROM bin_parts p WHERE p.shown_id = m.id)"
+          " AND (SELECT COUNT(*) FROM marking_grades g WHERE g.marking_id = m.id AND g.table_version = ?) < ?")
 
 
 def refresh_stored_grades(store, bin_ids: Iterable[int] | None = None) -> int:
-    """Store each part's grades at the default conditions; returns how many parts were graded.
+    """Store the grades at the default conditions of the readings in force; returns how many
+    parts (bins) that graded.
 
-    Each row keeps the grade word and the reasons that decided it. With ``bin_ids`` those parts are
-    graded again (their marking may have changed). Without, only parts whose stored grades are
-    missing or carry another table version (the application table, a shop override beside the
-    database, or the model changed) are graded: a cheap no-op when nothing changed. The parts are
-    read in one query and graded once per distinct stored marking.
+    Grades belong to the reading (a ``markings`` row), not to the bin: a reading held by a
+    thousand bins is graded once, and each row keeps the grade word and the reasons that decided
+    it. With ``bin_ids`` those parts' readings are graded again. Without, only readings whose
+    stored grades are missing or carry another table version (the application table, a shop
+    override beside the database, or the model changed) are graded: a cheap no-op when nothing
+    changed.
     """
     rules = load_rules(db_path=store.path)
     conn = store.db.conn
     if bin_ids is None:
-        current = store.one("SELECT (SELECT COUNT(*) FROM grades g JOIN parts p ON p.bin_id = g.bin_id"
-                            " WHERE g.table_version = ?) AS graded,"
-                            " (SELECT COUNT(*) FROM parts) AS parts", (rules.version,))
-        if current and current["graded"] == current["parts"] * len(rules.rows):
-            return 0   # the usual case: every part carries this table's grades
-        bin_ids = [r[0] for r in conn.execute(   # read before writing: the writes change this count
-            "SELECT p.bin_id FROM parts p WHERE (SELECT COUNT(*) FROM grades g WHERE g.bin_id = p.bin_id"
-            " AND g.table_version = ?) < ?", (rules.version, len(rules.rows)))]
-    ids = sorted(set(int(i) for i in bin_ids))
-    if not ids:
+        reading_ids = [r[0] for r in conn.execute(_STALE, (rules.version, len(rules.rows)))]
+    else:
+        ids = sorted(set(int(i) for i in bin_ids))
+        reading_ids = [r[0] for r in conn.execute(
+            "SELECT DISTINCT shown_id FROM bin_parts WHERE bin_id IN (SELECT value FROM json_each(?))",
+            (json.dumps(ids),))]
+    if not reading_ids:
         return 0
-    set_ids: dict[str, int] = {}   # many bins hold the same marking: grade it once
-    sets: list[tuple[int, str, str, str]] = []
-    graded = 0
     with store.writing():
-        conn.execute("DROP TABLE IF EXISTS temp.grade_sets")
-        conn.execute("DROP TABLE IF EXISTS temp.graded_bins")
-        conn.execute("CREATE TEMP TABLE grade_sets (set_id INTEGER, application TEXT, grade TEXT,"
-                     " reasons_json TEXT)")
-        conn.execute("CREATE TEMP TABLE graded_bins (bin_id INTEGER PRIMARY KEY, set_id INTEGER)")
-        cursor = conn.execute("SELECT bin_id, decoded_json, settled_json FROM parts WHERE bin_id IN"
-                              " (SELECT value FROM json_each(?)) ORDER BY bin_id", (json.dumps(ids),))
-        while chunk := cursor.fetchmany(5000):
-            members = []
-            for bin_id, decoded, settled in chunk:
-                set_id = set_ids.get(settled or decoded)
-                if set_id is None:
-                    set_id = set_ids[settled or decoded] = len(set_ids)
-                    marking = _row_marking({"decoded_json": decoded, "settled_json": settled})
-                    # only the deciding reasons are stored; `stock grade --explain` recomputes the rest
-                    sets += [(set_id, name, g.word, json.dumps(list(g.reasons[:g.deciding]), ensure_ascii=False))
-                             for name, g in grade_all(marking, Conditions(), rules=rules).items()]
-                members.append((bin_id, set_id))
-            conn.executemany("INSERT INTO temp.graded_bins VALUES (?, ?)", members)
-            graded += len(chunk)
-        conn.executemany("INSERT INTO temp.grade_sets VALUES (?, ?, ?, ?)", sets)
-        conn.execute("CREATE INDEX temp.grade_sets_by_id ON grade_sets(set_id)")
-        conn.execute(_STORE_GRADES, (rules.version,))
-        conn.execute("DROP TABLE temp.grade_sets")
-        conn.execute("DROP TABLE temp.graded_bins")
-    return graded
-
+        for start in range(0, len(reading_ids), 5000):
+            chunk = reading_ids[start:start + 5000]
+            rows = []
+            for reading_id, encoded in conn.execute(
+                    "SELECT id, marking_json FROM markings WHERE id IN (SELECT value FROM json_each(?))",
+                    (json.dumps(chunk),)):
+                marking = _row_marking({"decoded_json": encoded, "settled_json": None})
+                # only the deciding reasons are stored; `stock grade --explain` recomputes the rest
+                rows += [(reading_id, name, g.word, json.dumps(list(g.reasons[:g.deciding]),
+                                                               ensure_ascii=False), rules.version)
+                         for name, g in grade_all(marking, Conditions(), rules=rules).items()]
+            conn.executemany(_UPSERT_GRADE, rows)
+        if bin_ids is not None:
+            return len(ids)
+        return conn.execute("SELECT COUNT(*) FROM bin_parts WHERE shown_id IN (SELECT value FROM"
+                            " json_each(?))", (json.dumps(reading_ids),)).fetchone()[0]
 
 
 __all__ = ["BinGrades", "bin_marking", "current_version", "grade_bins", "refresh_stored_grades"]

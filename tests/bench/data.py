@@ -181,6 +181,7 @@ def fill_store(store: Any, n: int, seed: int = 5, *, distinct: int = 300,
     value so a value window returns rows in proportion to its width.
     """
     from stock.inventory.row_reading import PART_COLUMNS, decode_cached, part_columns
+    from stock.store.database import marking_digest
 
     rng = random.Random(seed)
     forms = []
@@ -192,24 +193,33 @@ def fill_store(store: Any, n: int, seed: int = 5, *, distinct: int = 300,
     stamp = "2026-12-01T00:00:00+00:00"
     conn = store.db.conn
     values = log_uniform_values(n, seed, lo_pf, hi_pf)
-    placeholders = ", ".join("?" * (len(PART_COLUMNS) + 5))
-    insert_part = (f"INSERT INTO parts (bin_id, marking, {', '.join(PART_COLUMNS)}, package, mounting,"
-                   f" decoded_json) VALUES ({placeholders})")
+    # every bin holds its own value, so nearly every bin has a reading of its own
+    insert_reading = (f"INSERT INTO markings (id, digest, text, marking_json, {', '.join(PART_COLUMNS)})"
+                      f" VALUES ({', '.join('?' * (len(PART_COLUMNS) + 4))})")
+    insert_part = ("INSERT INTO bin_parts (bin_id, marking_id, settled_id, shown_id) VALUES (?, ?, NULL, ?)")
     with store.writing():
         batch_bins: list[tuple] = []
+        batch_readings: list[tuple] = []
         batch_parts: list[tuple] = []
+        readings: dict[bytes, int] = {}
         for i, value in enumerate(values, start=1):
             m, columns, data = forms[rng.randrange(distinct)]
-            data = dict(data, capacitance_pf=value)
+            text = json.dumps(dict(data, capacitance_pf=value), ensure_ascii=False)
             batch_bins.append((i, f"bench/{i}", f"L{i}", rng.randint(1, 500), stamp, stamp))
-            batch_parts.append((i, m.text, value, *columns[1:], None, None,
-                                json.dumps(data, ensure_ascii=False)))
+            digest = marking_digest(text)
+            reading = readings.setdefault(digest, i)    # two bins may round to the same value
+            if reading == i:
+                batch_readings.append((i, digest, m.text, text, value, *columns[1:]))
+            batch_parts.append((i, reading, reading))
             if len(batch_bins) >= 20000:
                 conn.executemany(_STORE_BIN, batch_bins)
+                conn.executemany(insert_reading, batch_readings)
                 conn.executemany(insert_part, batch_parts)
                 batch_bins.clear()
+                batch_readings.clear()
                 batch_parts.clear()
         conn.executemany(_STORE_BIN, batch_bins)
+        conn.executemany(insert_reading, batch_readings)
         conn.executemany(insert_part, batch_parts)
     conn.execute("ANALYZE")
 

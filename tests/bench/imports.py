@@ -21,7 +21,8 @@ from tests.bench.data import HEADERS, write_csv, write_xlsx
 from tests.bench.timing import interleaved, line
 
 REPO = Path(__file__).resolve().parents[2]
-TABLES = ("imports", "bins", "parts", "ledger", "source_rows", "flags", "grades")  # foreign-key order
+TABLES = ("imports", "markings", "bins", "bin_parts", "ledger", "source_rows", "flags",
+          "marking_grades")  # foreign-key order
 
 
 def _fresh(path: Path) -> Path:

@@ -27,7 +27,8 @@ def test_opening_a_new_database_applies_every_migration_and_turns_on_wal(tmp_pat
     s = open_store(tmp_path / "s.db")
     assert s.one("PRAGMA journal_mode")["journal_mode"] == "wal"
     assert s.one("PRAGMA foreign_keys")["foreign_keys"] == 1
-    assert {"bins", "parts", "ledger", "flags", "plans", "reservations"} <= set(s.db.table_names())
+    assert {"bins", "parts", "ledger", "flags", "plans", "reservations"} <= set(s.db.table_names()
+                                                                                 + s.db.view_names())
 
 
 def test_reopening_applies_nothing_twice(tmp_path):

@@ -23,6 +23,7 @@ from pathlib import Path
 import pytest
 from typer.testing import CliRunner
 
+from stock.inventory.source_records import stored_source_record
 from stock.store.integrity import check_store
 from stock.cli import app
 from stock.errors import BadSheet
@@ -228,9 +229,10 @@ def test_a_one_megabyte_marking_is_quarantined_or_stored_never_a_crash(tmp_path,
     sheet = _import_json(db, path)
     assert sheet["rows"] == 2 and sheet["stored"] + sheet["quarantined"] == 2
     with open_store(db) as store:
-        raw = store.one("SELECT raw_json FROM source_rows WHERE row_number = 2"
-                        " AND import_id = (SELECT MAX(id) FROM imports)")["raw_json"]
-        assert len(json.loads(raw)["Marking"]) == 1_100_000     # nothing read is lost
+        row_id = store.one("SELECT id FROM source_rows WHERE row_number = 2"
+                           " AND import_id = (SELECT MAX(id) FROM imports)")["id"]
+        raw = stored_source_record(store.db.conn, row_id)
+        assert len(raw["Marking"]) == 1_100_000     # nothing read is lost
 
 
 def test_nul_bytes_in_a_csv_are_dropped_and_the_rows_kept(tmp_path, db):
@@ -278,7 +280,7 @@ def test_duplicated_headers_keep_every_cell_of_the_row(tmp_path, db):
     sheet = _import_json(db, path)
     assert sheet["rows"] == 1 and sheet["stored"] + sheet["quarantined"] == 1
     with open_store(db) as store:
-        raw = json.loads(store.one("SELECT raw_json FROM source_rows ORDER BY id DESC LIMIT 1")["raw_json"])
+        raw = stored_source_record(store.db.conn, store.one("SELECT MAX(id) AS id FROM source_rows")["id"])
         assert sorted(map(str, raw.values())) == sorted(["A1", "104K", "5", "1n0", "7"])
         assert check_store(store).ok
 
@@ -293,7 +295,7 @@ def test_ten_thousand_columns_import_with_every_cell_kept(tmp_path, db):
     assert time.monotonic() - started < 60
     assert (sheet["rows"], sheet["stored"]) == (3, 3)
     with open_store(db) as store:
-        raw = json.loads(store.one("SELECT raw_json FROM source_rows ORDER BY id DESC LIMIT 1")["raw_json"])
+        raw = stored_source_record(store.db.conn, store.one("SELECT MAX(id) AS id FROM source_rows")["id"])
         assert len(raw) == width and raw[f"Extra {width}"] == f"3.{width}"
 
 
