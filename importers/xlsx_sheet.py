@@ -1,6 +1,11 @@
-"""Read the worksheets of an XLSX/XLSM workbook with openpyxl in read-only mode.
+"""Read the worksheets of an XLSX/XLSM workbook: python-calamine for the cells, openpyxl where it cannot.
 
-* ``read_only=True, data_only=True``: rows stream from the zip, and formula cells give the value
+* Cells are read with python-calamine (a compiled reader, several times faster than openpyxl):
+  its rows are turned into what openpyxl read-only mode gives (blank ``''`` → None, a date cell
+  → ``datetime``, leading empty rows and columns put back so row numbers are the user's), so
+  both readers feed the same rows to the importer. Where calamine cannot serve (not installed, a
+  file it refuses, a sheet it does not know), openpyxl reads the workbook as below.
+* openpyxl: ``read_only=True, data_only=True``: rows stream from the zip, and formula cells give the value
   the spreadsheet program last saved (a workbook written by a script has none: such cells read
   as blank).
 * Sheet dimensions are ignored (``reset_dimensions``): many writers record none or a wrong one, and a
@@ -19,6 +24,7 @@
 
 from __future__ import annotations
 
+import datetime as _dt
 import lzma
 import re
 import warnings
@@ -51,6 +57,10 @@ def read_workbook(path: Path, sheet: str | None = None) -> list[RawSheet]:
             worksheet holds anything.
     """
     file = str(path)
+    _check_archive(path)
+    fast = _read_with_calamine(path, sheet)
+    if fast:
+        return fast
     book = open_workbook(path)
     names = list(book.sheetnames)
     if sheet is not None and sheet not in names:
@@ -190,6 +200,86 @@ def _numbered_rows(file: str, sheet: str, worksheet: Any, notes: list[str],
         raise BadSheet(file, f"is a damaged workbook ({_short(exc)})", sheet=sheet, row=number + 1) from None
     finally:
         handle.finished()
+
+
+def _read_with_calamine(path: Path, sheet: str | None) -> list[RawSheet] | None:
+    """Every worksheet holding data (or only ``sheet``) read by python-calamine; None when
+    calamine cannot serve this file and openpyxl should read it (which also words any error)."""
+    try:
+        from python_calamine import CalamineWorkbook, SheetTypeEnum, SheetVisibleEnum  # late: compiled
+    except ImportError:
+        return None
+    file = str(path)
+    try:
+        book = CalamineWorkbook.from_path(str(path))
+    except Exception:      # calamine's own errors, or a panic in the compiled reader
+        return None
+    try:
+        kinds = {m.name: m for m in book.sheets_metadata}
+        wanted = [sheet] if sheet is not None else list(book.sheet_names)
+        sheets = []
+        for name in wanted:
+            meta = kinds.get(name)
+            if meta is None or meta.typ != SheetTypeEnum.WorkSheet:
+                return None           # no such sheet, or a chart sheet: openpyxl says so in words
+            cells = book.get_sheet_by_name(name)
+            merged = cells.merged_cell_ranges
+            if merged is None:
+                return None
+            refs = [f"{_column_letters(c0 + 1)}{r0 + 1}:{_column_letters(c1 + 1)}{r1 + 1}"
+                    for (r0, c0), (r1, c1) in merged if (r0, c0) != (r1, c1)]
+            notes: list[str] = []
+            rows = _calamine_rows(file, name, cells, notes)
+            shaped = shape_sheet(file, name, rows, fill_header=_merge_filler(refs) if refs else None,
+                                 merged=tuple(refs), hidden=meta.visible != SheetVisibleEnum.Visible,
+                                 notes=notes)
+            if shaped is not None:
+                sheets.append(shaped)
+            elif sheet is not None:
+                return None           # an empty sheet: openpyxl's path words it
+        return sheets or None
+    except Exception:
+        return None
+    finally:
+        book.close()
+
+
+def _column_letters(column: int) -> str:
+    letters = ""
+    while column:
+        column, rest = divmod(column - 1, 26)
+        letters = chr(65 + rest) + letters
+    return letters
+
+
+def _calamine_cell(value: Any) -> Any:
+    """A calamine cell as openpyxl read-only gives it: dates as datetimes, then cleaned."""
+    if type(value) is _dt.date:
+        return _dt.datetime(value.year, value.month, value.day)
+    return clean_cell(value)
+
+
+def _calamine_rows(file: str, sheet: str, cells: Any, notes: list[str]) -> Iterator[tuple[int, tuple[Any, ...]]]:
+    """(row number, cells) as :func:`_numbered_rows` gives them, from a sheet calamine loaded."""
+    start = cells.start or (0, 0)
+    first_row, left = start
+    pad = (None,) * left
+    blank_run = 0
+    number = first_row
+    for values in cells.iter_rows():
+        number += 1
+        row = pad + tuple(_calamine_cell(v) for v in values)
+        if all(c is None for c in row):
+            blank_run += 1
+            if blank_run >= EMPTY_RUN_LIMIT:
+                notes.append(f"stopped reading sheet {sheet!r} at row {number}: "
+                             f"{EMPTY_RUN_LIMIT} blank rows in a row; rows below are not read")
+                return
+            continue
+        blank_run = 0
+        while row and row[-1] is None:
+            row = row[:-1]
+        yield number, row
 
 
 def _merged_ranges(path: Path, part: str | None) -> list[str]:

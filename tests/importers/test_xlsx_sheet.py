@@ -318,3 +318,49 @@ def test_a_damaged_workbook_gives_rows_or_a_bad_sheet_never_a_crash(tmp_path, da
                 assert len(row.cells) == len(sheet.headers)
     except BadSheet as exc:
         assert str(exc).startswith(str(path))
+
+
+# Both readers (python-calamine for speed, openpyxl where calamine cannot serve) must give the
+# importer the same sheets: same header, row numbers, cells (types included) and merges.
+def _varied_book() -> Workbook:
+    wb = Workbook()
+    ws = wb.active
+    ws.title = "Front rack"
+    ws["C1"] = "Harrow Lane stock, front rack"
+    ws.merge_cells("C1:F1")
+    ws["C3"], ws["D3"], ws["E3"], ws["F3"] = "Location", "Marking", "Qty", "Checked"
+    ws.append([None, None, "A1", 104, 20.0, dt.date(2026, 3, 4)])
+    ws.append([None, None, "A2", "4n7 J", None, dt.datetime(2026, 3, 5, 9, 30)])
+    ws.append([None, None, "A3", "=1/0", True, dt.time(7, 15)])
+    ws.append([None, None, "A4", 0.47, "lots", None, "spare cell"])
+    ws.append([])
+    ws.append([None, None, "A6", "  ", 3, None])
+    hidden = wb.create_sheet("Back room")
+    hidden.sheet_state = "hidden"
+    hidden.append(["Drawer", "Cap.", "Qty on hand"])
+    hidden.append(["S1", "220p", 3])
+    return wb
+
+
+def _shape(sheets):
+    return [(s.sheet, s.header_row, s.headers, s.merged, s.hidden,
+             [(r.number, r.cells, r.extra) for r in s.rows],
+             [(r.number, r.cells) for r in s.skipped_above]) for s in sheets]
+
+
+def test_the_fast_reader_and_openpyxl_give_the_same_sheets(tmp_path, monkeypatch):
+    path = save(_varied_book(), tmp_path)
+    fast = _shape(read_sheets(path))
+    assert fast[0][5][0] == (4, (None, None, "A1", 104, 20, dt.datetime(2026, 3, 4)), ())
+    monkeypatch.setattr(xlsx_sheet, "_read_with_calamine", lambda path, sheet: None)
+    assert _shape(read_sheets(path)) == fast
+
+
+def test_the_fast_reader_is_the_one_used_when_it_can_serve(tmp_path, monkeypatch):
+    path = save(_varied_book(), tmp_path)
+
+    def no_openpyxl(path):
+        raise AssertionError("openpyxl was opened for a workbook calamine reads")
+
+    monkeypatch.setattr(xlsx_sheet, "open_workbook", no_openpyxl)
+    assert [s.sheet for s in read_sheets(path)] == ["Front rack", "Back room"]
