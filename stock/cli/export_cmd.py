@@ -65,8 +65,10 @@ def inventory(
     """
     from stock.sheets_out.exports import export_inventory
 
-    with _store(ctx) as store:
-        rows = export_inventory(store, out)
+    from stock.cli.progress import RowProgress
+
+    with _store(ctx) as store, RowProgress(f"writing {out.name}", quiet=as_json) as progress:
+        rows = export_inventory(store, out, progress)
     _report(as_json, "inventory", out, rows)
 
 
@@ -85,8 +87,10 @@ def count(
 
     if out.suffix.lower() != ".xlsx":
         raise BadValue("output file", str(out), "a name ending in .xlsx (the sheet carries validation)")
-    with _store(ctx) as store:
-        rows = export_count_sheet(store, out)
+    from stock.cli.progress import RowProgress
+
+    with _store(ctx) as store, RowProgress(f"writing {out.name}", quiet=as_json) as progress:
+        rows = export_count_sheet(store, out, progress)
     _report(as_json, "count", out, rows)
 
 

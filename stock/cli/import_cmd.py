@@ -45,15 +45,12 @@ def register(app: typer.Typer) -> None:
         dry_run: Annotated[bool, typer.Option("--dry-run", help="Do everything, keep nothing; show what would change.")] = False,
         as_json: Annotated[bool, typer.Option("--json", help="Print the report as JSON.")] = False,
     ) -> None:
-        from rich.console import Console
-        from rich.progress import BarColumn, Progress, SpinnerColumn, TextColumn, TimeElapsedColumn
-
+        from stock.cli.progress import RowProgress
         from stock.inventory.intake import import_file
         from stock.inventory.stocktake import apply_count_sheet, is_count_sheet, preview_count_sheet
         from stock.store.database import open_store
 
         overrides = _overrides(mapping or [])
-        err = Console(stderr=True)
         reports = []
         counts = []
         with open_store(state(ctx).db_path) as store:
@@ -68,14 +65,9 @@ def register(app: typer.Typer) -> None:
                             was = "unknown" if c.expected is None else str(c.expected)
                             typer.echo(f"  {c.bin_key}: {was} → {c.counted} ({c.delta:+d})")
                     continue
-                with Progress(SpinnerColumn(), TextColumn("{task.description}"), BarColumn(),
-                              TextColumn("{task.completed} rows"), TimeElapsedColumn(),
-                              console=err, transient=True,
-                              disable=not err.is_terminal) as bar:
-                    task = bar.add_task(f"importing {path.name}", total=None)
+                with RowProgress(f"importing {path.name}", quiet=as_json) as progress:
                     report = import_file(store, path, sheet=sheet, overrides=overrides,
-                                         dry_run=dry_run,
-                                         progress=lambda n: bar.update(task, completed=n))
+                                         dry_run=dry_run, progress=progress)
                 reports.append(report)
                 for s in report.sheets:
                     where = f"{path.name}" + (f" [{s.sheet}]" if s.sheet else "")

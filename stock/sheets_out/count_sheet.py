@@ -7,12 +7,13 @@ quantity the store expects, and an empty "Counted" column that accepts only whol
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from decimal import Decimal
 from pathlib import Path
 
 from stock.inventory.bins import natural_key
 from stock.inventory.stocktake import COUNT_HEADERS, MARKER, SHEET_TITLE
-from stock.sheets_out.workbook import Column, new_workbook, save_workbook, sheet_cell
+from stock.sheets_out.workbook import PROGRESS_EVERY, Column, new_workbook, save_workbook, sheet_cell
 from stock.store.database import Store
 from stock.units import format_capacitance
 
@@ -22,8 +23,11 @@ _FORMATS = {"Expected": "#,##0", "Counted": "0"}
 COUNT_COLUMNS = tuple(Column(h, _WIDTHS[h], *((_FORMATS[h],) if h in _FORMATS else ())) for h in COUNT_HEADERS)
 
 
-def export_count_sheet(store: Store, out: Path) -> int:
-    """Write the stock-take sheet for every bin, in natural location order; returns its rows."""
+def export_count_sheet(store: Store, out: Path, progress: Callable[[int], None] | None = None) -> int:
+    """Write the stock-take sheet for every bin, in natural location order; returns its rows.
+
+    ``progress`` is called with the rows written so far, every ``PROGRESS_EVERY`` rows.
+    """
     from openpyxl.worksheet.datavalidation import DataValidation
 
     bins = store.rows("SELECT b.bin_key, b.location, b.label, b.on_hand, p.marking, p.capacitance_pf"
@@ -44,7 +48,9 @@ def export_count_sheet(store: Store, out: Path) -> int:
     ws.data_validations.append(check)
     ws.auto_filter.ref = f"A1:H{last}"
     ws.append([sheet_cell(ws, c.header, bold=True) for c in COUNT_COLUMNS])
-    for r in bins:
+    for n, r in enumerate(bins, start=1):
+        if progress and n % PROGRESS_EVERY == 0:
+            progress(n)
         ws.append([sheet_cell(ws, r["bin_key"]), sheet_cell(ws, r["location"]), sheet_cell(ws, r["label"]),
                    sheet_cell(ws, r["marking"]), sheet_cell(ws, format_capacitance(Decimal(str(r["capacitance_pf"])))
                               if r["capacitance_pf"] is not None else ""),

@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import json
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from decimal import Decimal
 from pathlib import Path
@@ -278,17 +278,20 @@ def _add_drift_chart(wb: Any, dielectrics: Sequence[Dielectric]) -> None:
     ws.add_chart(chart, "A" + str(n + 2))
 
 
-def export_inventory(store: Store, out: Path) -> int:
-    """Write the inventory (XLSX with a drift chart sheet, or CSV); returns the number of bins."""
+def export_inventory(store: Store, out: Path, progress: Callable[[int], None] | None = None) -> int:
+    """Write the inventory (XLSX with a drift chart sheet, or CSV); returns the number of bins.
+
+    ``progress`` is called with the rows written so far, now and then.
+    """
     from stock.inventory.stored_grades import refresh_stored_grades
 
     kind = output_kind(out)
     refresh_stored_grades(store)    # nothing to do unless the grading table changed since
     rows = inventory_rows(store)
     if kind == "csv":
-        return write_csv(out, INVENTORY_COLUMNS, rows)
+        return write_csv(out, INVENTORY_COLUMNS, rows, progress)
     wb = new_workbook()
-    add_table_sheet(wb, "Bins", INVENTORY_COLUMNS, rows)
+    add_table_sheet(wb, "Bins", INVENTORY_COLUMNS, rows, progress=progress)
     _add_drift_chart(wb, _dielectrics_on_hand(store))
     save_workbook(wb, out)
     return len(rows)

@@ -13,7 +13,7 @@ cell longer than a spreadsheet accepts is cut with a visible mark, so nothing ma
 from __future__ import annotations
 
 import csv
-from collections.abc import Iterable, Sequence
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
@@ -59,8 +59,15 @@ def output_kind(path: Path) -> str:
     raise BadValue("output file", str(path), "a name ending in .xlsx or .csv")
 
 
-def write_csv(path: Path, columns: Sequence[Column], rows: Iterable[Sequence[Any]]) -> int:
-    """Write a header and rows as UTF-8 CSV (with BOM, so spreadsheet programs read µ right)."""
+PROGRESS_EVERY = 1000   # rows between two progress calls
+
+
+def write_csv(path: Path, columns: Sequence[Column], rows: Iterable[Sequence[Any]],
+              progress: Callable[[int], None] | None = None) -> int:
+    """Write a header and rows as UTF-8 CSV (with BOM, so spreadsheet programs read µ right).
+
+    ``progress`` is called with the rows written so far, every ``PROGRESS_EVERY`` rows.
+    """
     n = 0
     try:
         with open(path, "w", newline="", encoding="utf-8-sig") as fh:
@@ -69,6 +76,8 @@ def write_csv(path: Path, columns: Sequence[Column], rows: Iterable[Sequence[Any
             for row in rows:
                 out.writerow([guard_csv(v) for v in row])
                 n += 1
+                if progress and n % PROGRESS_EVERY == 0:
+                    progress(n)
     except OSError as exc:
         raise StoreProblem(str(path), f"cannot write the file: {exc.strerror or exc}") from exc
     return n
@@ -107,10 +116,12 @@ def formula_cell(ws: Any, formula: str, number_format: str | None = None, bold: 
 
 
 def add_table_sheet(wb: Any, title: str, columns: Sequence[Column],
-                    rows: Sequence[Sequence[Any]], totals: dict[int, str] | None = None) -> Any:
+                    rows: Sequence[Sequence[Any]], totals: dict[int, str] | None = None,
+                    progress: Callable[[int], None] | None = None) -> Any:
     """A sheet with a bold frozen header, an autofilter, widths and number formats.
 
-    ``totals`` maps a column index to "sum" (a SUM formula under the rows) or a label.
+    ``totals`` maps a column index to "sum" (a SUM formula under the rows) or a label;
+    ``progress`` is called with the rows written so far, every ``PROGRESS_EVERY`` rows.
     """
     from openpyxl.utils import get_column_letter
 
@@ -121,8 +132,10 @@ def add_table_sheet(wb: Any, title: str, columns: Sequence[Column],
     last_col = get_column_letter(len(columns))
     ws.auto_filter.ref = f"A1:{last_col}{len(rows) + 1}"
     ws.append([sheet_cell(ws, c.header, bold=True) for c in columns])
-    for row in rows:
+    for n, row in enumerate(rows, start=1):
         ws.append([sheet_cell(ws, v, col.number_format) for v, col in zip(row, columns)])
+        if progress and n % PROGRESS_EVERY == 0:
+            progress(n)
     if totals:
         line: list[Any] = []
         for i, col in enumerate(columns):
