@@ -70,6 +70,7 @@ class Tank:
     alpha_old_name: str = "C0G"
     coil_h: Decimal | None = None        # when the total was worked out from the coil
     measured: str = ""                   # the drift as typed, for the report
+    delta_t_k: Decimal | None = None     # the warming a whole shift was measured over
 
     @property
     def drift_hz_per_k(self) -> Decimal:
@@ -84,6 +85,18 @@ class Tank:
     def needed_pf_ppm(self) -> Decimal:
         """−TC_eff·C_total (pF·ppm/K): what Cx·(α_new − α_old) must equal."""
         return -self.tc_eff_ppm_per_k * self.c_total_pf
+
+    def direction(self) -> str:
+        """Which way the drift goes, and which kind of tempco cancels it, in words."""
+        if self.drift_ppm_per_k == 0:
+            return "no drift measured"
+        falls = self.drift_ppm_per_k < 0
+        if self.alpha_old == 0:
+            parts = "negative-tempco (N) parts" if falls else "positive-tempco (P) parts"
+        else:
+            parts = f"parts of a tempco {'below' if falls else 'above'} the slice's {self.alpha_old_name}"
+        return (f"the frequency {'falls' if falls else 'rises'} as the box warms: the tank acts as if its "
+                f"capacitance {'rose' if falls else 'fell'}, so {parts} cancel it")
 
     def hz(self, ppm: Decimal) -> Decimal:
         """A drift in ppm/K of f as Hz/K at this tank's frequency."""
@@ -108,7 +121,7 @@ class Tank:
     def to_json(self) -> dict[str, Any]:
         return {"f0_hz": float(self.f0_hz), "c_total_pf": float(self.c_total_pf),
                 "c_total_from": "coil" if self.coil_h is not None else "given",
-                "coil_h": _f(self.coil_h), "measured": self.measured,
+                "coil_h": _f(self.coil_h), "measured": self.measured, "delta_t_k": _f(self.delta_t_k),
                 "drift_hz_per_k": float(self.drift_hz_per_k), "drift_ppm_per_k": float(self.drift_ppm_per_k),
                 "tc_eff_ppm_per_k": float(self.tc_eff_ppm_per_k),
                 "needed_pf_ppm_per_k": float(self.needed_pf_ppm),
@@ -160,7 +173,7 @@ def measure_tank(f0_hz: Decimal, drift: Decimal, drift_unit: str, *, tank_pf: De
         ctx.prec = 28
         per_k = drift if per_kelvin else drift / delta_t_k  # type: ignore[operator]
         ppm = per_k if drift_unit.startswith("ppm") else per_k * _MILLION / f0_hz
-    return Tank(f0_hz, c_total, ppm, alpha_old, alpha_old_name, coil_h, measured)
+    return Tank(f0_hz, c_total, ppm, alpha_old, alpha_old_name, coil_h, measured, delta_t_k)
 
 
 _PPM_NUMBER = re.compile(r"\s*([+\-−]?\d+(?:\.\d+)?)\s*(?:ppm(?:/°?[CK])?)?\s*", re.IGNORECASE)
