@@ -26,6 +26,7 @@ from stock.store import Store
 from stock.units import MINUS, format_capacitance, format_number
 
 _KIND_ORDER = {"single": 0, "parallel": 1, "series": 2}
+LARGE_SHARE = Decimal("0.25")  # a slice past a quarter of the tank hints at a fault: common practice
 
 
 @dataclass(frozen=True)
@@ -110,7 +111,7 @@ class Compensation:
     def to_json(self) -> dict[str, Any]:
         """The ``stock compensate --json`` shape (stable contract)."""
         return {"tank": self.tank.to_json(), "tempcos": [t.to_json() for t in self.tempcos],
-                "options": [o.to_json() for o in self.options],
+                "options": [{**o.to_json(), "text": headline(self.tank, o)} for o in self.options],
                 "buy": None if self.purchase is None else self.purchase.to_json(),
                 "explanation": list(self.explanation), "assumptions": list(self.assumptions),
                 "cautions": list(self.cautions)}
@@ -222,7 +223,9 @@ def compensate(store: Store, tank: Tank, *, combine: bool = False, limit: int = 
         options += [o for o in found if abs(o.result.residual_ppm) < abs(tank.drift_ppm_per_k)]
     options.sort(key=Option.rank)
     options = options[:limit]
-    purchase = None if any(o.useful for o in options) or tank.drift_ppm_per_k == 0 else what_to_buy(tank)
+    purchase = what_to_buy(tank) if tank.drift_ppm_per_k != 0 else None
+    if purchase is not None and options and abs(options[0].result.residual_ppm) <= abs(purchase.result.residual_ppm):
+        purchase = None  # the shelf already does as well as anything to buy
     return Compensation(tank, tuple(tempcos), tuple(options), purchase,
                         _explain(tank, tuple(tempcos), options, purchase), assumptions(tank), cautions(tank))
 
@@ -232,18 +235,16 @@ def _explain(tank: Tank, tempcos: tuple[TempcoOnHand, ...], options: list[Option
     if tank.drift_ppm_per_k == 0:
         return ("the measured drift is zero: nothing to cancel",)
     lines = []
+    done = any(o.useful for o in options)
     if not tempcos:
         lines.append("no Class 1 ceramic with a stated tempco is on hand")
-    elif not any(o.useful for o in options):
-        lines.append("nothing on hand halves the drift" + (f"; nearest: {headline(tank, options[0])}"
-                                                            if options else ""))
-    if not any(o.useful for o in options):
-        if purchase is not None:
-            lines.append(f"to buy: {purchase_line(tank, purchase)}")
-        else:
-            lines.append("no tempco in the table cancels this with a slice of at most half the tank: a drift "
-                         "this large is seldom the capacitors alone; look for a Class 2 part in the tank, "
-                         "a loose winding or a warm coil former first")
+    elif not options:
+        lines.append("no part on hand makes the drift smaller (each tempco's reason is above)")
+    if purchase is not None:
+        lines.append(f"{'closer still, ' if done else ''}to buy: {purchase_line(tank, purchase)}")
+    if purchase is None and not done or purchase is not None and purchase.cx_pf > tank.c_total_pf * LARGE_SHARE:
+        lines.append("a drift this large is seldom the capacitors alone: look for a Class 2 part in the tank, "
+                     "a loose winding or a warm coil former first")
     return tuple(lines)
 
 
@@ -291,7 +292,7 @@ def _places(tank: Tank) -> int:
 def drift_change(tank: Tank, result: Fit) -> str:
     """``drift −20 → +1.0 Hz/K (band −3.2 … +5.2)``."""
     n = _places(tank)
-    before = format_number(round(tank.drift_hz_per_k, n))
+    before = ("+" if tank.drift_hz_per_k > 0 else "") + format_number(round(tank.drift_hz_per_k, n))
     return (f"drift {before} → {_signed(result.residual_hz, n)} Hz/K "
             f"(band {_signed(result.residual_low_hz, n)} … {_signed(result.residual_high_hz, n)})")
 
@@ -316,7 +317,7 @@ def fitted_text(option: Option) -> str:
     joint = " ∥ " if option.kind == "parallel" else " in series with "
     if len(option.parts) == 1:
         p = option.parts[0]
-        return (f"2 × {format_capacitance(p.capacitance_pf)} {p.code} {option.kind} from bin {p.bin_key} "
+        return (f"2 × {format_capacitance(p.capacitance_pf)} {p.code} in {option.kind} from bin {p.bin_key} "
                 f"= {format_capacitance(option.result.value_pf)}")
     a, b = option.parts
     return (f"{format_capacitance(a.capacitance_pf)} {a.code} (bin {a.bin_key}){joint}"
