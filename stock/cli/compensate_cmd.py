@@ -14,8 +14,8 @@ def _opt(*names: str, text: str):
 
 
 def _lines(result) -> list[str]:  # noqa: ANN001 - a stock.compensating.Compensation
-    from stock.compensating import headline
-    from stock.drift import format_frequency
+    from stock.matching.compensating import headline
+    from stock.physics.drift import format_frequency
     from stock.units import format_capacitance, format_number, MINUS
 
     def signed(value: Decimal, places: int = 3) -> str:
@@ -83,10 +83,10 @@ def register(app: typer.Typer) -> None:
         Example: stock compensate --f0 7MHz --tank 300p --drift -20Hz/K --combine
         """
         from stock.cli import state
-        from stock.compensating import compensate as answer
-        from stock.compensation import measure_tank, slice_tempco
+        from stock.matching.compensating import compensate as answer
+        from stock.physics.compensation import measure_tank, slice_tempco
         from stock.errors import BadValue
-        from stock.store import open_store
+        from stock.store.database import open_store
         from stock.units import parse_capacitance, parse_drift, parse_frequency, parse_inductance, parse_kelvin
 
         if limit < 1:
