@@ -20,10 +20,11 @@ Storing
 Physics
     ``stability`` (dielectric figures), ``applications`` (the application table),
     ``grading`` (worst-case budget and grades), ``bin_grades`` (grades over the store),
-    ``drift`` (tank and timer drift),
-    ``combining`` (series and parallel pairs).
+    ``drift`` (tank and timer drift), ``compensation`` (from a measured drift to the tempco slice
+    that cancels it), ``combining`` (series and parallel pairs).
 The jobs
-    ``requirement`` + ``search`` (find), ``bom`` + ``kit`` (planning) + ``kit_plans`` (stored
+    ``requirement`` + ``search`` (find), ``compensating`` (the shelf's parts that null a drifting
+    oscillator), ``bom`` + ``kit`` (planning) + ``kit_plans`` (stored
     plans: pull, undo, drop) + ``kit_rules`` + ``pick_list`` (kitting), ``flag_kinds`` (what
     each flag means) + ``review`` + ``duplicates`` + ``stock_checks`` (flags), ``spreadsheet`` +
     ``exports`` + ``stocktake`` (spreadsheets out), ``demo`` (the demo shop).
