@@ -82,12 +82,13 @@ def register(app: typer.Typer) -> None:
 
         Example: stock compensate --f0 7MHz --tank 300p --drift -20Hz/K --combine
         """
-        from stock.cli import state
+        from stock.cli.context import state
         from stock.matching.compensating import compensate as answer
         from stock.physics.compensation import measure_tank, slice_tempco
         from stock.errors import BadValue
         from stock.store.database import open_store
-        from stock.units import parse_capacitance, parse_drift, parse_frequency, parse_inductance, parse_kelvin
+        from stock.markings.typed_values import parse_capacitance
+        from stock.units import parse_drift, parse_frequency, parse_inductance, parse_kelvin
 
         if limit < 1:
             raise BadValue("--limit", str(limit), "a number of options of 1 or more")
