@@ -14,11 +14,13 @@ from __future__ import annotations
 from decimal import Decimal
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
-from stock.physics.compensation import (Tank, fit, measure_tank, nearest_preferred, slice_tempco, tempco_spread,
-                                what_to_buy)
-from stock.markings.ceramic_codes import decode_dielectric
 from stock.errors import BadOptions, BadValue
+from stock.markings.ceramic_codes import decode_dielectric
+from stock.physics.compensation import (Tank, fit, measure_tank, nearest_preferred, slice_tempco, tempco_spread,
+                                        what_to_buy)
 
 D = Decimal
 MHZ7 = D(7_000_000)
@@ -227,3 +229,25 @@ def test_the_slices_own_tempco_is_a_code_or_a_number(text, alpha, name):
 def test_a_class_2_code_is_no_tempco_for_a_slice():
     with pytest.raises(BadValue, match="--tank-tempco: cannot read 'X7R'"):
         slice_tempco("X7R")
+
+
+# Invariants of the formula itself (LC resonance formula, as above): fitting exactly the slice leaves
+# no drift, and the band over the tempco tolerance always holds the nominal residual.
+_frequencies = st.integers(min_value=100_000, max_value=500_000_000).map(D)
+_tanks = st.integers(min_value=10, max_value=5_000).map(D)
+_drifts = st.integers(min_value=-2_000, max_value=2_000).filter(bool).map(lambda n: D(n) / 10)
+_alphas = st.sampled_from([D(-4700), D(-1500), D(-750), D(-470), D(-150), D(-33), D(100)])
+
+
+@settings(max_examples=200, deadline=None)
+@given(_frequencies, _tanks, _drifts, _alphas, st.integers(min_value=0, max_value=500).map(D))
+def test_the_exact_slice_leaves_no_drift_and_the_band_holds_the_nominal(f0, c, drift, alpha, tol):
+    tank = measure_tank(f0, drift, "Hz/K", tank_pf=c)
+    cx = tank.slice_pf(alpha)
+    if cx is None:
+        # no slice only when the tempco pushes the same way as the drift
+        assert (alpha < 0) == (drift > 0)
+        return
+    assert abs(tank.residual_ppm(cx, alpha)) < D("1E-18")
+    result = fit(tank, cx, alpha, tol)
+    assert result.residual_low_ppm <= result.residual_ppm <= result.residual_high_ppm
