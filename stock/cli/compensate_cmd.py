@@ -25,8 +25,9 @@ def _lines(result) -> list[str]:  # noqa: ANN001 - a stock.compensating.Compensa
     over = f"{tank.measured} over {format_number(tank.delta_t_k)} K = " if tank.delta_t_k is not None else ""
     source = (f"from the {format_number(tank.coil_h * 1_000_000)} µH coil (C = 1/((2πf)²·L))"
               if tank.coil_h is not None else "as given")
-    lines = [f"tank: {format_frequency(tank.f0_hz)}, {format_capacitance(round(tank.c_total_pf, 2))} {source}",
-             f"measured: {over}{format_number(round(tank.drift_hz_per_k, 3))} Hz/K = "
+    total = format_capacitance(round(tank.c_total_pf, 2))
+    lines = [f"tank: {format_frequency(tank.f0_hz)}, {total} {source}",
+             f"measured: {over}{signed(tank.drift_hz_per_k).rstrip('0').rstrip('.')} Hz/K = "
              f"{signed(tank.drift_ppm_per_k)} ppm/K; {tank.direction()}",
              f"effective tempco of the tank: TC_eff = −2·(Δf/f)/ΔT = {signed(tank.tc_eff_ppm_per_k)} ppm/K "
              "(coil, wiring and capacitors lumped)",
@@ -44,8 +45,9 @@ def _lines(result) -> list[str]:  # noqa: ANN001 - a stock.compensating.Compensa
         for n, option in enumerate(result.options, start=1):
             r = option.result
             lines.append(f"  {n}. {headline(tank, option)}")
+            cx = format_capacitance(round(option.cx_pf, 2))
             lines.append(f"     residual {signed(r.residual_ppm)} ppm/K (band {signed(r.residual_low_ppm)} … "
-                         f"{signed(r.residual_high_ppm)}); slice for this tempco {format_capacitance(round(option.cx_pf, 2))};"
+                         f"{signed(r.residual_high_ppm)}); slice for this tempco {cx};"
                          f" new total {format_capacitance(round(r.new_total_pf, 2))}" + (
                              f" after trimming ({format_capacitance(round(r.total_before_trim_pf, 2))} before)"
                              if r.trim_pf else ""))

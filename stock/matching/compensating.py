@@ -119,9 +119,19 @@ class Compensation:
 
 def _slice_part(part: Stocked, count: int = 1) -> SlicePart:
     d = part.marking.dielectric
+    assert d is not None and d.tempco_ppm_per_k is not None  # linear_tempco_parts gives no other
     return SlicePart(part.bin_id, part.bin_key, part.location, part.marking.text,
-                     part.marking.capacitance_pf, d.code, d.tempco_ppm_per_k, tempco_spread(d),  # type: ignore[union-attr,arg-type]
+                     part.marking.capacitance_pf, d.code, d.tempco_ppm_per_k, tempco_spread(d),  # type: ignore[arg-type]
                      count, part.available)
+
+
+def _worst(result: Fit) -> Decimal:
+    return max(abs(result.residual_low_ppm), abs(result.residual_high_ppm))
+
+
+def _better(bought: Fit, on_hand: Fit) -> bool:
+    """A part to buy is worth naming when it beats the shelf's best both nominally and at worst."""
+    return abs(bought.residual_ppm) < abs(on_hand.residual_ppm) and _worst(bought) < _worst(on_hand)
 
 
 def _useful(tank: Tank, result: Fit) -> bool:
@@ -187,10 +197,11 @@ def _tempco_note(tank: Tank, alpha: Decimal, cx: Decimal | None, found: list[Opt
     if alpha == tank.alpha_old:
         return f"the same tempco as the slice ({tank.alpha_old_name}): swapping changes nothing"
     if cx is None:
-        wanted = "negative" if tank.needed_pf_ppm < 0 else "positive"
-        if tank.alpha_old != 0:
-            wanted += f" (below {tank.alpha_old_name})" if wanted == "negative" else f" (above {tank.alpha_old_name})"
-        return f"adds to this drift: cancelling it needs a {wanted} tempco"
+        if tank.alpha_old == 0:
+            return ("adds to this drift: cancelling it needs a "
+                    f"{'negative' if tank.needed_pf_ppm < 0 else 'positive'} tempco")
+        side = "below" if tank.needed_pf_ppm < 0 else "above"
+        return f"adds to this drift: cancelling it needs a tempco {side} the slice's {tank.alpha_old_name}"
     if cx >= tank.c_total_pf:
         return f"would need {describe_slice(cx)}, more than the whole tank"
     if not found:
@@ -224,7 +235,7 @@ def compensate(store: Store, tank: Tank, *, combine: bool = False, limit: int = 
     options.sort(key=Option.rank)
     options = options[:limit]
     purchase = what_to_buy(tank) if tank.drift_ppm_per_k != 0 else None
-    if purchase is not None and options and abs(options[0].result.residual_ppm) <= abs(purchase.result.residual_ppm):
+    if purchase is not None and options and not _better(purchase.result, options[0].result):
         purchase = None  # the shelf already does as well as anything to buy
     return Compensation(tank, tuple(tempcos), tuple(options), purchase,
                         _explain(tank, tuple(tempcos), options, purchase), assumptions(tank), cautions(tank))
