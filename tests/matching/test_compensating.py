@@ -153,3 +153,22 @@ def test_the_json_answer_carries_each_options_parts_slice_and_band(shelf):
             "tempco_tol_marked", "tempco_tol_basis", "count"} <= part.keys()
     assert part["tempco"] == "N150" and part["tempco_tol_ppm_per_k"] == 30 and not part["tempco_tol_marked"]
     assert data["assumptions"] and data["cautions"]
+
+
+def test_a_slice_taken_from_N150_is_replaced_by_C0G_against_a_rising_drift(shelf):
+    tank = vfo("20", alpha_old=D(-150), alpha_old_name="N150")
+    result = compensate(shelf, tank)
+    # Cx·(0 − (−150)) = +1714.2857 → Cx = 11.43 pF of C0G; 10 pF leaves −½·(−5.714286 + 10·150/300)
+    # = +0.357143 ppm/K = +2.5 Hz/K. P100 would need 1714.2857/250 = 6.86 pF: its 15 pF part is too big.
+    assert [(o.parts[0].code, o.result.value_pf) for o in result.options] == [("C0G", 10)]
+    assert close(result.options[0].result.residual_hz, "2.5")
+    assert headline(tank, result.options[0]).startswith("take out 10 pF of N150, fit 10 pF C0G from bin")
+    notes = {t.codes: t.note for t in result.tempcos}
+    assert "changes nothing" in notes[("N150",)]
+    assert "needs a tempco above the slice's N150" in notes[("N750",)]
+
+
+def test_a_part_to_buy_is_named_only_when_it_beats_the_shelf(shelf):
+    # With pairs the shelf leaves +0.125 Hz/K (band −3.9 … +4.15); the best buy, 2.2 pF N750, leaves
+    # −0.75 Hz/K: not better, so nothing to buy.
+    assert compensate(shelf, vfo("-20"), combine=True).purchase is None
