@@ -234,9 +234,8 @@ def linear_tempco_parts(store: Store) -> list[Stocked]:
 
     The flat columns pre-filter; the stored marking (a settled reading wins) has the last word.
     """
-    sql = (f"SELECT * FROM ({_SELECT} WHERE p.class = 1 AND p.tempco_ppm_per_k IS NOT NULL"
-           " AND p.capacitance_pf > 0) WHERE COALESCE(on_hand, 0) - reserved > 0"
-           " ORDER BY capacitance_pf, bin_key")
+    sql = (f"{_SELECT} WHERE p.class = 1 AND p.tempco_ppm_per_k IS NOT NULL AND p.capacitance_pf > 0"
+           " AND s.available > 0 ORDER BY p.capacitance_pf, b.bin_key")
     found = []
     for row in store.rows(sql):
         part = _stocked(row)
