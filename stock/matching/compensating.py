@@ -14,7 +14,7 @@ does, the answer says why, tempco by tempco, and what to buy.
 from __future__ import annotations
 
 from dataclasses import dataclass
-from decimal import Decimal
+from decimal import ROUND_HALF_UP, Decimal
 from typing import Any
 
 from stock.matching.requirement import Stocked
@@ -291,7 +291,9 @@ def _frequency(hz: Decimal) -> str:
 
 
 def _signed(value: Decimal, places: int) -> str:
-    text = f"{round(value, places):+.{places}f}"
+    # Settle the division's last digits first, so an exact −0.75 prints −0.8 and not −0.7.
+    q = value.quantize(Decimal("1E-12")).quantize(Decimal(1).scaleb(-places), rounding=ROUND_HALF_UP)
+    text = f"{q:+.{places}f}"
     return text.replace("-", MINUS) if value != 0 or places else "0"
 
 

@@ -282,7 +282,7 @@ def fit(tank: Tank, value_pf: Decimal, alpha: Decimal, alpha_tol: Decimal) -> Fi
     fixed = nearest_preferred(value_pf)
     return Fit(value_pf, alpha, alpha_tol, nominal, ends[0], ends[1], tank.hz(nominal), tank.hz(ends[0]),
                tank.hz(ends[1]), value_pf, fixed, fixed - value_pf, tank.c_total_pf - fixed + value_pf,
-               tank.c_total_pf - value_pf + value_pf)
+               tank.c_total_pf)  # taking out as much as is fitted keeps the total
 
 
 @dataclass(frozen=True)

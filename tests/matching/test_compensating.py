@@ -76,7 +76,7 @@ def test_the_bench_line_says_what_to_take_out_and_fit(shelf):
     tank = vfo("-20")
     line = headline(tank, compensate(shelf, tank).options[0])
     assert line == ("take out 2.2 pF of C0G, fit 2.2 pF N750 from bin kestrel_row/k4: "
-                    "drift −20 → −0.7 Hz/K (band −3.8 … +2.3)")
+                    "drift −20 → −0.8 Hz/K (band −3.8 … +2.3)")   # −0.75 rounds away from zero
 
 
 def test_a_pair_comes_nearer_than_any_single_part_when_combining(shelf):
