@@ -127,35 +127,40 @@ def xlsx_import(n: int, work: Path, repeats: int = 3) -> dict[str, Any]:
 
 
 _CHILD = """
-import sys, time
+import resource, sys, time
 from tests.bench.imports import csv_baseline_once, import_once
 start = time.perf_counter()
 (import_once if sys.argv[1] == "import" else csv_baseline_once)(sys.argv[2], sys.argv[3])
-print(time.perf_counter() - start)
+print(time.perf_counter() - start, resource.getrusage(resource.RUSAGE_SELF).ru_maxrss)
 """
 
 
 def _child(kind: str, sheet: Path, db: Path) -> tuple[float, float]:
-    """Run one import (or baseline) in a fresh interpreter; (seconds, peak RSS of children in MB)."""
-    import resource
-
+    """Run one import (or baseline) in a fresh interpreter; (seconds, its peak RSS in MB)."""
     out = subprocess.run([sys.executable, "-c", _CHILD, kind, str(sheet), str(db)], cwd=REPO,
                          check=True, capture_output=True, text=True,
                          env={**os.environ, "PYTHONPATH": str(REPO)})
-    peak_kib = resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss  # KiB on Linux
-    return float(out.stdout.strip().splitlines()[-1]), peak_kib / 1024
+    seconds, peak_kib = out.stdout.strip().splitlines()[-1].split()
+    return float(seconds), int(peak_kib) / 1024      # ru_maxrss is in KiB on Linux
 
 
-def memory(n: int, work: Path) -> dict[str, Any]:
-    """Peak RSS of an ``n``-row CSV import in a subprocess (target < 300 MB).
-
-    ``RUSAGE_CHILDREN`` reports the largest child so far, so the (smaller) baseline runs first and
-    no other child runs before it.
-    """
-    sheet = work / f"sheet-{n}.csv"
-    if not sheet.exists():
-        write_csv(sheet, n)
-    base_seconds, base_mb = _child("baseline", sheet, work / "mem-baseline.db")
-    seconds, peak_mb = _child("import", sheet, work / "mem-import.db")
-    return line("memory", n, seconds, base_seconds, peak_rss_mb=round(peak_mb, 1),
-                baseline_peak_rss_mb=round(base_mb, 1), target_mb=300)
+def memory(sizes: tuple[int, ...], work: Path) -> list[dict[str, Any]]:
+    """Peak RSS of CSV imports of each size, each in a fresh interpreter (target: < 300 MB, and
+    the largest no more than 50 MB above the smallest: memory must not grow with the rows), with
+    the database size per 100 000 rows (goal ≤ 60 MB)."""
+    results = []
+    first: float | None = None
+    for n in sizes:
+        sheet = work / f"sheet-{n}.csv"
+        if not sheet.exists():
+            write_csv(sheet, n)
+        db = work / f"mem-import-{n}.db"
+        base_seconds, base_mb = _child("baseline", sheet, work / "mem-baseline.db")
+        seconds, peak_mb = _child("import", sheet, db)
+        first = peak_mb if first is None else first
+        results.append(line("memory", n, seconds, base_seconds, peak_rss_mb=round(peak_mb, 1),
+                            baseline_peak_rss_mb=round(base_mb, 1), target_mb=300,
+                            growth_over_smallest_mb=round(peak_mb - first, 1), target_growth_mb=50,
+                            db_mb_per_100k_rows=round(db.stat().st_size / 1e6 * 100_000 / n, 1)))
+        _fresh(db)
+    return results

@@ -127,10 +127,14 @@ def test_the_pairs_benchmark_reports_growth_between_sizes(tmp_path):
     assert second["n_squared_growth"] == 4.0
 
 
-def test_the_memory_benchmark_measures_a_child_process(tmp_path):
-    result = imports.memory(200, tmp_path)
-    assert_shape(result, "memory", 200)
-    assert result["peak_rss_mb"] >= result["baseline_peak_rss_mb"] > 0
+def test_the_memory_benchmark_measures_a_child_process_per_size(tmp_path):
+    small, big = imports.memory((200, 400), tmp_path)
+    assert_shape(small, "memory", 200)
+    assert_shape(big, "memory", 400)
+    assert small["peak_rss_mb"] >= small["baseline_peak_rss_mb"] > 0
+    assert small["growth_over_smallest_mb"] == 0
+    assert big["growth_over_smallest_mb"] == round(big["peak_rss_mb"] - small["peak_rss_mb"], 1)
+    assert big["db_mb_per_100k_rows"] > 0
 
 
 def test_the_command_prints_one_json_object_per_line(tmp_path, capsys):
