@@ -104,7 +104,7 @@ def m003_markings_once(db: Database) -> None:
     grades kept once per reading (``marking_grades``); ``parts`` and ``grades`` become views of the
     same shape as the old tables, so every reader keeps its SQL. Source rows may now hold a compact
     array of cells under the import's header (``imports.headers_json``); old rows keep their
-    objects.
+    objects. Source rows get an index by bin, and their status index shrinks to the quarantined.
 
     Rows written through the ``parts`` view (tests, older tools) get readings of their own with
     no digest; the importer shares readings by digest.
@@ -154,6 +154,10 @@ def m003_markings_once(db: Database) -> None:
     conn.execute("DROP TABLE old_parts")
     conn.execute("ALTER TABLE imports ADD COLUMN headers_json TEXT")
     conn.execute("CREATE INDEX source_rows_bin ON source_rows(bin_id)")
+    # only quarantined rows are ever looked up by status: index those alone
+    conn.execute("DROP INDEX source_rows_status")
+    conn.execute("CREATE INDEX source_rows_quarantined ON source_rows(import_id)"
+                 " WHERE status = 'quarantined'")
 
 
 __all__ = ["m003_markings_once", "marking_digest"]
