@@ -26,7 +26,7 @@ from stock.inventory.intake_writes import (BinState, Counts, FlagForms, Writer, 
                                            stored_bins)
 from stock.inventory.row_reading import RowReader, cell_text, normalise, read_quantity
 from stock.inventory.source_records import encode_cells
-from stock.inventory.stored_markings import Readings
+from stock.inventory.stored_markings import Readings, set_reading
 from stock.store.database import Store, now
 
 BATCH = 5000
@@ -208,9 +208,8 @@ class SheetIntake:
         if row.text != old.marking:
             # A settled decision outlives re-imports: the bin keeps showing it, the new decoding
             # is kept beside it.
-            from stock.inventory.stored_markings import set_reading
             set_reading(self.conn, old.id, marking, text=row.text, package=f.get("package"),
-                        mounting=f.get("mounting"))
+                        mounting=f.get("mounting"), readings=self.readings)
             old.marking = row.text
             changed = True
         if row.quantity is not None and row.quantity != old.on_hand:

@@ -70,11 +70,12 @@ class Readings:
 
 def set_reading(conn: sqlite3.Connection, bin_id: int, decoded: Marking | None = None, *,
                 settled: Marking | None | bool = False, text: str | None = None,
-                package: str | None = None, mounting: str | None = None) -> None:
+                package: str | None = None, mounting: str | None = None,
+                readings: Readings | None = None) -> None:
     """Point a bin at its readings: a new decoded one (``decoded``), a settled one (``settled``; None
     drops it, False leaves it as it is). A bin with no part yet gets one. Runs in the caller's
-    transaction."""
-    readings = Readings(conn)
+    transaction; ``readings`` lends a writer's remembered readings."""
+    readings = readings or Readings(conn)
     row = conn.execute("SELECT marking_id, settled_id FROM bin_parts WHERE bin_id = ?",
                        (bin_id,)).fetchone()
     marking_id = readings.id_for(decoded, text) if decoded is not None else (row[0] if row else None)
