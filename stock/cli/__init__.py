@@ -29,6 +29,7 @@ COMMAND_MODULES: tuple[str, ...] = (
     "stock.cli.find_cmd",
     "stock.cli.kit_cmd",
     "stock.cli.export_cmd",
+    "stock.cli.labels_cmd",
     "stock.cli.check_cmd",
 )
 

@@ -200,7 +200,19 @@ class LabelSheet:
     labels: tuple[LabelFacts, ...]
     pages: int
     skipped: int
-    notes: tuple[str, ...]
+    trims: tuple[tuple[str, tuple[str, ...]], ...] = ()   # (bin key, lines left out or shortened)
+
+    @property
+    def notes(self) -> tuple[str, ...]:
+        return tuple(f"bin {key}: {', '.join(names)} left out or shortened to fit" for key, names in self.trims)
+
+    def trim_counts(self) -> dict[str, int]:
+        """How many labels left out or shortened each kind of line, most first."""
+        counts: dict[str, int] = {}
+        for _, names in self.trims:
+            for name in names:
+                counts[name] = counts.get(name, 0) + 1
+        return dict(sorted(counts.items(), key=lambda item: -item[1]))
 
     def to_json(self) -> dict:
         return {"path": str(self.path), "layout": self.layout.name, "paper": self.layout.paper,
@@ -237,7 +249,7 @@ def write_labels(labels: Sequence[LabelFacts], layout: Layout, out: Path, *, ski
 
     page_w, page_h = (float(v) * PT_PER_MM for v in layout.page_size)
     temp = out.with_name(f".{out.name}.{os.getpid()}.part")
-    notes: list[str] = []
+    trims: list[tuple[str, tuple[str, ...]]] = []
     try:
         canvas = Canvas(str(temp), pagesize=(page_w, page_h), invariant=1, pageCompression=1)
         canvas.setTitle(f"bin labels, {layout.name}")
@@ -248,7 +260,7 @@ def write_labels(labels: Sequence[LabelFacts], layout: Layout, out: Path, *, ski
                 canvas.showPage()
             block = draw_label(canvas, facts, layout.label_box(position), layout, frame=frames)
             if block.left_out or block.shortened:
-                notes.append(_note(facts, block))
+                trims.append((facts.bin_key, tuple(dict.fromkeys(block.left_out + block.shortened))))
         canvas.showPage()
         canvas.save()
         os.replace(temp, out)
@@ -259,16 +271,7 @@ def write_labels(labels: Sequence[LabelFacts], layout: Layout, out: Path, *, ski
         if temp.exists():
             temp.unlink()
     pages = (len(labels) + skip + layout.per_page - 1) // layout.per_page
-    return LabelSheet(out, layout, tuple(labels), pages, skip, tuple(notes))
-
-
-def _note(facts: LabelFacts, block: Block) -> str:
-    parts = []
-    if block.left_out:
-        parts.append("left out " + ", ".join(block.left_out))
-    if block.shortened:
-        parts.append("shortened " + ", ".join(block.shortened))
-    return f"bin {facts.bin_key}: {'; '.join(parts)} to fit the label"
+    return LabelSheet(out, layout, tuple(labels), pages, skip, tuple(trims))
 
 
 __all__ = ["FONT", "FONT_BOLD", "GRADE_STYLE", "PT_PER_MM", "LabelSheet", "Placed", "draw_label",
