@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from stock.store import Store, open_store
+from stock.store.database import Store, open_store
 
 
 @pytest.fixture
