@@ -8,7 +8,7 @@ The result is plain ASCII (nothing a keyboard layout can garble) and fits the QR
 alphanumeric mode, which packs 2 characters in 11 bits against 8 bits a character in byte mode: a
 smaller code, so larger modules on a small label.
 
-Bin keys are lower-cased when they are made (:func:`stock.row_reading.bin_key`), so the upper-casing
+Bin keys are lower-cased when they are made (:func:`stock.inventory.row_reading.bin_key`), so the upper-casing
 loses nothing and reading back lower-cases the ASCII letters again. The prefix and the hex digits
 are read in either case (a scanner with Caps Lock on still works).
 

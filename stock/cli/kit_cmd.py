@@ -151,7 +151,7 @@ def pull_command(ctx: typer.Context,
 def _scan_and_pull(ctx: typer.Context, plan: str, as_json: bool) -> None:
     import sys
 
-    from stock.pick_scan import check_scan, plan_picks, pull_confirmed
+    from stock.kitting.pick_scan import check_scan, plan_picks, pull_confirmed
 
     with _store(ctx) as store:
         picks = plan_picks(store, plan)

@@ -57,7 +57,7 @@ def register(app: typer.Typer) -> None:
         as_json: Annotated[bool, typer.Option("--json", help="Print what was written as JSON.")] = False,
     ) -> None:
         from stock.labels import make_labels
-        from stock.store import open_store
+        from stock.store.database import open_store
 
         with open_store(state(ctx).db_path, create=False) as store:
             sheet = make_labels(store, out, bins or (), flagged=flagged, changed_since=changed_since,

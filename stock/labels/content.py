@@ -79,7 +79,7 @@ def dielectric_text(d: Dielectric | None, rated_temp_c: Decimal | None = None) -
     Class 1 shows its tempco, Class 2 its change window over its range; a family named in words
     shows its name, with ``typ.`` before figures that come from the family's typical table.
 
-    >>> from stock.families import family_dielectric
+    >>> from stock.markings.families import family_dielectric
     >>> dielectric_text(family_dielectric("polypropylene"))
     'polypropylene typ. −200±100 ppm/K'
     >>> dielectric_text(family_dielectric("aluminium-electrolytic"), Decimal(105))
@@ -168,9 +168,9 @@ def select_labels(store, refs: Sequence[str] = (), *, flagged: bool = False,
         Refused: nothing is left to label.
         BadValue: ``changed_since`` is not a date.
     """
-    from stock.applications import load_rules
-    from stock.bin_grades import refresh_stored_grades, stored_grade_words
-    from stock.bins import bin_parts, bins_changed_since, open_flag_kinds
+    from stock.physics.applications import load_rules
+    from stock.inventory.stored_grades import refresh_stored_grades, stored_grade_words
+    from stock.inventory.bins import bin_parts, bins_changed_since, open_flag_kinds
 
     wanted: list[int] | None = None
     if refs:

@@ -13,8 +13,8 @@ from collections.abc import Iterable
 from dataclasses import dataclass
 
 from stock.errors import Refused, StockError
-from stock.kit_plans import KitAction, pull_plan
-from stock.store import Store
+from stock.kitting.stored_plans import KitAction, pull_plan
+from stock.store.database import Store
 
 
 @dataclass(frozen=True)
@@ -40,7 +40,7 @@ def plan_picks(store: Store, plan: int | str) -> dict[str, int]:
         NotFound: no such plan.
         Refused: the plan is not reserved (pulled, dropped or returned already).
     """
-    from stock.pick_list import pick_list
+    from stock.kitting.pick_list import pick_list
 
     picks = pick_list(store, plan)
     if picks.status != "reserved":
