@@ -12,10 +12,10 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from pathlib import Path
+from typing import TYPE_CHECKING
 
-from stock.labels.content import LabelFacts, select_labels
-from stock.labels.layouts import Layout, choose_layout
-from stock.labels.render import LabelSheet, write_labels
+if TYPE_CHECKING:      # the command's help reads the layouts; drawing code loads only to draw
+    from stock.labels.render import LabelSheet
 
 
 def make_labels(store, out: Path, refs: Sequence[str] = (), *, flagged: bool = False,
@@ -27,10 +27,13 @@ def make_labels(store, out: Path, refs: Sequence[str] = (), *, flagged: bool = F
 
     The layout is checked before the store is read, so a bad option fails fast and writes nothing.
     """
+    from stock.labels.content import select_labels
+    from stock.labels.layouts import choose_layout
+    from stock.labels.render import write_labels
+
     chosen = choose_layout(paper=paper, name=layout, size=size, grid=grid, margins=margins, gap=gap)
     labels = select_labels(store, refs, flagged=flagged, changed_since=changed_since)
     return write_labels(labels, chosen, Path(out), skip=skip, frames=frames)
 
 
-__all__ = ["LabelFacts", "LabelSheet", "Layout", "choose_layout", "make_labels", "select_labels",
-           "write_labels"]
+__all__ = ["make_labels"]

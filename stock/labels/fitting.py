@@ -27,7 +27,7 @@ MIN_PT = 5.0        # the smallest type set on a label: small print that stays l
 MAX_PT = 9.0        # the small type on a large label; the value is set larger
 STEP_PT = 0.25
 LINE_GAP = 0.12     # extra space between lines, as a share of the size (the font's own box is 1 em)
-BOXED_LINE = 1.16   # a line of boxed runs: the box reaches past the face's 1 em to frame the letters
+BOXED_LINE = 1.32   # a line of boxed runs: the box reaches past the face's 1 em, and keeps clear of the next line
 
 Measure = Callable[[str, bool, float], float]
 
@@ -66,6 +66,7 @@ class Line:
     drop: int = 0
     cells: bool = False
     name: str = ""
+    fallback: str = ""         # a shorter text to set instead of ending the line in "…"
 
 
 @dataclass(frozen=True)
@@ -199,50 +200,81 @@ def _cells(line: Line, runs: list[Run], width: float, measure: Measure, gap: flo
     raise AssertionError("unreachable")
 
 
+def _set_line(line: Line, scale: float, width: float, measure: Measure, gap: float,
+              fallbacks: bool) -> tuple[list[SetLine], bool]:
+    runs = [replace(r, size=max(MIN_PT, scale * r.scale)) for r in line.runs]
+    if line.cells:
+        groups, cut = _cells(line, runs, width, measure, gap)
+        return [SetLine(tuple(g), _line_height(g), True, line.name) for g in groups], cut
+    if line.wrap and len(runs) == 1:
+        rows, cut = _wrap(runs[0], width, line.wrap, measure)
+        if cut and line.fallback and fallbacks:
+            rows, cut = _wrap(replace(runs[0], text=line.fallback), width, line.wrap, measure)
+        return [SetLine((r,), _line_height([r]), False, line.name) for r in rows], cut
+    runs, cut = _shrink(runs, width, measure, gap)
+    return [SetLine(tuple(runs), _line_height(runs), False, line.name)], cut
+
+
 def set_lines(lines: Sequence[Line], scale: float, width: float, measure: Measure,
-              gap: float = 0.5) -> Block:
-    """Every line set at one scale (pt of the small type) within ``width`` pt."""
+              gap: float = 0.5, wide: tuple[float, float] | None = None, fallbacks: bool = False) -> Block:
+    """Every line set at one scale (pt of the small type) within ``width`` pt.
+
+    ``wide`` is (depth, width): a line starting at least ``depth`` pt below the top may use the
+    wider width (the text runs on under the QR code).
+    """
     out: list[SetLine] = []
     shortened: list[str] = []
+    depth = 0.0
     for line in lines:
-        runs = [replace(r, size=max(MIN_PT, scale * r.scale)) for r in line.runs]
-        if line.cells:
-            groups, cut = _cells(line, runs, width, measure, gap)
-            out += [SetLine(tuple(g), _line_height(g), True, line.name) for g in groups]
-        elif line.wrap and len(runs) == 1:
-            rows, cut = _wrap(runs[0], width, line.wrap, measure)
-            out += [SetLine((r,), _line_height([r]), False, line.name) for r in rows]
-        else:
-            runs, cut = _shrink(runs, width, measure, gap)
-            out.append(SetLine(tuple(runs), _line_height(runs), False, line.name))
+        room = wide[1] if wide and depth >= wide[0] else width
+        rows, cut = _set_line(line, scale, room, measure, gap, fallbacks)
+        out += rows
+        depth += sum(r.height for r in rows)
         if cut:
             shortened.append(line.name)
     return Block(tuple(out), tuple(shortened))
 
 
 def fit_block(lines: Sequence[Line], width: float, height: float, measure: Measure,
-              largest: float = MAX_PT) -> Block:
+              largest: float = MAX_PT, wide: tuple[float, float] | None = None) -> Block:
     """The lines set as large as fits in ``width`` × ``height`` pt, leaving lines out if it must.
 
-    The result's height never exceeds ``height`` and no run is wider than ``width``; only lines
-    of ``drop`` 0 are kept however full the label is (a block of those alone must fit).
+    The result's height never exceeds ``height`` and no run is wider than its room. Lines that
+    may be left out go (in their ``drop`` order) before a line that may not is shortened; only
+    lines of ``drop`` 0 are kept however full the label is.
     """
+    essential = {line.name for line in lines if not line.drop}
+    block, complete = _fit(lines, width, height, measure, largest, wide, fallbacks=False)
+    if complete:
+        return block
+    # An essential line is still cut with every other line left out: try its shorter form.
+    return _fit(lines, width, height, measure, largest, wide, fallbacks=True)[0] if any(
+        line.fallback for line in lines if line.name in essential) else block
+
+
+def _fit(lines: Sequence[Line], width: float, height: float, measure: Measure, largest: float,
+         wide: tuple[float, float] | None, fallbacks: bool) -> tuple[Block, bool]:
+    """fit_block's search; the flag says no essential line had to be cut."""
     kept = list(lines)
     left_out: list[str] = []
+    essential = {line.name for line in lines if not line.drop}
     while True:
         scale = max(MIN_PT, largest)
         while True:
-            block = set_lines(kept, scale, width, measure)
+            block = set_lines(kept, scale, width, measure, wide=wide, fallbacks=fallbacks)
             if block.height <= height and not block.shortened:
-                return replace(block, left_out=tuple(left_out))
+                return replace(block, left_out=tuple(left_out)), True
             if scale <= MIN_PT:
                 break
             scale = max(MIN_PT, scale - STEP_PT)
-        if block.height <= height:
-            return replace(block, left_out=tuple(left_out))
         droppable = [line for line in kept if line.drop]
+        essential_cut = bool(essential & set(block.shortened))
+        if block.height <= height and not essential_cut:
+            return replace(block, left_out=tuple(left_out)), True
         if not droppable:
-            return _clip(block, height, left_out)
+            if block.height > height:
+                return _clip(block, height, left_out), False
+            return replace(block, left_out=tuple(left_out)), not essential_cut
         first = min(droppable, key=lambda line: line.drop)
         kept.remove(first)
         left_out.append(first.name)

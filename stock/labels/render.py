@@ -78,7 +78,9 @@ def label_lines(facts: LabelFacts) -> list[Line]:
     lines.append(Line(tuple(Run(tag, bold=True, scale=0.95, style=GRADE_STYLE.get(word, "dashed"))
                             for _, tag, word in facts.fitness), wrap=2, drop=3, cells=True, name="fit-for"))
     lines.append(Line((Run("marked " + " ".join(facts.marking.split())),), wrap=2, drop=1, name="marking"))
-    lines.append(Line((Run("bin " + facts.bin_key + _location_note(facts)),), wrap=2, name="bin"))
+    tail = facts.bin_key.rsplit("/", 1)[-1]
+    lines.append(Line((Run("bin " + facts.bin_key + _location_note(facts)),), wrap=3, name="bin",
+                      fallback=f"bin …/{tail}{_location_note(facts)}"))
     if facts.look:
         lines.append(Line((Run("needs a look: " + ", ".join(facts.look), bold=True, style="inverted"),),
                           wrap=2, name="needs a look"))
@@ -92,6 +94,7 @@ class Placed:
     text: tuple[float, float, float, float]     # x, y (bottom), width, height of the text region
     code: tuple[float, float, float]            # x, y (bottom), side of the code's square
     modules: int                                # modules across the code, its border left out
+    wide: tuple[float, float] | None = None     # (depth, width): text under the code may run wider
 
 
 def _qr(payload: str):  # noqa: ANN202  (a segno.QRCode)
@@ -110,7 +113,9 @@ def place(box: Box, padding: float, page_h_pt: float, modules: int) -> Placed:
         side = min(h, QR_SHARE * w, limit)
         module = side / (modules + 2 * QR_BORDER)
         text_w = w - side - 2 * module
-        return Placed((x, top - h, text_w, h), (x + w - side, top - side, side), modules)
+        # Under the code (past its white border and one more module) the text may use the full width.
+        return Placed((x, top - h, text_w, h), (x + w - side, top - side, side), modules,
+                      (side - module, w))
     side = min(0.62 * w, 0.45 * h, limit)
     module = side / (modules + 2 * QR_BORDER)
     text_h = h - side - 2 * module
@@ -168,13 +173,13 @@ def draw_label(canvas, facts: LabelFacts, box: Box, layout: Layout, *, frame: bo
     code = _qr(facts.payload)
     placed = place(box, layout.padding, page_h, code.symbol_size(border=0)[0])
     tx, ty, tw, th = placed.text
-    block = fit_block(label_lines(facts), tw, th, measure)
+    block = fit_block(label_lines(facts), tw, th, measure, wide=placed.wide)
     top = ty + th
     gap = 0.5
     for line in block.lines:
         size = max(r.size for r in line.runs)
         boxed = any(r.padded for r in line.runs)
-        baseline = top - (BOX_ABOVE + 0.01 if boxed else 0.76) * size
+        baseline = top - (BOX_ABOVE + 0.06 if boxed else 0.76) * size
         x = tx
         for i, run in enumerate(line.runs):
             if i:
