@@ -1,4 +1,4 @@
-"""The whole job on the demo shop, in one run: import, flags, grades, find, kits, pull, exports.
+"""The whole job on the demo shop, in one run: import, flags, grades, find, kits, pull, exports, labels.
 
 The demo shop (Lantern Bench Instruments) and its three BOMs live in ``demo_inventory/`` at the
 top of the source tree, written by ``demo_inventory/make_demo.py``. :func:`run_demo` makes a fresh
@@ -86,6 +86,8 @@ def tour(src: Path, out: Path) -> list[Step]:
         Step("The inventory workbook, with the drift-against-temperature chart.",
              ("export", "inventory", str(out / "inventory.xlsx"))),
         Step("A stock-take sheet to fill in and import back.", ("export", "count", str(out / "count.xlsx"))),
+        Step("Bin labels for the drawers: value, ratings, fit-for mark and a QR code of the bin.",
+             ("labels", str(out / "bin_labels.pdf"), "--layout", "a4-3x7-64x38")),
         Step("Verify the database: integrity, ledger against on-hand, no orphans.", ("check",)),
     ]
 
@@ -115,6 +117,7 @@ def run_demo(out: Path, echo: Callable[[str], None], run: Callable[[Sequence[str
         f"stock --db {shlex.quote(str(db))} flags                      # every open flag and how to settle it",
         f"stock --db {shlex.quote(str(db))} show 'cabinet a/a23'       # one bin: facts, readings, history",
         f"stock --db {shlex.quote(str(db))} kit undo 2                 # put the flasher parts back",
+        f"stock --db {shlex.quote(str(db))} show 'BIN:CABINET A/A11'   # what a scanner types from a label",
         f"stock --db {shlex.quote(str(db))} drift --part A5 --f0 7MHz --tank 250p --delta-t 10",
         f"stock --db {shlex.quote(str(db))} import {shlex.quote(str(out / 'count.xlsx'))}   # after filling in Counted",
         "stock decode '104K 2A X7R' '4n7 J 100V' 'yel-vio-brn' --json",
