@@ -179,7 +179,7 @@ def label_value(label: str) -> tuple[str, Decimal] | None:
     >>> label_value("Box 4n7 C0G")
     ('4n7', Decimal('4700'))
     """
-    from stock.units import parse_capacitance
+    from stock.markings.typed_values import parse_capacitance
     for match in _VALUE_TOKEN.finditer(label):
         token = match.group(0).replace(" ", "")
         try:

@@ -316,7 +316,7 @@ def read_requirement(value_text: str, marking_text: str, columns: dict[str, str]
     (Decimal('150'), Decimal('5'), Decimal('100'), 'NP0')
     """
     from stock.markings.decoder import decode
-    from stock.units import parse_capacitance, parse_voltage
+    from stock.markings.typed_values import parse_capacitance, parse_voltage
 
     out: dict[str, Any] = {}
     remarks: list[str] = []
