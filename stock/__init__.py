@@ -17,8 +17,9 @@ layer (top first)     what lives there
 ``physics``/``store`` grading physics and the application table / the SQLite store, its schema,
                       flag kinds and integrity check (the two never import each other)
 ``markings``          code tables, one module per standard, and the decoder
-``decoded``, ``units``,  the frozen decoded values, engineering formatting, count cells, errors
-``counts``, ``errors``
+``decoded``, ``units``,  the frozen decoded values, engineering formatting, count cells, errors,
+``counts``, ``errors``,  the text a bin label's QR code carries (and reading back a scan)
+``scan_codes``
 ====================  ===========================================================================
 
 ``importers/`` (file readers) sits beside ``markings``: it imports only ``stock.errors``.

@@ -8,7 +8,7 @@ from typing import Annotated
 
 import typer
 
-from stock.cli import state
+from stock.cli.context import state
 from stock.labels.layouts import DEFAULT_LAYOUT, LAYOUTS
 
 LABELS_HELP = f"""Write a PDF of bin labels, one per bin, laid out on label sheets.

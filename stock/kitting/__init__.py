@@ -1,5 +1,6 @@
 """Kitting a build from its BOM.
 
 ``bom`` (BOM sheets to requirement lines), ``line_rules`` (what a line accepts), ``planner``
-(allocation of bins to lines), ``stored_plans`` (reserve, pull, undo, drop), ``pick_list``.
+(allocation of bins to lines), ``stored_plans`` (reserve, pull, undo, drop), ``pick_list``, ``pick_scan`` (picks confirmed by
+scanning bin labels, then the pull).
 """
