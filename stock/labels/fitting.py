@@ -152,6 +152,8 @@ def _wrap(run: Run, width: float, limit: int, measure: Measure) -> tuple[list[Ru
     """A wrapping run in at most ``limit`` lines; True when it had to end in "…"."""
     size = run.size
     words = _words(run.text)
+    if not words:
+        return [], False          # nothing but white space: no row to set
     while size > MIN_PT and max(measure(w, run.bold, size) for w in words) > width:
         size = max(MIN_PT, size - STEP_PT)
     pieces: list[str] = []
@@ -245,19 +247,24 @@ def fit_block(lines: Sequence[Line], width: float, height: float, measure: Measu
     """
     essential = {line.name for line in lines if not line.drop}
     block, complete = _fit(lines, width, height, measure, largest, wide, fallbacks=False)
-    if complete:
+    if complete or not any(line.fallback for line in lines if line.name in essential):
         return block
     # An essential line is still cut with every other line left out: try its shorter form.
-    return _fit(lines, width, height, measure, largest, wide, fallbacks=True)[0] if any(
-        line.fallback for line in lines if line.name in essential) else block
+    shorter, complete = _fit(lines, width, height, measure, largest, wide, fallbacks=True)
+    return shorter if complete else block
 
 
 def _fit(lines: Sequence[Line], width: float, height: float, measure: Measure, largest: float,
          wide: tuple[float, float] | None, fallbacks: bool) -> tuple[Block, bool]:
-    """fit_block's search; the flag says no essential line had to be cut."""
+    """fit_block's search; the flag says no essential line had to be cut.
+
+    Leaving lines out helps an essential line only where it gains the room under the code; when
+    it does not, the first block that fitted (fewest lines left out) is the answer.
+    """
     kept = list(lines)
     left_out: list[str] = []
     essential = {line.name for line in lines if not line.drop}
+    first_fit: Block | None = None
     while True:
         scale = max(MIN_PT, largest)
         while True:
@@ -267,14 +274,13 @@ def _fit(lines: Sequence[Line], width: float, height: float, measure: Measure, l
             if scale <= MIN_PT:
                 break
             scale = max(MIN_PT, scale - STEP_PT)
+        if block.height <= height:
+            if not essential & set(block.shortened):
+                return replace(block, left_out=tuple(left_out)), True
+            first_fit = first_fit or replace(block, left_out=tuple(left_out))
         droppable = [line for line in kept if line.drop]
-        essential_cut = bool(essential & set(block.shortened))
-        if block.height <= height and not essential_cut:
-            return replace(block, left_out=tuple(left_out)), True
         if not droppable:
-            if block.height > height:
-                return _clip(block, height, left_out), False
-            return replace(block, left_out=tuple(left_out)), not essential_cut
+            return (first_fit, False) if first_fit else (_clip(block, height, left_out), False)
         first = min(droppable, key=lambda line: line.drop)
         kept.remove(first)
         left_out.append(first.name)

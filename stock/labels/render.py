@@ -41,11 +41,13 @@ GRADE_STYLE = {"fit": "inverted", "marginal": "boxed", "unknown": "dashed", "unf
 @lru_cache(maxsize=1)
 def _fonts() -> None:
     # reportlab is heavy: imported only when a sheet is drawn, and its fonts registered once.
+    import reportlab
     from reportlab.pdfbase import pdfmetrics
     from reportlab.pdfbase.ttfonts import TTFont
 
-    pdfmetrics.registerFont(TTFont(FONT, "Vera.ttf"))
-    pdfmetrics.registerFont(TTFont(FONT_BOLD, "VeraBd.ttf"))
+    faces = Path(reportlab.__file__).resolve().parent / "fonts"   # the library's own copy, never a system one
+    pdfmetrics.registerFont(TTFont(FONT, str(faces / "Vera.ttf")))
+    pdfmetrics.registerFont(TTFont(FONT_BOLD, str(faces / "VeraBd.ttf")))
 
 
 def measure(text: str, bold: bool, size: float) -> float:
@@ -83,7 +85,7 @@ def label_lines(facts: LabelFacts) -> list[Line]:
                       fallback=f"bin …/{tail}{_location_note(facts)}"))
     if facts.look:
         lines.append(Line((Run("needs a look: " + ", ".join(facts.look), bold=True, style="inverted"),),
-                          wrap=2, name="needs a look"))
+                          wrap=3, name="needs a look"))
     return lines
 
 

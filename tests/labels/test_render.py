@@ -18,7 +18,8 @@ from stock.labels.render import write_labels
 from stock.scan_codes import bin_key_from_scan
 from tests.labels.conftest import LONG_KEY, PT_PER_MM, box_pt, chars_in, render_page, text_of
 
-LAYOUTS = ["a4-5x13-38x21", "a4-3x8-70x37", "letter-3x10-67x25", "letter-2x5-102x51"]
+# The smallest and the default sheets, two letter sheets, and a custom portrait label of our own.
+LAYOUTS = ["a4-5x13-38x21", "a4-3x8-70x37", "letter-3x10-67x25", "letter-2x5-102x51", "size=30x50 grid=6x5"]
 
 
 def label_text(pdf, layout, position, inner=False):
@@ -29,6 +30,9 @@ def label_text(pdf, layout, position, inner=False):
 
 
 def _sheet(store, tmp_path, name, **options):
+    if name and "=" in name:
+        options = dict(part.split("=") for part in name.split())
+        name = None
     layout = choose_layout(name=name) if name else choose_layout(**options)
     labels = select_labels(store)
     sheet = write_labels(labels, layout, tmp_path / "labels.pdf", frames=False)
@@ -85,7 +89,7 @@ def test_the_value_is_the_largest_type_on_each_label(shelf, tmp_path):
         assert len(value_sizes) == 1
 
 
-@pytest.mark.parametrize("name", ["a4-5x13-38x21", "a4-3x8-70x37", "letter-3x10-67x25"])
+@pytest.mark.parametrize("name", ["a4-5x13-38x21", "a4-3x8-70x37", "letter-3x10-67x25", "size=30x50 grid=6x5"])
 def test_each_qr_code_decodes_to_the_bin_key_of_the_label_it_sits_on(shelf, tmp_path, name):
     zxingcpp = pytest.importorskip("zxingcpp")
     sheet, layout, labels = _sheet(shelf, tmp_path, name)
