@@ -154,8 +154,14 @@ def _wrap(run: Run, width: float, limit: int, measure: Measure) -> tuple[list[Ru
     words = _words(run.text)
     if not words:
         return [], False          # nothing but white space: no row to set
-    while size > MIN_PT and max(measure(w, run.bold, size) for w in words) > width:
+    full = width
+
+    def room(size: float) -> float:   # a boxed run keeps its box's inner margin inside the width
+        return full - 2 * pad(size) if run.padded else full
+
+    while size > MIN_PT and max(measure(w, run.bold, size) for w in words) > room(size):
         size = max(MIN_PT, size - STEP_PT)
+    width = room(size)
     pieces: list[str] = []
     for word in words:
         if measure(word, run.bold, size) > width:

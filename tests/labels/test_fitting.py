@@ -66,8 +66,10 @@ def test_a_line_that_runs_on_under_the_code_gets_the_wider_room():
                 min_size=1, max_size=8),
        st.floats(min_value=40, max_value=200), st.floats(min_value=20, max_value=120))
 def test_whatever_the_text_the_block_never_leaves_its_box(texts, width, height):
+    styles = ("plain", "inverted", "plain", "boxed")
     lines = [Line((Run("47 µF", bold=True, scale=2.1),), name="value")] + [
-        Line((Run(t, bold=i % 2 == 0),), wrap=2, drop=i % 3, name=f"line {i}") for i, t in enumerate(texts)]
+        Line((Run(t, bold=i % 2 == 0, style=styles[i % 4]),), wrap=2, drop=i % 3, name=f"line {i}")
+        for i, t in enumerate(texts)]
     block = fit_block(lines, width, height, measure)
     assert block.height <= height + 1e-6
     for line in block.lines:

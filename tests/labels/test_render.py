@@ -46,7 +46,7 @@ def test_every_bins_value_and_key_are_on_its_own_label_in_grid_order(shelf, tmp_
         texts = [label_text(pdf, layout, position) for position in range(len(labels))]
     for position, (facts, text) in enumerate(zip(labels, texts)):
         assert facts.value in text, (position, facts.bin_key, text)
-        if facts.bin_key != LONG_KEY or name != "a4-5x13-38x21":
+        if facts.bin_key != LONG_KEY or layout.label_w > 40:     # see the next test for narrow labels
             assert "bin " + facts.bin_key in text, (position, facts.bin_key, text)
 
 
