@@ -159,8 +159,11 @@ def _wrap(run: Run, width: float, limit: int, measure: Measure) -> tuple[list[Ru
     def room(size: float) -> float:   # a boxed run keeps its box's inner margin inside the width
         return full - 2 * pad(size) if run.padded else full
 
-    while size > MIN_PT and max(measure(w, run.bold, size) for w in words) > room(size):
-        size = max(MIN_PT, size - STEP_PT)
+    widest = max(words, key=lambda w: measure(w, run.bold, 1.0))
+    while size > MIN_PT and measure(widest, run.bold, size) > room(size):
+        # widths grow with the size: jump near the size that fits, then step down to it
+        guess = size * room(size) / measure(widest, run.bold, size)
+        size = max(MIN_PT, min(size - STEP_PT, STEP_PT * int(guess / STEP_PT)))
     width = room(size)
     pieces: list[str] = []
     for word in words:
@@ -183,8 +186,12 @@ def _wrap(run: Run, width: float, limit: int, measure: Measure) -> tuple[list[Ru
 
 def _shrink(runs: list[Run], width: float, measure: Measure, gap: float) -> tuple[list[Run], bool]:
     """Runs kept on one line, set smaller until they fit; True when the last had to end in "…"."""
-    while runs_width(runs, measure, gap) > width and max(r.size for r in runs) > MIN_PT:
-        runs = [replace(r, size=max(MIN_PT, r.size * 0.96)) for r in runs]
+    for _ in range(8):     # widths grow with the sizes: one proportional step, again where a run hit 5 pt
+        wide = runs_width(runs, measure, gap)
+        if wide <= width or max(r.size for r in runs) <= MIN_PT:
+            break
+        factor = width / wide * 0.999
+        runs = [replace(r, size=max(MIN_PT, r.size * factor)) for r in runs]
     if runs_width(runs, measure, gap) <= width:
         return runs, False
     last = runs[-1]
@@ -271,15 +278,25 @@ def _fit(lines: Sequence[Line], width: float, height: float, measure: Measure, l
     left_out: list[str] = []
     essential = {line.name for line in lines if not line.drop}
     first_fit: Block | None = None
+    scales = [max(MIN_PT, largest - i * STEP_PT) for i in range(int((largest - MIN_PT) / STEP_PT) + 1)]
     while True:
-        scale = max(MIN_PT, largest)
-        while True:
-            block = set_lines(kept, scale, width, measure, wide=wide, fallbacks=fallbacks)
-            if block.height <= height and not block.shortened:
-                return replace(block, left_out=tuple(left_out)), True
-            if scale <= MIN_PT:
-                break
-            scale = max(MIN_PT, scale - STEP_PT)
+        def attempt(scale: float) -> Block:
+            return set_lines(kept, scale, width, measure, wide=wide, fallbacks=fallbacks)
+
+        def whole(block: Block) -> bool:
+            return block.height <= height and not block.shortened
+
+        block = attempt(scales[-1])
+        if whole(block):
+            # the largest scale that still fits: a smaller scale never fits worse, so bisect
+            low, high = 0, len(scales) - 1          # scales[high] fits; find the first that does
+            while low < high:
+                middle = (low + high) // 2
+                if whole(found := attempt(scales[middle])):
+                    high, block = middle, found
+                else:
+                    low = middle + 1
+            return replace(block, left_out=tuple(left_out)), True
         if block.height <= height:
             if not essential & set(block.shortened):
                 return replace(block, left_out=tuple(left_out)), True

@@ -51,11 +51,17 @@ def _fonts() -> None:
 
 
 def measure(text: str, bold: bool, size: float) -> float:
-    """The width of ``text`` in pt, in the label face."""
+    """The width of ``text`` in pt, in the label face (widths grow in proportion to the size)."""
+    return _unit_width(text, bold) * size
+
+
+@lru_cache(maxsize=65536)
+def _unit_width(text: str, bold: bool) -> float:
+    # The fitter measures the same words at many sizes: measure each once, at 1 pt.
     from reportlab.pdfbase.pdfmetrics import stringWidth
 
     _fonts()
-    return stringWidth(text, FONT_BOLD if bold else FONT, size)
+    return stringWidth(text, FONT_BOLD if bold else FONT, 1.0)
 
 
 def _location_note(facts: LabelFacts) -> str:
