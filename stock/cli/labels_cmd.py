@@ -41,7 +41,7 @@ def register(app: typer.Typer) -> None:
     def labels_command(
         ctx: typer.Context,
         out: Annotated[Path, typer.Argument(metavar="OUT.pdf", help="The PDF file to write.")],
-        bins: Annotated[list[str] | None, typer.Argument(metavar="[BIN]...", help="Bins to label (default: all).")] = None,
+        bins: Annotated[list[str] | None, typer.Argument(metavar="BIN", help="Bins to label (default: all).")] = None,
         flagged: Annotated[bool, typer.Option("--flagged", help="Only bins with open flags.")] = False,
         changed_since: Annotated[str | None, typer.Option("--changed-since", metavar="DATE",
                                                           help="Only bins changed since DATE (UTC), e.g. 2026-11-30.")] = None,
