@@ -31,7 +31,7 @@ from stock.units import format_capacitance, format_temperature_range, format_tol
 
 _ROOT_TWO = Decimal(2).sqrt()
 _C0G_TOL = Decimal(30)     # C0G = 0 ± 30 ppm/K (EIA-198, S1); NP0 is the same characteristic (S1, S3)
-_RULE_RANK = {"like-for-like": 0, "mains-by-class": 0, "upgrade": 2}   # named trade rules rank 1
+_RULE_RANK = {"like-for-like": 0, "mains-by-class": 0, "upgrade": 2, "less-stable-on-request": 3}  # named: 1
 _GRADE_RANK = {"fit": 0, "marginal": 1, None: 2}
 # Kinds chosen for stability, mostly found in tuned circuits (common practice, no published source).
 TUNED_KINDS = frozenset({"mica", "polystyrene", "ceramic-1"})
@@ -167,8 +167,10 @@ def _mounting(need: Need, mounting: str | None) -> tuple[bool, str | None]:
 
 def _admits(rule: Substitution, need: Need, m: Marking, drift: Decimal | None) -> str | None:
     """None when the rule admits the part, else why not."""
-    if rule.admits == "class" or need.allow_less_stable:
+    if rule.admits == "class":
         return None
+    if rule.admits == "asked":
+        return None if need.allow_less_stable else "less stable than the original (not offered unless asked)"
     if rule.admits.startswith("fit:"):
         job = rule.admits.removeprefix("fit:")
         g = grade(m, job, need.conditions)
