@@ -7,7 +7,7 @@ from typing import Annotated
 
 import typer
 
-from stock.cli import state
+from stock.cli.context import state
 
 REPLACE_HELP = """What on the shelf can stand in for a part: give its marking as read off the body (colour codes too) or a bin.
 

@@ -48,7 +48,8 @@ from stock.physics.grading import APPLICATIONS, Conditions, grade, kind_of, wors
 from stock.physics.stability import SHELF_LIFE, is_polarised
 from stock.store.database import Store
 from stock.inventory.bins import part_marking, stored_marking
-from stock.units import format_capacitance, format_tolerance, format_voltage, parse_temperature_range, parse_voltage
+from stock.markings.typed_values import parse_voltage
+from stock.units import format_capacitance, format_voltage, parse_temperature_range
 
 POSITIONS = ("line-line", "line-earth")
 # Mounting words on a part or in a sheet's mounting/package cell. Common practice, no published source.
