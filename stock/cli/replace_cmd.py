@@ -78,7 +78,7 @@ def register(app: typer.Typer) -> None:
     def replace_command(
         ctx: typer.Context,
         part: Annotated[str, typer.Argument(metavar="MARKING|BIN",
-                                            help="The part's marking as read (quote it), or a bin key, location or label.")],
+                                            help="The part's marking as read (quote it), or a bin key or location.")],
         use: Annotated[str | None, typer.Option("--use", help="The job, if it asks more than the original gave: tuned, timing, signal, bypass, bulk, mains.")] = None,
         temp: Annotated[str | None, typer.Option("--temp", help="Temperature range LOW..HIGH in °C (default 0..50).")] = None,
         volts: Annotated[str | None, typer.Option("--volts", help="The circuit's working voltage (across the mains: the mains voltage, AC).")] = None,

@@ -106,35 +106,46 @@ def _strip_mounting(text: str) -> str:
     return " ".join(kept)
 
 
+def _bin_named(store: Store, text: str) -> dict[str, Any] | None:
+    """The bin whose key or location is ``text``; labels and numbers are left out, since a label
+    ("330p") or a number ("104") is more often the value the user means.
+
+    Raises:
+        NotFound: a location shared by several bins (their keys are named).
+    """
+    if text.isdigit():
+        return None
+    found = store.rows("SELECT * FROM bins WHERE bin_key = ? COLLATE NOCASE", (text,)) or \
+        store.rows("SELECT * FROM bins WHERE location = ? COLLATE NOCASE", (text,))
+    if len(found) > 1:
+        raise NotFound("single bin", text, "one of " + ", ".join(r["bin_key"] for r in found[:6]))
+    return found[0] if found else None
+
+
 def read_original(store: Store | None, text: str) -> Original:
-    """The part to replace, from a marking or a bin (by key, location or label, never by number).
+    """The part to replace, from a marking or a bin (by key or location, never by label or number).
 
     A text that names a bin and also reads as a marking is taken as the bin, and a note says so.
 
     Raises:
         BadValue: the text is neither a readable marking with a value nor a bin.
+        NotFound: the text is a location several bins share.
     """
     raw = text.strip()
     marking = decode(_strip_mounting(raw))
     mounting = mounting_of(raw)
-    found = None
-    if store is not None and raw and not raw.isdigit():   # a bare number is a value code, not a bin id
-        try:
-            found = store.find_bin(raw)
-        except NotFound:
-            found = None
+    found = _bin_named(store, raw) if store is not None and raw else None
     if found is not None:
         row = store.one("SELECT * FROM parts WHERE bin_id = ?", (found["id"],))
         if row is not None:
             notes = ()
             if marking.capacitance_pf is not None:
-                notes = (f"{raw!r} names bin {found['bin_key']}; read as that bin's part (write the marking "
-                         "with its unit to mean the marking)",)
+                notes = (f"{raw!r} names bin {found['bin_key']}; read as that bin's part",)
             return Original(raw, part_marking(row), found["bin_key"], found["id"],
                             mounting_of(row.get("mounting"), row.get("package"), row["marking"]), notes)
     if marking.capacitance_pf is None:
         raise BadValue("MARKING|BIN", raw, "a marking with a value, such as '470pF 5% silver mica 500V' or "
-                                           "'white yellow violet red gold brown', or a bin key, location or label")
+                                           "'white yellow violet red gold brown', or a bin key or location")
     return Original(raw, marking, mounting=mounting)
 
 
