@@ -432,6 +432,9 @@ def replace_part(store: Store, text: str, *, use: str | None = None, temp: str |
     if not singles and not pairs:
         searched = find(store, need.requirement, combine=combine and not need.mains)
         explanation = tuple(refused[:6]) + searched.explanation
+        if need.bar_pct is None and not need.mains and not need.use:
+            explanation = (f"{need.bar_basis}: add the dielectric to the marking (e.g. X7R, mica, "
+                           "electrolytic), or name the job with --use",) + explanation
         if not explanation:
             explanation = ("no part on the shelf meets the value, tolerance, rating and job",)
         buy = _buy(need)

@@ -26,12 +26,13 @@ from stock.matching.search import Combination, Match
 from stock.matching.substitutions import (MOUNTING_CHANGES, NEVER_STAND_INS, SAFETY, Substitution,
                                           candidate_rules)
 from stock.physics.grading import Conditions, grade, kind_of, worst_case
-from stock.physics.stability import is_polarised, pm
+from stock.physics.stability import is_polarised
 from stock.units import format_capacitance, format_temperature_range, format_tolerance, format_voltage
 
 _ROOT_TWO = Decimal(2).sqrt()
 _C0G_TOL = Decimal(30)     # C0G = 0 ± 30 ppm/K (EIA-198, S1); NP0 is the same characteristic (S1, S3)
-_RULE_RANK = {"like-for-like": 0, "mains-by-class": 0, "upgrade": 2, "less-stable-on-request": 3}  # named: 1
+_RULE_RANK = {"like-for-like": 0, "mains-by-class": 0, "upgrade": 2, "fit-for-the-job": 2,
+              "less-stable-on-request": 3}   # the trade's named rules rank 1
 _GRADE_RANK = {"fit": 0, "marginal": 1, None: 2}
 # Kinds chosen for stability, mostly found in tuned circuits (common practice, no published source).
 TUNED_KINDS = frozenset({"mica", "polystyrene", "ceramic-1"})
@@ -171,12 +172,14 @@ def _admits(rule: Substitution, need: Need, m: Marking, drift: Decimal | None) -
         return None
     if rule.admits == "asked":
         return None if need.allow_less_stable else "less stable than the original (not offered unless asked)"
+    if rule.admits == "job":
+        return None if need.bar_pct is None and need.use else "the original's stability is known: it is the bar"
     if rule.admits.startswith("fit:"):
         job = rule.admits.removeprefix("fit:")
         g = grade(m, job, need.conditions)
         return None if g.word == "fit" else f"{rule.name} asks a part fit for {job}; this one is {g.word}"
     if need.bar_pct is None:
-        return f"{need.bar_basis}: no stand-in can be shown to be as stable (give the dielectric, or allow less stable)"
+        return "cannot be compared with the original, whose stability is not known"
     if drift is None:
         return "its stability is not known (dielectric not marked)"
     if drift > need.bar_pct:

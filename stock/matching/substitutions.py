@@ -10,7 +10,8 @@ trade has learnt, each rule as one line of data:
   and what admits the stand-in: ``"original"`` (it drifts no more than the original did),
   ``"fit:<job>"`` (it grades fit for that job: mica and C0G/NP0 are the trade's equals in tuned
   work though their tempcos differ), ``"class"`` (across the mains only the safety class and
-  the rating count) or ``"asked"`` (only when the user asks for less stability). The first rule that matches wins; a stand-in no rule admits is not offered.
+  the rating count), ``"job"`` (the original's stability is not known, and the stand-in is fit
+  for the job the user named) or ``"asked"`` (only when the user asks for less stability). The first rule that matches wins; a stand-in no rule admits is not offered.
 - **mounting changes** (:data:`MOUNTING_CHANGES`): an axial can may become a radial part, with the
   note the repairer needs; a leaded position never takes a chip.
 - **never** (:data:`NEVER_STAND_INS`): kinds the trade does not put back into equipment.
@@ -80,6 +81,7 @@ SUBSTITUTIONS: tuple[Substitution, ...] = (
     _rule("timing-aluminium-to-tantalum", {"aluminium-electrolytic"}, {"tantalum", "tantalum-polymer"}, False, {"timing"}, "original", "an aluminium electrolytic in a timing position gives way to a tantalum: more stable, lower leakage", _COMMON),  # common practice, no published source
     _rule("like-for-like", {ANY}, {SAME}, False, None, "original", "the same kind of part as the original", _COMMON),  # common practice, no published source
     _rule("upgrade", {ANY}, {ANY}, False, None, "original", "a part that drifts no more than the original is always allowed (an upgrade)", _COMMON),  # common practice, no published source
+    _rule("fit-for-the-job", {ANY}, {ANY}, False, None, "job", "the original's stability is not known: a part fit for the job named (--use) stands in", _COMMON),  # common practice, no published source
     _rule("less-stable-on-request", {ANY}, {ANY}, False, None, "asked", "a part that drifts more than the original, offered only because less stability was asked for", _COMMON),  # common practice, no published source
 )
 
@@ -141,7 +143,7 @@ def rule_for(original: str | set[str], stand_in: set[str], *, mains: bool, use: 
 def rules_from(original: set[str], *, mains: bool, use: str | None) -> tuple[Substitution, ...]:
     """The named rules (not the generic ones for any kind) that could apply to an original, in order."""
     return tuple(r for r in SUBSTITUTIONS
-                 if r.name not in ("like-for-like", "upgrade", "less-stable-on-request")
+                 if r.name not in ("like-for-like", "upgrade", "fit-for-the-job", "less-stable-on-request")
                  and (r.mains is None or r.mains == mains)
                  and (r.uses is None or use in r.uses)
                  and ANY not in r.originals and matches(r.originals, original))

@@ -279,3 +279,13 @@ def test_the_json_answer_has_the_original_the_requirement_the_stand_ins_and_the_
     assert first["rule"]["name"] == "like-for-like" and first["rule"]["source"]
     assert data["original"]["decoded"]["capacitance_pf"] == 330.0
     assert data["requirement"]["drift_bar_pct"] == pytest.approx(0.4375)   # 175 ppm/K × 25 K
+
+
+def test_an_original_of_unknown_dielectric_takes_a_part_fit_for_the_job_named(shelf):
+    # the colour code says value and tolerance only (IEC 60062: yellow violet brown = 470 pF, no band ±20 %)
+    unknown = replace_part(shelf, "yellow violet brown")
+    assert unknown.stand_ins == ()
+    assert "add the dielectric to the marking" in unknown.explanation[0]
+    named = replace_part(shelf, "yellow violet brown", use="tuned")
+    assert rules(named) and set(rules(named).values()) == {"fit-for-the-job"}
+    assert "m5" not in bins(named)             # X7R: unfit for tuned, whatever the original was
