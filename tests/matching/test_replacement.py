@@ -289,3 +289,36 @@ def test_an_original_of_unknown_dielectric_takes_a_part_fit_for_the_job_named(sh
     named = replace_part(shelf, "yellow violet brown", use="tuned")
     assert rules(named) and set(rules(named).values()) == {"fit-for-the-job"}
     assert "m5" not in bins(named)             # X7R: unfit for tuned, whatever the original was
+
+
+ORIGINALS = ["white yellow violet red gold brown", "330pF 2% polystyrene 125V", "223Z 500V Z5U disc",
+             ".047 MFD 400V paper tubular", "47uF 25V electrolytic axial", "471J C0G 500V", "X2 0.047uF 275VAC",
+             "Y2 4n7 M 250VAC", "475K 50V X7R", "4u7 10% 250VAC polyester", "47uF 50V bipolar electrolytic"]
+
+
+@pytest.mark.parametrize("text", ORIGINALS)
+@pytest.mark.parametrize("use", [None, "tuned", "timing", "bypass"])
+def test_no_stand_in_ever_breaks_the_never_rules(shelf, text, use):
+    # the rules themselves: IEC 60384-14 for the classes, common practice for the rest
+    from stock.markings.safety_classes import read_safety_class
+    from stock.physics.stability import is_polarised
+
+    try:
+        r = replace_part(shelf, text, use=use, combine=True)
+    except BadValue:
+        return      # a mains part with another job named is refused outright
+    need = r.need
+    assert not (need.mains and r.pairs)
+    for s in r.stand_ins + r.pairs:
+        for p in s.parts:
+            m = p.marking
+            if need.voltage_floor is not None and s.arrangement != "series":
+                peak = m.voltage_v * (2 ** 0.5 if m.voltage_kind == "AC" and need.voltage_kind == "DC" else 1)
+                assert peak >= need.voltage_floor, (text, p.bin_key)
+            if need.safety_needed:
+                assert read_safety_class(m.safety_class).covers(need.safety_needed), (text, p.bin_key)
+            family = m.dielectric.family if m.dielectric else None
+            if is_polarised(family, m.polarity) and not need.polarised:
+                assert POLARISED_FOR_PLAIN_CAUTION in r.cautions and need.voltage_kind != "AC"
+            if need.bar_pct is not None and s.rule.admits == "original":
+                assert s.drift_pct <= need.bar_pct, (text, p.bin_key)
