@@ -77,9 +77,10 @@ class Original:
     bin_id: int | None = None
     mounting: str | None = None
     notes: tuple[str, ...] = ()
+    package: str | None = None
 
     def to_json(self) -> dict[str, Any]:
-        return {"text": self.text, "bin": self.bin_key, "mounting": self.mounting,
+        return {"text": self.text, "bin": self.bin_key, "mounting": self.mounting, "package": self.package,
                 "summary": summary(self.marking), "decoded": self.marking.to_json(), "notes": list(self.notes)}
 
 
@@ -142,7 +143,8 @@ def read_original(store: Store | None, text: str) -> Original:
             if marking.capacitance_pf is not None:
                 notes = (f"{raw!r} names bin {found['bin_key']}; read as that bin's part",)
             return Original(raw, part_marking(row), found["bin_key"], found["id"],
-                            mounting_of(row.get("mounting"), row.get("package"), row["marking"]), notes)
+                            mounting_of(row.get("mounting"), row.get("package"), row["marking"]), notes,
+                            row.get("package"))
     if marking.capacitance_pf is None:
         raise BadValue("MARKING|BIN", raw, "a marking with a value, such as '470pF 5% silver mica 500V' or "
                                            "'white yellow violet red gold brown', or a bin key or location")
@@ -252,6 +254,7 @@ def implied_need(original: Original, *, use: str | None = None, temp: str | None
     return Need(requirement=requirement, value_band=value_band, kind=kind_of(m), names=frozenset(part_names(m)),
                 voltage_floor=floor, voltage_kind=floor_kind, bar_pct=bar, bar_basis=basis,
                 polarised=is_polarised(family, m.polarity), polarity=m.polarity, mounting=original.mounting,
+                package=original.package,
                 safety_needed=needed, use=use, mains=mains, allow_less_stable=allow_less_stable,
                 notes=tuple(notes), original=m)
 
@@ -280,15 +283,16 @@ class ReplaceResult:
                 "suggestion": self.suggestion, "buy": self.buy}
 
 
-def _shelf_rows(store: Store, bin_ids: list[int]) -> dict[int, tuple[Marking, str | None]]:
-    """Each bin's stored marking and mounting (from its mounting or package cell, else its marking)."""
+def _shelf_rows(store: Store, bin_ids: list[int]) -> dict[int, tuple[Marking, str | None, str | None]]:
+    """Each bin's stored marking, mounting (from its mounting or package cell, else its marking)
+    and package cell."""
     if not bin_ids:
         return {}
     marks = ",".join("?" * len(bin_ids))
     rows = store.db.conn.execute(
         f"SELECT bin_id, decoded_json, settled_json, mounting, package, marking FROM parts"
         f" WHERE bin_id IN ({marks})", bin_ids).fetchall()
-    return {r[0]: (stored_marking(r[1], r[2]), mounting_of(r[3], r[4], r[5])) for r in rows}
+    return {r[0]: (stored_marking(r[1], r[2]), mounting_of(r[3], r[4], r[5]), r[4]) for r in rows}
 
 
 def _singles(store: Store, need: Need, original: Original) -> tuple[list[StandIn], list[str]]:
@@ -296,10 +300,10 @@ def _singles(store: Store, need: Need, original: Original) -> tuple[list[StandIn
     shelf = _shelf_rows(store, [m.bin_id for m in found])
     offered, refused = [], []
     for match in found:
-        marking, mounting = shelf[match.bin_id]
+        marking, mounting, package = shelf[match.bin_id]
         verdict = judge(need, marking, mounting)
         if verdict.ok:
-            offered.append(single_stand_in(match, marking, mounting, verdict, need))
+            offered.append(single_stand_in(match, marking, mounting, verdict, need, package))
         else:
             refused.append(f"bin {match.bin_key} ({match.marking}): {verdict.why_not}")
     return offered, refused

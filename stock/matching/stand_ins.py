@@ -54,6 +54,7 @@ class Need:
     polarised: bool
     polarity: str | None
     mounting: str | None
+    package: str | None               # the original bin's package cell, when it came from a bin
     safety_needed: str | None         # an IEC 60384-14 code such as X2 or X1Y2
     use: str | None
     mains: bool
@@ -95,6 +96,7 @@ class Need:
                 "voltage_floor_v": f(self.voltage_floor), "voltage_kind": self.voltage_kind,
                 "drift_bar_pct": f(self.bar_pct), "drift_bar_basis": self.bar_basis,
                 "kind": self.kind, "polarised": self.polarised, "mounting": self.mounting,
+                "package": self.package,
                 "mains": self.mains, "safety_needed": self.safety_needed,
                 "allow_less_stable": self.allow_less_stable, "notes": list(self.notes)}
 
@@ -336,11 +338,12 @@ class PartUse:
     count: int
     available: int | None = None
     mounting: str | None = None
+    package: str | None = None
 
     def to_json(self) -> dict[str, Any]:
         return {"bin": self.bin_key, "location": self.location, "marking": self.marking.text,
                 "summary": summary(self.marking), "facts": self.marking.to_json(), "count": self.count,
-                "available": self.available, "mounting": self.mounting}
+                "available": self.available, "mounting": self.mounting, "package": self.package}
 
 
 @dataclass(frozen=True)
@@ -373,18 +376,27 @@ class StandIn:
                 "drift_pct": None if self.drift_pct is None else float(self.drift_pct)}
 
 
-def single_stand_in(match: Match, m: Marking, mounting: str | None, verdict: Verdict, need: Need) -> StandIn:
-    part = PartUse(match.bin_key, match.location, m, 1, match.available, mounting)
-    return StandIn("single", (part,), m.capacitance_pf, verdict.rule, differences(need, m, verdict),
+def _package_difference(need: Need, package: str | None) -> tuple[str, ...]:
+    """The size the sheets give, when both the original's bin and the stand-in's name one."""
+    if need.package and package and need.package.strip().lower() != package.strip().lower():
+        return (f"package {package} against the original's {need.package}: check that it fits",)
+    return ()
+
+
+def single_stand_in(match: Match, m: Marking, mounting: str | None, verdict: Verdict, need: Need,
+                    package: str | None = None) -> StandIn:
+    part = PartUse(match.bin_key, match.location, m, 1, match.available, mounting, package)
+    return StandIn("single", (part,), m.capacitance_pf, verdict.rule,
+                   differences(need, m, verdict) + _package_difference(need, package),
                    match.reasons, match.grade, match.value_error_pct, verdict.extra_rules,
                    verdict.polarised_for_plain, verdict.polarity_swap, verdict.mounting_note is not None,
                    verdict.drift_pct)
 
 
-def pair_stand_in(combo: Combination, shelf: list[tuple[Marking, str | None]], verdicts: list[Verdict],
-                  need: Need) -> StandIn:
-    parts = tuple(PartUse(p.bin_key, None, m, p.count, None, mount)
-                  for p, (m, mount) in zip(combo.parts, shelf))
+def pair_stand_in(combo: Combination, shelf: list[tuple[Marking, str | None, str | None]],
+                  verdicts: list[Verdict], need: Need) -> StandIn:
+    parts = tuple(PartUse(p.bin_key, None, m, p.count, None, mount, package)
+                  for p, (m, mount, package) in zip(combo.parts, shelf))
     diffs: list[str] = []
     for part, verdict in zip(parts, verdicts):
         diffs.extend(f"{part.bin_key}: {d}" for d in differences(need, part.marking, verdict)

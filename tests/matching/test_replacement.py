@@ -322,3 +322,18 @@ def test_no_stand_in_ever_breaks_the_never_rules(shelf, text, use):
                 assert POLARISED_FOR_PLAIN_CAUTION in r.cautions and need.voltage_kind != "AC"
             if need.bar_pct is not None and s.rule.admits == "original":
                 assert s.drift_pct <= need.bar_pct, (text, p.bin_key)
+
+
+def test_a_bin_original_names_the_package_a_stand_in_differs_in(tmp_path):
+    # the sheets' own package cells (invented sizes of our shelf)
+    sheet = tmp_path / "cans.csv"
+    sheet.write_text("Bin,Marking,Qty,Mounting,Package\n"
+                     "C1,470uF 35V electrolytic,3,radial,10x16\n"
+                     "C2,470uF 50V electrolytic,8,radial,12.5x20\n"
+                     "C3,470uF 35V electrolytic,5,radial,10x16\n", encoding="utf-8")
+    with open_store(tmp_path / "cans.db") as store:
+        import_file(store, sheet)
+        r = replace_part(store, "C1")
+    assert bins(r) == ["c3", "c2"]
+    assert r.stand_ins[0].differences == ()
+    assert "package 12.5x20 against the original's 10x16: check that it fits" in r.stand_ins[1].differences
