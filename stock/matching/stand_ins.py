@@ -93,6 +93,8 @@ class Need:
         def f(v: Decimal | None) -> float | None:
             return None if v is None else float(v)
         return {**self.requirement.to_json(), "description": self.describe(),
+                "value_min_pf": f(self.value_band[0]) if self.value_band else None,
+                "value_max_pf": f(self.value_band[1]) if self.value_band else None,
                 "voltage_floor_v": f(self.voltage_floor), "voltage_kind": self.voltage_kind,
                 "drift_bar_pct": f(self.bar_pct), "drift_bar_basis": self.bar_basis,
                 "kind": self.kind, "polarised": self.polarised, "mounting": self.mounting,

@@ -279,6 +279,7 @@ def test_the_json_answer_has_the_original_the_requirement_the_stand_ins_and_the_
     assert first["rule"]["name"] == "like-for-like" and first["rule"]["source"]
     assert data["original"]["decoded"]["capacitance_pf"] == 330.0
     assert data["requirement"]["drift_bar_pct"] == pytest.approx(0.4375)   # 175 ppm/K × 25 K
+    assert (data["requirement"]["value_min_pf"], data["requirement"]["value_max_pf"]) == (323.4, 336.6)  # ±2 %
 
 
 def test_an_original_of_unknown_dielectric_takes_a_part_fit_for_the_job_named(shelf):
