@@ -32,23 +32,23 @@ from decimal import Decimal
 from typing import Any
 
 from stock.decoded import Marking
-from stock.physics import combining
 from stock.errors import BadValue, NotFound
+from stock.inventory.bins import part_marking, stored_marking
 from stock.markings.decoder import (DEFER_CAUTION, POLARISED_FOR_PLAIN_CAUTION, POLARITY_MARKS_CAUTION,
                                     RETUNE_CAUTION, cautions as marking_cautions, decode, summary)
 from stock.markings.families import family_dielectric
 from stock.markings.preferred_values import nearest, series_for_tolerance
 from stock.markings.safety_classes import CAUTION as MAINS_CAUTION, read_safety_class
+from stock.markings.typed_values import parse_voltage
 from stock.matching.requirement import DEFAULT_BUY_TOL_PCT, Requirement, fmt, tolerance_pct
 from stock.matching.search import Combination, Match, candidates, find
 from stock.matching.stand_ins import (TUNED_KINDS, Need, StandIn, judge, part_names, pair_stand_in,
                                       single_stand_in, stand_in_rank)
 from stock.matching.substitutions import FIFTEEN_PCT_CLASS2, FILMS, NEVER_STAND_INS, rules_from
+from stock.physics import combining
 from stock.physics.grading import APPLICATIONS, Conditions, grade, kind_of, worst_case
 from stock.physics.stability import SHELF_LIFE, is_polarised
 from stock.store.database import Store
-from stock.inventory.bins import part_marking, stored_marking
-from stock.markings.typed_values import parse_voltage
 from stock.units import format_capacitance, format_voltage, parse_temperature_range
 
 POSITIONS = ("line-line", "line-earth")

@@ -21,10 +21,10 @@ from stock.decoded import Marking
 from stock.markings.decoder import describe_dielectric, summary
 from stock.markings.safety_classes import read_safety_class
 from stock.matching.requirement import Requirement, fmt, tolerance_pct
-from stock.physics import combining
 from stock.matching.search import Combination, Match
 from stock.matching.substitutions import (MOUNTING_CHANGES, NEVER_STAND_INS, SAFETY, Substitution,
                                           candidate_rules)
+from stock.physics import combining
 from stock.physics.grading import Conditions, grade, kind_of, worst_case
 from stock.physics.stability import is_polarised
 from stock.units import format_capacitance, format_temperature_range, format_tolerance, format_voltage
@@ -36,7 +36,6 @@ _RULE_RANK = {"like-for-like": 0, "mains-by-class": 0, "upgrade": 2, "fit-for-th
 _GRADE_RANK = {"fit": 0, "marginal": 1, None: 2}
 # Kinds chosen for stability, mostly found in tuned circuits (common practice, no published source).
 TUNED_KINDS = frozenset({"mica", "polystyrene", "ceramic-1"})
-_TUNED_KINDS = TUNED_KINDS
 
 
 @dataclass(frozen=True)
@@ -281,7 +280,7 @@ def differences(need: Need, m: Marking, verdict: Verdict) -> tuple[str, ...]:
         shift = m.dielectric.tempco_ppm_per_k - o.dielectric.tempco_ppm_per_k
         out.append(f"tempco {a_new} against the original's {a_old}"
                    + (f" (a shift of {'+' if shift > 0 else ''}{fmt(shift)} ppm/K: check the alignment)"
-                      if shift and (need.kind in _TUNED_KINDS or need.use == "tuned") else ""))
+                      if shift and (need.kind in TUNED_KINDS or need.use == "tuned") else ""))
     elif m.dielectric and o.dielectric and m.dielectric.code != o.dielectric.code and not a_new:
         out.append(f"{describe_dielectric(m.dielectric)} against the original's {describe_dielectric(o.dielectric)}")
     if verdict.drift_pct is not None and need.bar_pct is not None and verdict.drift_pct != need.bar_pct:
