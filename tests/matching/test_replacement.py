@@ -11,8 +11,10 @@ repair trade's common practice (no published source) for the substitution rules.
 from __future__ import annotations
 
 import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
-from stock.errors import BadValue
+from stock.errors import BadValue, NotFound
 from stock.inventory.intake import import_file
 from stock.markings.decoder import (DEFER_CAUTION, POLARISED_FOR_PLAIN_CAUTION, POLARITY_MARKS_CAUTION,
                                     RETUNE_CAUTION)
@@ -338,3 +340,14 @@ def test_a_bin_original_names_the_package_a_stand_in_differs_in(tmp_path):
     assert bins(r) == ["c3", "c2"]
     assert r.stand_ins[0].differences == ()
     assert "package 12.5x20 against the original's 10x16: check that it fits" in r.stand_ins[1].differences
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(text=st.text(max_size=60))
+def test_any_text_gives_an_answer_or_one_clear_error(shelf, text):
+    # the decoder never raises (its own fuzz tests); replace adds only its own usage errors
+    try:
+        result = replace_part(shelf, text)
+    except (BadValue, NotFound):
+        return
+    assert result.cautions[-1] == DEFER_CAUTION
