@@ -6,7 +6,9 @@ one sheet per cabinet) plus a semicolon-separated cp1252 CSV typed on another ma
 drawer cabinet by the window. The markings are of every kind the decoders read, with the typos,
 ambiguous codes, a label that contradicts its marking, a duplicate bin and a few bad rows that
 a real register has. Three BOMs of our own design go with it: a 7 MHz VFO board that needs
-stable parts, a two-LED flasher with a 555 timer, and a mains inlet with an X2 position.
+stable parts, a two-LED flasher with a 555 timer, and a mains inlet with an X2 position. The tour
+ends with a repair of our own invention: an old receiver's oscillator whose silver mica (dots
+white orange orange red gold brown, 330 pF) has failed, replaced from cabinets A and B.
 """
 
 from __future__ import annotations

@@ -12,7 +12,7 @@ layer (top first)     what lives there
 ``labels``            bin labels (PDF)
 ``sheets_out``        spreadsheets written: inventory, purchasing, count sheet
 ``kitting``           BOM reading, line rules, the planner, stored plans, pick lists
-``matching``          requirements and the search of the shelf (find)
+``matching``          requirements, the search of the shelf (find), stand-ins for a part (replace)
 ``inventory``         bins from sheets: intake, queries, stored grades, flags, settling
 ``physics``/``store`` grading physics and the application table / the SQLite store, its schema,
                       flag kinds and integrity check (the two never import each other)

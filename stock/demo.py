@@ -1,4 +1,5 @@
-"""The whole job on the demo shop, in one run: import, flags, grades, find, kits, pull, exports, labels.
+"""The whole job on the demo shop, in one run: import, flags, grades, find, kits, pull, a repair,
+exports, labels.
 
 The demo shop (Lantern Bench Instruments) and its three BOMs live in ``demo_inventory/`` at the
 top of the source tree, written by ``demo_inventory/make_demo.py``. :func:`run_demo` makes a fresh
@@ -85,6 +86,9 @@ def tour(src: Path, out: Path) -> list[Step]:
         Step("The flashers' pick list, in drawer order.",
              ("kit", "picklist", "2", "--xlsx", str(out / "flasher_pick_list.xlsx"))),
         Step("Pull the flasher parts: one transaction, a ledger movement per bin.", ("kit", "pull", "2")),
+        Step("A repair: an old transistor receiver's local oscillator has a failed silver mica,"
+             " dots white orange orange red gold brown. What in the bins can take its place?",
+             ("replace", "white orange orange red gold brown", "--use", "tuned")),
         Step("What to order for every plan's shortfalls and every bin under its minimum.",
              ("export", "purchasing", str(out / "purchasing.xlsx"), "--below-minimum")),
         Step("The inventory workbook, with the drift-against-temperature chart.",
