@@ -135,6 +135,10 @@ def plan_text(kit: KitPlan) -> str:
         out.append("not tracked (no bins for these kinds):")
         out.extend(f"\t{' '.join(l.refs) or '(row ' + str(l.row) + ')'}\t{l.value}\t{l.kind}"
                    f"\t{l.need}" for l in kit.not_tracked)
+    if kit.not_fitted:
+        out.append("not fitted (marked do-not-fit; nothing taken):")
+        out.extend(f"\t{' '.join(l.refs) or '(row ' + str(l.row) + ')'}\t{l.value}\t{l.kind}"
+                   f"\t{l.details.get('not_fitted') or ''}" for l in kit.not_fitted)
     out.extend(f"CAUTION: {c}" for c in kit.cautions)
     return "\n".join(out)
 
