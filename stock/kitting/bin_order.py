@@ -53,6 +53,7 @@ FAMILY_RANK: dict[str, tuple[int, str]] = {
 }
 CLASS1_RANK = 2         # C0G / NP0: stable, kept for the positions that need it
 COMPENSATING_RANK = 3   # N750, P100 ...: made to cancel a coil's drift, rarely restocked
+EVERYDAY_CLASS1_PF = Decimal(1000)   # common practice, no published source
 HIGH_RATING_V = Decimal(250)     # a rating this high and 4× what is asked is a special part
 VERY_HIGH_RATING_V = Decimal(1000)
 
@@ -95,9 +96,10 @@ class Candidate:
 
 
 def _tightness(tol_pct: Decimal | None) -> int:
+    """±5 % and looser are everyday tolerances; ±2 % and ±1 % are kept for who asks for them."""
     if tol_pct is None:
         return 0
-    return 3 if tol_pct <= 1 else 2 if tol_pct <= 2 else 1 if tol_pct <= 5 else 0
+    return 2 if tol_pct <= 1 else 1 if tol_pct <= 2 else 0
 
 
 def _dielectric_rank(marking: Marking) -> tuple[int, str]:
@@ -108,6 +110,8 @@ def _dielectric_rank(marking: Marking) -> tuple[int, str]:
         if d.klass == 1:
             if d.tempco_ppm_per_k is not None and d.tempco_ppm_per_k != 0:
                 return COMPENSATING_RANK, f"{d.code} temperature-compensating ceramic"
+            if marking.capacitance_pf is not None and marking.capacitance_pf <= EVERYDAY_CLASS1_PF:
+                return 0, ""        # up to 1 nF, C0G is the everyday ceramic
             return CLASS1_RANK, f"{d.code} (Class 1)"
         return 0, ""
     return FAMILY_RANK.get(d.family, (1, d.family.replace("-", " ")))

@@ -121,10 +121,14 @@ def write_pick_list_xlsx(pl: PickList, path: Path) -> int:
     return len(rows)
 
 
+def _count(n: int, noun: str) -> str:
+    return f"{n} {noun}{'' if n == 1 else 's'}"
+
+
 def plan_text(kit: KitPlan) -> str:
     """A plan in words: each line with its bins, notes and shortfall, then not tracked, cautions."""
     out = [f"plan {kit.id}: {kit.boards} board{'s' if kit.boards != 1 else ''}, {kit.status},"
-           f" {len(kit.tracked_lines)} capacitor lines, {kit.short_lines} short"]
+           f" {_count(len(kit.tracked_lines), 'capacitor line')}, {kit.short_lines} short"]
     for line in kit.tracked_lines:
         refs = " ".join(line.refs) or f"(row {line.row})"
         bins = ", ".join(f"{a.bin_key} ×{a.qty}" for a in line.allocations) or "nothing on hand"

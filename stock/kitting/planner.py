@@ -344,7 +344,8 @@ def _pairs(store: Store, plan_id: int, line_id: int, line: BomLine, options: Kit
         for bin_id, n in per_position.items():
             _hold(store, plan_id, line_id, bin_id, n * use)
         filled += use
-        notes.append(f"{use} position(s) from a {_pair_text(combo)}; two parts per position")
+        notes.append(f"{use} position{'' if use == 1 else 's'} from a {_pair_text(combo)}; two parts"
+                     " per position")
         for v in verdicts:
             notes.extend(v.notes)
     if filled < left and refused:
