@@ -8,7 +8,7 @@ from typing import Annotated
 
 import typer
 
-from stock.cli import state
+from stock.cli.context import state
 
 kit_app = typer.Typer(no_args_is_help=True, help="Kit a build from stock: plan a BOM, pull, undo, drop.")
 

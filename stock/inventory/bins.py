@@ -15,6 +15,7 @@ from functools import lru_cache
 from typing import Any
 
 from stock.decoded import Marking, Tolerance
+from stock.store.flag_kinds import QUARANTINE_FIXES
 from stock.store.database import Store
 
 
@@ -196,7 +197,6 @@ def quarantined_rows(store: Store) -> list[dict[str, Any]]:
     Older imports of the same file are left out: once an edited file is imported again, its
     earlier quarantined rows are history, not work to do.
     """
-    from stock.inventory.intake import QUARANTINE_FIXES
     out = []
     for r in store.rows(
             "SELECT s.row_number, s.sheet, s.raw_json, s.reasons_json, i.file_name, i.path, i.at"

@@ -100,7 +100,8 @@ def _tolerance_pct(text: str, capacitance_pf: Decimal) -> Decimal:
 def _value_and_marking(value_text: str, marking_text: str) -> tuple[Decimal, Marking | None, list[str]]:
     """The capacitance the value and marking columns agree on, the marking read, remarks."""
     from stock.markings.decoder import decode
-    from stock.units import format_capacitance, parse_capacitance
+    from stock.markings.typed_values import parse_capacitance
+    from stock.units import format_capacitance
 
     remarks: list[str] = []
     marking = None
@@ -148,7 +149,7 @@ def _from_marking(marking: Marking, capacitance: Decimal, out: dict[str, Any]) -
 
 
 def _voltage_column(text: str, out: dict[str, Any]) -> None:
-    from stock.units import parse_voltage
+    from stock.markings.typed_values import parse_voltage
 
     safety = SAFETY_CLASS_RE.search(text)     # "275VAC X2" in one cell
     if safety:

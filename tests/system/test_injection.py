@@ -27,7 +27,7 @@ from stock.cli import app
 from stock.sheets_out.exports import export_inventory, export_purchasing
 from stock.inventory.intake import import_file
 from stock.sheets_out.workbook import FORMULA_PREFIXES
-from stock.inventory.stocktake import export_count_sheet
+from stock.sheets_out.count_sheet import export_count_sheet
 from stock.store.database import open_store
 from tests.helpers_procs import write_bin_sheet
 
