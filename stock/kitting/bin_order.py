@@ -29,6 +29,7 @@ from typing import Any
 
 from stock.decoded import Marking
 from stock.inventory.bins import natural_key
+from stock.kitting.requirement_reading import POLARISED_FAMILIES
 
 GRADE_RANK = {"fit": 0, "marginal": 1, "unknown": 2}
 
@@ -75,6 +76,7 @@ class Candidate:
     capability: tuple[int, ...] = (0, 0, 0, 0)   # see capability(); lower gives up less
     capability_words: tuple[str, ...] = ()
     package_doubt: str = ""         # why its fit to the footprint is not known
+    package_fit: str = ""           # how it fits the footprint, when that was checked
 
     @property
     def tier(self) -> tuple[int, int, int, int]:
@@ -159,6 +161,9 @@ def capability(line: Any, marking: Marking, capacitance_pf: Decimal | None) -> t
             words.append(f"{marking.safety_class}, a class above the {wanted} asked")
     dielectric, why = _dielectric_rank(marking)
     dielectric = max(0, dielectric - _asked_rank(line))
+    if getattr(line, "polarised", False) and marking.dielectric is not None \
+            and marking.dielectric.family in POLARISED_FAMILIES:
+        dielectric = 0          # a polarised position asked for this kind of part
     if why and dielectric:
         words.append(why)
     tolerance = 0
@@ -207,7 +212,9 @@ def order_notes(line: Any, chosen: list[tuple[Candidate, int]], pool: list[Candi
         return notes
     plainest = min(c.capability for c, _ in chosen)
     what = f"{line.application} position" if getattr(line, "application", None) else "position"
-    kept = [c for c in pool if c.bin_id not in used and c.capability > plainest and c.available > 0]
+    reach = max(c.tier for c, _ in chosen)     # bins of a later tier were never in the running
+    kept = [c for c in pool if c.bin_id not in used and c.capability > plainest and c.available > 0
+            and c.tier <= reach]
     for cand in sorted(kept, key=Candidate.order)[:2]:
         notes.append(f"kept {cand.bin_key} ({cand.marking.text}: {cand.words()}) for the positions"
                      " that need it; a plainer part does this one")

@@ -218,7 +218,7 @@ class _LineReader:
                            problem=BomProblem(number, self.header("qty"), qty_text,
                                               "no quantity and no designators"))
         if package is not None:
-            remarks.extend(f"footprint {package.raw!r}: {n}" for n in package.notes)
+            remarks.extend(f"footprint {package.raw!r}: {n}" for n in package.conflicts)
         columns = {name: self.cell(cells, name) for name in
                    ("tolerance", "voltage", "dielectric", "tempco", "application")}
         try:

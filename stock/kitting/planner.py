@@ -243,9 +243,12 @@ def _pool(store: Store, line: BomLine, options: KitOptions,
         if verdict.refused:
             refused.append(f"{match.bin_key} ({match.marking}): {verdict.refused}")
             continue
-        fit, why = (True, "")
+        fit, why, fit_note = True, "", ""
         if line.package is not None and match.bin_id in packages:
-            fit, why = fits(packages[match.bin_id], line.package)
+            held = packages[match.bin_id]
+            fit, why = fits(held, line.package)
+            if fit and held.known and line.package.known:
+                fit_note = f"{held.describe()}, fits {line.package.describe_pads()}"
         if fit is False:
             misfits.append(f"{match.bin_key} ({match.marking}): {why}")
             continue
@@ -257,7 +260,8 @@ def _pool(store: Store, line: BomLine, options: KitOptions,
                               match.capacitance_pf, free, match.grade, tuple(match.reasons),
                               exact=match.capacitance_pf == line.capacitance_pf,
                               doubts=doubts.get(match.bin_id, ()), capability=rank,
-                              capability_words=words, package_doubt=why if fit is None else ""))
+                              capability_words=words, package_doubt=why if fit is None else "",
+                              package_fit=fit_note))
     return pool, refused, misfits
 
 
@@ -270,8 +274,8 @@ def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
     chosen = choose_bins(need, pool)
     for cand, qty in chosen:
         taken[cand.bin_id] = qty
-        if cand.package_doubt:
-            notes.append(f"{cand.bin_key}: {cand.package_doubt}")
+        if cand.package_doubt or cand.package_fit:
+            notes.append(f"{cand.bin_key}: {cand.package_doubt or cand.package_fit}")
         if cand.doubts:
             notes.append(f"{cand.bin_key}: used although it has open flags ({', '.join(cand.doubts)});"
                          " see `stock flags`")

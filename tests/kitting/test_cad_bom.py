@@ -142,7 +142,7 @@ def test_a_bin_with_no_recorded_package_is_used_after_the_known_ones_with_a_note
     # the plain disc, then the 1 kV disc (known to fit), only then the bin of unknown package
     assert _bins(kit.lines[0]) == [("s12", 100), ("s10", 30), ("s11", 10)]
     notes = " | ".join(kit.lines[0].notes)
-    assert "s11: package not recorded; check it fits a through-hole radial" in notes
+    assert "s11: package not recorded; check it fits a through-hole radial footprint" in notes
     assert ("s10: 1 kV DC rating used for this position: the plainer bins (supply_shelf/s12) do not"
             " cover the need") in notes
 
