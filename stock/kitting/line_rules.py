@@ -6,8 +6,10 @@ The rules (common practice, no published source, except where a standard is name
   (:func:`stock.search.safety_covers`); a part without a class never goes there. No allowance
   relaxes this.
 - A tuned line never takes a Class 2 ceramic, nor a part whose dielectric is unknown.
-- A polarised part goes only where the BOM says the position is polarised, or, when the line
-  names no dielectric, at a bulk, bypass or timing position of 1 µF or more (where electrolytics
+- A polarised part never goes on a CAD footprint named as unpolarised (``C_0805_2012Metric``;
+  the libraries name polarised ones ``CP_…``): the board marks no polarity there. Otherwise it
+  goes only where the BOM says the position is polarised (a polarised footprint says so), or,
+  when the line names no dielectric, at a bulk, bypass or timing position of 1 µF or more (where electrolytics
   are the norm), with a note to fit it by the board's polarity mark.
 - The rated voltage asked is a minimum: a higher rating is allowed and said so.
 - A Class 1 code or tempco window needs a linear tempco inside the window (C0G for NP0 is the same
@@ -98,6 +100,10 @@ def check_part(line: BomLine, marking: Marking, capacitance_pf: Decimal | None,
             return Verdict(f"{dielectric.code} is a Class 2 ceramic; never in a tuned circuit")
     polarised = marking.polarity is not None or (dielectric is not None
                                                  and dielectric.family in POLARISED_FAMILIES)
+    pads = line.package
+    if polarised and pads is not None and pads.cad_name and not pads.polarised_hint:
+        return Verdict(f"polarised part for the unpolarised footprint {pads.raw!r}: the board marks"
+                       " no polarity there")
     if polarised and not line.polarised:
         what = (dielectric.family if dielectric else marking.polarity or "").replace("-", " ")
         if not _polarised_fits(line):

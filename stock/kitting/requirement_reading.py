@@ -118,6 +118,10 @@ def _value_and_marking(value_text: str, marking_text: str) -> tuple[Decimal, Mar
                              " (150p, 4n7, 0.1u)")
         try:
             value = parse_capacitance(text, what=column)
+            if decoded.capacitance_pf != value:
+                # The whole cell is a typed value ("1n"): a marking reading of it ("1n" as a
+                # voltage code) says nothing more about the line.
+                decoded = Marking(text, capacitance_pf=value)
         except BadValue as exc:
             value = decoded.capacitance_pf
             if value is None:

@@ -144,6 +144,8 @@ class PackageFacts:
         body: the body sizes given, or None.
         pitch_mm: the lead pitch (through-hole), or None.
         polarised_hint: the name is a polarised-capacitor footprint or says polarised.
+        cad_name: the text is a CAD capacitor footprint name (``C_…``, ``CP_…``), whose library
+            names polarised footprints as such: one without the hint has no polarity mark.
         notes: how a reading was chosen.
         conflicts: disagreements inside the text (two sizes, SMD and through-hole ...); the
             facts in dispute are left unset.
@@ -161,6 +163,7 @@ class PackageFacts:
     notes: tuple[str, ...] = ()
     unparsed: tuple[str, ...] = field(default=())
     conflicts: tuple[str, ...] = ()
+    cad_name: bool = False
 
     @property
     def known(self) -> bool:
@@ -220,6 +223,7 @@ class PackageFacts:
             "pitch_mm": None if self.pitch_mm is None else float(self.pitch_mm),
             "polarised_hint": self.polarised_hint, "notes": list(self.notes),
             "conflicts": list(self.conflicts), "unparsed": list(self.unparsed),
+            "cad_name": self.cad_name,
         }
 
 
@@ -367,7 +371,7 @@ def _resolve(raw: str, r: _Reading, cad_name: bool) -> PackageFacts:
     return PackageFacts(raw=raw, chip_size=chip, mounting=mounting, lead_form=lead_form,
                         style=r.style, body=_body(r, lead_form), pitch_mm=r.pitch,
                         polarised_hint=r.polarised, notes=tuple(notes), unparsed=tuple(r.unparsed),
-                        conflicts=tuple(conflicts))
+                        conflicts=tuple(conflicts), cad_name=cad_name)
 
 
 @lru_cache(maxsize=4096)

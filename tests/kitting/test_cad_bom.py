@@ -159,3 +159,27 @@ def test_pull_and_undo_of_a_cad_plan_still_reconcile(shelf, cad_bom):
     assert check_store(shelf).ok
     undo_pull(shelf, kit.id)
     assert check_store(shelf).ok
+
+
+def test_a_polarised_part_never_goes_on_an_unpolarised_cad_footprint(shelf, tmp_path):
+    # CAD libraries name polarised footprints CP_...; C_1206 has no polarity mark on the board
+    extra = tmp_path / "tantalum_drawer.csv"
+    extra.write_text("Bin,Marking,Qty,Package\nT1,10uF 16V tantalum,100,1206\n", encoding="utf-8")
+    import_file(shelf, extra)
+    bom = tmp_path / "tant_bom.csv"
+    bom.write_text("Reference,Value,Footprint\nC1,10u,C_1206_3216Metric\n"
+                   "C2,10u,CP_Tantalum_Case-A_EIA-3216-18\n", encoding="utf-8")
+    kit = plan_kit(shelf, bom, KitOptions(boards=1))
+    first, second = kit.lines
+    assert first.allocations == () and first.short == 1
+    assert any("polarised part for the unpolarised footprint 'C_1206_3216Metric'" in n
+               for n in first.notes)
+    assert _bins(second) == [("t1", 1)]
+
+
+def test_a_lone_value_like_1n_is_a_value_not_a_voltage_code(tmp_path):
+    # IEC 60062: 1n is 1 nF; a two-character voltage code stands beside a value, not alone
+    path = tmp_path / "one_n.csv"
+    path.write_text("Reference,Value\nC1,1n\n", encoding="utf-8")
+    (line,) = read_bom(path).lines
+    assert line.capacitance_pf == 1000 and line.voltage_v is None
