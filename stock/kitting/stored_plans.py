@@ -62,7 +62,8 @@ class PlanLine:
         return {"refs": list(self.refs), "need": self.need,
                 "allocations": [a.to_json() for a in self.allocations], "short": self.short,
                 "notes": list(self.notes), "line": self.line_no, "row": self.row,
-                "value": self.value, "requirement": self.requirement}
+                "value": self.value, "requirement": self.requirement,
+                "footprint": (self.details.get("package") or {}).get("raw")}
 
 
 @dataclass(frozen=True)
