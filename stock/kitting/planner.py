@@ -190,7 +190,8 @@ def _marking_of(store: Store, bin_id: int) -> tuple[Marking, str, dict[str, Any]
 
 # Open flags that question what a bin holds or its condition; such bins are used last.
 DOUBT_KINDS = ("shelf-life", "label-conflict", "ambiguous-code", "disputed-code", "both-ends",
-               "layout-ambiguous", "conflicting-readings", "unreadable", "duplicate")
+               "layout-ambiguous", "conflicting-readings", "unreadable", "duplicate", "unit-assumed",
+               "tolerance-by-value", "spelling-corrected", "unparsed")
 
 
 def _doubts(store: Store) -> dict[int, tuple[str, ...]]:
