@@ -153,8 +153,8 @@ CABINET_C = [
 # The SMD drawers, with a package and mounting per bin (and a few through-hole cans).
 # (drawer, value, code, WV, dielectric, tol, package, mounting, qty, notes)
 SMD_DRAWERS = [
-    ("D1", "100nF", "104", "50V", "X7R", "K", "0805", "SMD", "2000", "reel"),
-    ("D2", "100nF", "104", "50V", "C0G", "J", "0805", "SMD", "40", "kept for the filter boards"),
+    ("D1", "100nF", "104", "50V", "X7R", "K", "0805", "SMD", "400", ""),
+    ("D2", "100nF", "104", "50V", "C0G", "J", "0805", "SMD", "1000", "reel, for the filter boards"),
     ("D3", "22pF", "220", "50V", "C0G", "J", "0805", "SMD", "150", ""),
     ("D4", "22pF", "220", "50V", "C0G", "J", "0603", "SMD", "200", ""),
     ("D5", "10uF", "106", "16V", "X5R", "K", "0805", "SMD", "300", ""),

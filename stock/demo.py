@@ -85,7 +85,7 @@ def tour(src: Path, out: Path) -> list[Step]:
         Step("Add the SMD drawers, whose sheet records each part's package and mounting.",
              ("import", str(src / "smd_drawers.csv"))),
         Step("Kit three bench-supply control boards from a CAD export: footprints honoured, the"
-             " scarce C0G kept, the do-not-fit line skipped.",
+             " C0G reel kept, the do-not-fit line skipped.",
              ("kit", "plan", str(src / "bench_supply_bom.csv"), "--boards", "3")),
         Step("The flashers' pick list, in drawer order.",
              ("kit", "picklist", "2", "--xlsx", str(out / "flasher_pick_list.xlsx"))),

@@ -212,9 +212,12 @@ def order_notes(line: Any, chosen: list[tuple[Candidate, int]], pool: list[Candi
         return notes
     plainest = min(c.capability for c, _ in chosen)
     what = f"{line.application} position" if getattr(line, "application", None) else "position"
-    reach = max(c.tier for c, _ in chosen)     # bins of a later tier were never in the running
+    # Passed over for its standing alone: a bin of no later tier that size and place would have
+    # put first.
+    first = chosen[0][0]
+    reach = max(c.tier for c, _ in chosen)
     kept = [c for c in pool if c.bin_id not in used and c.capability > plainest and c.available > 0
-            and c.tier <= reach]
+            and c.tier <= reach and c.order()[2:] < first.order()[2:]]
     for cand in sorted(kept, key=Candidate.order)[:2]:
         notes.append(f"kept {cand.bin_key} ({cand.marking.text}: {cand.words()}) for the positions"
                      " that need it; a plainer part does this one")

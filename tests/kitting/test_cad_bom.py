@@ -111,8 +111,19 @@ def test_the_scarce_precious_bin_is_untouched_when_an_ordinary_one_suffices(shel
     kit = plan_kit(shelf, cad_bom, KitOptions(boards=2))
     used = {a.bin_key.split("/")[-1] for line in kit.lines for a in line.allocations}
     assert not used & {"s2", "s8", "s9", "s10"}              # C0G, X2, polypropylene, 1 kV disc
-    notes = " | ".join(_line(kit, "C1").notes)
-    assert "kept supply_shelf/s2 (104J 50V C0G: C0G (Class 1)) for the positions that need it" in notes
+    assert not any("s2" in n for n in _line(kit, "C1").notes)   # never in the running: no word
+
+
+def test_a_precious_bin_passed_over_although_it_is_the_fullest_is_named(shelf, tmp_path):
+    extra = tmp_path / "reel.csv"
+    extra.write_text("Bin,Marking,Qty,Package\nR1,104J 50V C0G,4000,0805\n", encoding="utf-8")
+    import_file(shelf, extra)
+    bom = tmp_path / "one.csv"
+    bom.write_text("Reference,Value,Footprint\nC1,100n,C_0805_2012Metric\n", encoding="utf-8")
+    kit = plan_kit(shelf, bom, KitOptions(boards=2))
+    assert _bins(kit.lines[0]) == [("s1", 2)]
+    assert ("kept reel/r1 (104J 50V C0G: C0G (Class 1)) for the positions that need it; a plainer"
+            " part does this one") in kit.lines[0].notes
 
 
 def test_a_do_not_fit_line_takes_nothing_and_is_listed_as_not_fitted(shelf, cad_bom):
