@@ -11,6 +11,8 @@ from __future__ import annotations
 from decimal import Decimal
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from stock.kitting.bin_order import Candidate, capability, choose_bins
 from stock.kitting.planner import KitOptions, plan_kit
@@ -122,3 +124,38 @@ def test_the_capability_of_a_plain_part_is_zero_and_of_a_film_part_is_not():
     rank, words = capability(bom_line, part("104J MKP", 100000, tol="5", dielectric="polypropylene"),
                              D(100000))
     assert rank[1] > 0 and words == ("polypropylene film",)
+
+
+SIZES = ("0402", "0603", "0805", "1206")
+
+
+@settings(max_examples=30, deadline=None)
+@given(shelf=st.lists(st.tuples(st.sampled_from(SIZES + ("", "radial")), st.integers(0, 40)),
+                      min_size=1, max_size=6),
+       pads=st.sampled_from(SIZES), boards=st.integers(1, 60))
+def test_a_plan_never_takes_a_part_known_not_to_fit_and_never_more_than_is_free(shelf, pads, boards):
+    # EIA chip sizes from memory of the EIA / IEC 60115-8 designations; the fit rule is common
+    # practice: a chip goes only on pads of its own size
+    from stock.kitting.bom import BomLine
+    from stock.markings.packages import read_package
+    from stock.store.database import open_store
+
+    store = open_store(":memory:")
+    for i, (package, n) in enumerate(shelf):
+        bid = add_bin(store, f"cab/A{i}", f"A{i}", part("104K", 100000, tol="10"), n)
+        store.db.conn.execute("UPDATE parts SET package = ? WHERE bin_id = ?", (package or None, bid))
+    bom_line = BomLine(2, ("C1",), 1, "100n", True, "capacitor", capacitance_pf=D(100000),
+                       package=read_package(f"C_{pads}"))
+    kit = plan_kit(store, bom(bom_line), KitOptions(boards=boards))
+    held = {f"cab/A{i}": (package, n) for i, (package, n) in enumerate(shelf)}
+    taken = 0
+    for alloc in kit.lines[0].allocations:
+        package, n = held[alloc.bin_key]
+        assert package in (pads, ""), (alloc.bin_key, package, pads)
+        assert alloc.qty <= n
+        taken += alloc.qty
+    fitting = sum(n for package, n in shelf if package == pads)
+    assert taken == min(boards, sum(n for package, n in shelf if package in (pads, "")))
+    if fitting >= boards:       # bins of unknown package only once the fitting ones run out
+        assert all(held[a.bin_key][0] == pads for a in kit.lines[0].allocations)
+    store.close()
