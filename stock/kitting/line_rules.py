@@ -9,8 +9,8 @@ The rules (common practice, no published source, except where a standard is name
 - A polarised part never goes on a CAD footprint named as unpolarised (``C_0805_2012Metric``;
   the libraries name polarised ones ``CP_…``): the board marks no polarity there. Otherwise it
   goes only where the BOM says the position is polarised (a polarised footprint says so), or,
-  when the line names no dielectric, at a bulk, bypass or timing position of 1 µF or more (where electrolytics
-  are the norm), with a note to fit it by the board's polarity mark.
+  when the line names no dielectric, at a bulk, bypass or timing position of 1 µF or more
+  (where electrolytics are the norm), with a note to fit it by the board's polarity mark.
 - The rated voltage asked is a minimum: a higher rating is allowed and said so.
 - A Class 1 code or tempco window needs a linear tempco inside the window (C0G for NP0 is the same
   characteristic); a Class 2 code takes Class 1 parts or Class 2 ones that cover its range and
@@ -337,3 +337,10 @@ def cautions_for(store: Any, lines: Any) -> tuple[str, ...]:
                         " non-safety part. Work on mains equipment can kill: defer to local codes"
                         " and licensed practice.")
     return tuple(cautions)
+
+
+# Candidate, choose_bins and GRADE_RANK live in bin_order and natural_key in inventory.bins; they
+# are named here too for the callers that know them from this module.
+__all__ = ["ALLOWANCES", "GRADE_RANK", "HIGH_VOLTAGE_V", "MARKED_LEAD", "POLARISED_FROM_PF",
+           "POLARITY_MARKS", "Candidate", "Verdict", "cautions_for", "check_part", "choose_bins",
+           "natural_key"]
