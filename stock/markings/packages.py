@@ -82,6 +82,9 @@ BODY_STYLES: dict[str, str] = {"disc": "disc", "disk": "disc", "rect": "box", "b
                                "dipped": "dipped"}
 POLARISED_WORDS = frozenset({"cp", "cpol", "elec", "electrolytic", "tantalum", "tantal", "tant",
                              "pol", "polarized", "polarised", "polar"})
+# Words that say the part has no polarity (a bipolar electrolytic is still "electrolytic").
+UNPOLARISED_WORDS = frozenset({"bipolar", "non-polar", "nonpolar", "np", "bp", "unpolarised",
+                               "unpolarized", "non-polarised", "non-polarized"})
 # Words understood that state no fact of their own (kind of part, solder process, orientation).
 UNDERSTOOD_WORDS = frozenset({"c", "cap", "capacitor", "capacitors", "metric", "handsolder",
                               "reflow", "wave", "horizontal", "vertical", "package", "footprint",
@@ -95,6 +98,7 @@ _PHRASES = (
     (re.compile(r"through[\s-]*holes?|thru[\s-]*holes?", re.I), " through-hole "),
     (re.compile(r"surface[\s-]*mount(?:ed)?", re.I), " surface-mount "),
     (re.compile(r"snap[\s-]*in", re.I), " snap-in "),
+    (re.compile(r"non[\s-]+polar(?:i[sz]ed)?", re.I), " non-polar "),
     (re.compile(r"screw[\s-]*terminals?|screw[\s-]*type", re.I), " screw-terminal "),
     (re.compile(r"case[\s-]+([a-e])\b", re.I), r" case-\1 "),
     (re.compile(r"\b(\d{4,5})\s+metric\b", re.I), r" \1M "),
@@ -251,6 +255,7 @@ class _Reading:
         self.notes: list[str] = []
         self.unparsed: list[str] = []
         self.elec = False
+        self.unpolarised = False
 
 
 def _read_size(word: str, token: str, r: _Reading) -> bool:
@@ -294,6 +299,8 @@ def _read_word(token: str, r: _Reading) -> None:
     elif word in LEAD_FORMS:
         r.lead_forms.append(LEAD_FORMS[word])
         r.style = BODY_STYLES.get(word, r.style)
+    elif word in UNPOLARISED_WORDS:
+        r.unpolarised = True
     elif word in POLARISED_WORDS:
         r.polarised = True
         r.elec = r.elec or word == "elec"
@@ -370,7 +377,8 @@ def _resolve(raw: str, r: _Reading, cad_name: bool) -> PackageFacts:
         mounting = None
     return PackageFacts(raw=raw, chip_size=chip, mounting=mounting, lead_form=lead_form,
                         style=r.style, body=_body(r, lead_form), pitch_mm=r.pitch,
-                        polarised_hint=r.polarised, notes=tuple(notes), unparsed=tuple(r.unparsed),
+                        polarised_hint=r.polarised and not r.unpolarised, notes=tuple(notes),
+                        unparsed=tuple(r.unparsed),
                         conflicts=tuple(conflicts), cad_name=cad_name)
 
 

@@ -152,6 +152,20 @@ def test_a_description_keeps_the_words_that_are_no_package_fact() -> None:
     assert p.unparsed == ("CER", "0.1UF", "50V", "X7R")
 
 
+@pytest.mark.parametrize(("text", "polarised"), [
+    pytest.param("CAP ALUM 4.7UF RADIAL", False, id="no-polarity-word"),
+    pytest.param("electrolytic radial", True, id="electrolytic"),
+    pytest.param("bipolar electrolytic radial", False, id="bipolar-electrolytic"),
+    pytest.param("non polar electrolytic", False, id="non-polar"),
+    pytest.param("C_Radial_D5.0mm_P2.00mm", False, id="cad-unpolarised"),
+    pytest.param("CP_Radial_D5.0mm_P2.00mm", True, id="cad-polarised"),
+])
+def test_a_polarity_hint_is_read_and_a_bipolar_part_is_not_polarised(text, polarised):
+    # common practice: CAD libraries prefix polarised footprints CP_; bipolar electrolytics
+    # have no polarity (from memory of maker datasheets)
+    assert read_package(text).polarised_hint is polarised
+
+
 def test_tantalum_case_letters_name_a_metric_body() -> None:
     # from memory of EIA-535: case A is 3216, B is 3528
     assert TANTALUM_CASES["a"] == "3216"
