@@ -159,3 +159,15 @@ def test_a_plan_never_takes_a_part_known_not_to_fit_and_never_more_than_is_free(
     if fitting >= boards:       # bins of unknown package only once the fitting ones run out
         assert all(held[a.bin_key][0] == pads for a in kit.lines[0].allocations)
     store.close()
+
+
+def test_a_fuller_bin_with_an_open_doubt_waits_for_the_clean_one_and_is_named_when_used(store):
+    # common practice, no published source: a bin whose label contradicts its marking waits
+    doubted = add_bin(store, "cab/A1", "A1", part("104K", 100000, tol="10"), 500)
+    add_bin(store, "cab/A2", "A2", part("104K", 100000, tol="10"), 20)
+    store.raise_flag(kind="label-conflict", message="label says 10n", fingerprint="cab/a1|lc|1",
+                     bin_id=doubted)
+    assert _plan(store, line(tol_pct=10), boards=5)[0] == [("cab/A2", 5)]
+    used, notes = _plan(store, line(tol_pct=10), boards=30)
+    assert used == [("cab/A2", 15), ("cab/A1", 15)]
+    assert ("cab/A1: used although it has open flags (label-conflict); see `stock flags`") in notes
