@@ -1,7 +1,7 @@
 """The whole job on the demo shop, in one run: import, flags, grades, find, kits, pull, a repair,
 exports, labels.
 
-The demo shop (Lantern Bench Instruments) and its three BOMs live in ``demo_inventory/`` at the
+The demo shop (Lantern Bench Instruments) and its four BOMs live in ``demo_inventory/`` at the
 top of the source tree, written by ``demo_inventory/make_demo.py``. :func:`run_demo` makes a fresh
 database in a new folder and runs the real commands on it, printing each command line before
 its output, so every step can be repeated by hand.
@@ -16,8 +16,8 @@ from pathlib import Path
 
 from stock.errors import BadValue, NotFound
 
-DEMO_FILES = ("lantern_register.xlsx", "drawer_cabinet_c.csv")
-BOMS = ("vfo_7mhz_bom.csv", "led_flasher_bom.xlsx", "mains_inlet_bom.csv")
+DEMO_FILES = ("lantern_register.xlsx", "drawer_cabinet_c.csv", "smd_drawers.csv")
+BOMS = ("vfo_7mhz_bom.csv", "led_flasher_bom.xlsx", "mains_inlet_bom.csv", "bench_supply_bom.csv")
 
 
 def demo_source() -> Path:
@@ -83,6 +83,11 @@ def tour(src: Path, out: Path) -> list[Step]:
              ("kit", "plan", str(src / "led_flasher_bom.xlsx"), "--boards", "10", "--spare", "5%")),
         Step("Kit two mains inlets: the X2 and Y2 positions take only safety-rated parts.",
              ("kit", "plan", str(src / "mains_inlet_bom.csv"), "--boards", "2")),
+        Step("Add the SMD drawers, whose sheet records each part's package and mounting.",
+             ("import", str(src / "smd_drawers.csv"))),
+        Step("Kit three bench-supply control boards from a CAD export: footprints honoured, the"
+             " C0G reel kept, the do-not-fit line skipped.",
+             ("kit", "plan", str(src / "bench_supply_bom.csv"), "--boards", "3")),
         Step("The flashers' pick list, in drawer order.",
              ("kit", "picklist", "2", "--xlsx", str(out / "flasher_pick_list.xlsx"))),
         Step("Pull the flasher parts: one transaction, a ledger movement per bin.", ("kit", "pull", "2")),

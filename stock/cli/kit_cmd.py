@@ -14,14 +14,20 @@ kit_app = typer.Typer(no_args_is_help=True, help="Kit a build from stock: plan a
 
 PLAN_HELP = """Plan a build: choose bins for every capacitor line of a BOM and reserve the parts.
 
-Each line needs qty per board × boards (+ --spare, rounded up). Bins are chosen fit grade first,
-exact value next, fewest bins, part-full bins used up. A looser tolerance or a lower dielectric
-class is used only when --allow says so; a mains line takes only X/Y parts of its class; a tuned
-line never takes a Class 2 ceramic. Lines for other kinds of parts are listed as not tracked.
+Each line needs qty per board × boards (+ --spare, rounded up). A footprint or package column
+(C_0805_2012Metric, CP_Radial_D5.0mm_P2.00mm) is honoured: a bin whose package does not fit is
+never used, one whose package is not recorded only after the rest. Among the bins left, the part
+that gives up least goes first (no spare safety rating, the plainest dielectric, no tighter
+tolerance than asked), then the fullest bin, then location order. A looser tolerance or a lower
+dielectric class is used only when --allow says so; a mains line takes only X/Y parts of its
+class; a tuned line never takes a Class 2 ceramic. Do-not-fit lines (a DNP column, or DNP in the
+value) take nothing; lines for other kinds of parts are listed as not tracked.
 
 Examples:
 
     stock kit plan amp-board.csv --boards 5 --spare 5%
+
+    stock kit plan control-board.csv --boards 3 --map package=Footprint --map dnp="Do not fit"
 
     stock kit plan tuner.xlsx --boards 2 --temp -10..60 --combine --allow looser-tolerance --json
 """
