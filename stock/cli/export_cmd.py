@@ -9,7 +9,6 @@ from typing import Annotated
 
 import typer
 
-from stock.store.database import open_store
 
 export_app = typer.Typer(help="Write spreadsheets: what to order, what is on hand, a stock-take sheet.",
                          no_args_is_help=True)
@@ -18,6 +17,8 @@ export_app = typer.Typer(help="Write spreadsheets: what to order, what is on han
 def _store(ctx: typer.Context):
     from stock.cli.context import state
 
+    from stock.store.database import open_store   # the store loads only when a command runs
+
     return open_store(state(ctx).db_path, create=False)
 
 
@@ -25,7 +26,7 @@ def _report(as_json: bool, what: str, out: Path, rows: int) -> None:
     if as_json:
         typer.echo(json.dumps({"export": what, "path": str(out), "rows": rows}))
     else:
-        typer.echo(f"wrote {out} ({rows} rows)")
+        typer.echo(f"wrote {out} ({rows} row{'' if rows == 1 else 's'})")
 
 
 @export_app.command("purchasing")
