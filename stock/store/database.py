@@ -5,13 +5,17 @@ Tables (all STRICT, so a bin code "007" stays text and "lots" never lands in a n
 - ``bins``: the physical place (identity ``bin_key``, label, location, cabinet, notes, minimum)
   and ``on_hand``, the quantity, NULL while unknown. ``on_hand`` is only ever changed by
   :meth:`Store.move`, in the same transaction as the ledger row that explains it.
-- ``parts``: the decoded part in each bin (one per bin), flat columns for queries plus the whole
-  decoded marking as JSON.
+- ``markings``: each distinct reading once (its JSON, keyed by digest, and the flat columns search
+  filters on, indexed); ``bin_parts``: the part in each bin, pointing at its decoded reading, the
+  settled one if a person chose one, and the one in force; ``parts``: a view of both with the
+  shape of the old one-row-per-bin table (flat columns, ``decoded_json``, ``settled_json``).
 - ``ledger``: append-only quantity movements (triggers refuse UPDATE and DELETE).
-- ``imports`` and ``source_rows``: every file read and every row in it, raw, with its status.
+- ``imports`` and ``source_rows``: every file read (with its header once) and every row in it,
+  raw (a compact array of cells), with its status.
 - ``flags``: what needs a human, with a fingerprint so a settled flag never returns.
 - ``plans``, ``plan_lines``, ``reservations``: kits planned from a BOM and the parts they hold.
-- ``grades``: each part's grade per application at the default conditions.
+- ``marking_grades``: each reading's grade per application at the default conditions, with the
+  table version; ``grades``: a view of them per bin.
 
 Writers use :meth:`Store.writing` (``BEGIN IMMEDIATE``): two processes never interleave a
 read-check-write, and a second writer waits up to ``busy_timeout`` before a clear error.
