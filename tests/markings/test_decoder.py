@@ -66,7 +66,7 @@ def test_field_values_of_the_named_cases():
 FLAG_CASES = [
     pytest.param("100", "ambiguous-code", D(100), id="code-ending-in-zero"),
     pytest.param("470", "ambiguous-code", D(470), id="470-literal-kept"),
-    pytest.param("47K", "ambiguous-code", D(47000), id="nnK-ERIE"),
+    pytest.param("47K", "ambiguous-code", D(47000), id="nnK-older-US"),
     pytest.param("0.047", "unit-assumed", None, id="decimal-without-unit"),
     pytest.param("33", "unit-assumed", None, id="whole-number-without-unit"),
     pytest.param("1R5C", "tolerance-by-value", None, id="tolerance-by-value"),
