@@ -121,10 +121,10 @@ def test_two_dielectrics_that_disagree_are_flagged():
     assert "conflicting-readings" in decode("N150 -750ppm").flag_kinds()
 
 
-def test_chip_size_is_not_taken_for_a_value():
+def test_chip_size_is_read_as_a_package_not_a_value():
     # EIA chip sizes (common practice): "1206" is a case, not 1.206 nF
     m = decode("X7R 1206 10% 50V")
-    assert m.capacitance_pf is None and m.unparsed == ("1206",)
+    assert m.capacitance_pf is None and m.unparsed == () and m.package == "1206"
 
 
 def test_rated_temperature_forms():
