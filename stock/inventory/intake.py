@@ -33,8 +33,8 @@ from stock.decoded import Marking
 from stock.store.flag_kinds import QUARANTINE_FIXES
 from stock.errors import BadSheet
 from stock.inventory.row_reading import (MARKING_FIELDS, MAX_COUNT, PART_COLUMNS, READING_FIELDS, RowReader,
-                               bin_key, cell_text, decode_cached, normalise, part_columns,
-                               read_quantity)
+                               bin_key, cell_text, decode_cached, normalise, package_facts,
+                               part_columns, read_quantity)
 from stock.store.database import Store, now
 
 BATCH = 2000
@@ -229,10 +229,8 @@ class _SheetIntake:
             problems.append(("bad-quantity", str(exc)))
         f = reader.texts(cells)
         text, marking, value_text, claimed = reader.reading(f)
-        if marking is None or (marking.capacitance_pf is None
-                               and not any(a.capacitance_pf is not None for a in marking.alternatives)):
-            problems.append(("no-capacitance", f"no capacitance could be read from {text!r}" if text
-                             else "no capacitance could be read: the row has no marking or value"))
+        if marking is None or marking.capacitance_pf is None:
+            problems.append(("no-capacitance", _no_capacitance(text, marking)))
         if problems:
             self._quarantine(number, cells, problems)
             return
@@ -292,8 +290,11 @@ class _SheetIntake:
             minimum = read_quantity(self.reader.raw_cell(cells, "minimum"))
         except ValueError:
             minimum = None  # a bad minimum is no reason to lose the row; the raw cell is kept
-        package = f.get("package")
-        mounting = f.get("mounting")
+        package, mounting, conflict = package_facts(f.get("package"), f.get("mounting"),
+                                                    marking.package, marking.mounting)
+        if conflict:
+            extra = [*extra, ("conflicting-readings", f"bin {key!r}: {conflict}",
+                              f"{key}|package-conflict|{package}|{mounting}")]
         known = quantity if existing is None or quantity is not None else existing.on_hand
         flags, reasons = self._flags_for(key, text, marking, extra, known)
         source_id = self._next_id("source_rows")
@@ -391,6 +392,18 @@ class _SheetIntake:
             conn.executemany(_INSERT_FLAG, self._flags)
             self.counts["flags_raised"] += conn.total_changes - before
             self._flags.clear()
+
+
+def _no_capacitance(text: str, marking: Marking | None) -> str:
+    """Why a row holds no capacitance, naming what its text was read as instead."""
+    if not text:
+        return "no capacitance could be read: the row has no marking or value"
+    if marking is not None:
+        other = [a.reason for a in marking.alternatives if a.capacitance_pf is not None]
+        if marking.voltage_v is not None and other:
+            return (f"no capacitance could be read from {text!r}: it reads as a voltage code"
+                    f" ({other[0]}); give the value with its unit, e.g. 1nF")
+    return f"no capacitance could be read from {text!r}"
 
 
 def _reasons_json(reasons: list[tuple[str, str]]) -> str:

@@ -173,6 +173,43 @@ def agreed_by_claim(marking: Marking, where: str, raw: str) -> Marking:
     return replace(marking, flags=kept, alternatives=marking.alternatives + (note,))
 
 
+@lru_cache(maxsize=4096)
+def package_facts(package: str | None, mounting: str | None, said_package: str | None,
+                  said_mounting: str | None) -> tuple[str | None, str | None, str | None]:
+    """The part's package and mounting from its columns and from its marking or description.
+
+    Args:
+        package, mounting: the package and mounting columns' text (None when blank).
+        said_package, said_mounting: what the marking or description said (``Marking.package``).
+
+    Returns:
+        (package text, mounting ``SMD``/``THT`` or the column's own word, disagreement or None).
+        The columns win; a column and a description that disagree on mounting or chip size give
+        the disagreement, to be raised as a flag.
+
+    >>> package_facts("0805", None, None, None)
+    ('0805', 'SMD', None)
+    >>> package_facts(None, "THT", "0603", "SMD")[2]
+    "the mounting column says THT, the marking or description says SMD ('0603')"
+    """
+    from stock.markings.packages import read_package
+
+    column = read_package(" ".join(t for t in (package, mounting) if t)) if (package or mounting) else None
+    said = read_package(said_package) if said_package else None
+    chosen_mounting = (column.mounting if column is not None and column.mounting else None) or \
+        (mounting if mounting else None) or said_mounting
+    conflict = None
+    if column is not None and said is not None:
+        where = "mounting" if mounting else "package"
+        if column.mounting and said_mounting and column.mounting != said_mounting:
+            conflict = (f"the {where} column says {column.mounting}, the marking or description says"
+                        f" {said_mounting} ({said_package!r})")
+        elif column.chip_size and said.chip_size and column.chip_size != said.chip_size:
+            conflict = (f"the package column says {column.chip_size}, the marking or description says"
+                        f" {said.chip_size}")
+    return package or said_package, chosen_mounting, conflict
+
+
 def label_value(label: str) -> tuple[str, Decimal] | None:
     """A capacitance written in a bin label ("10nF", "Box 4n7 C0G"), if it states one.
 
@@ -365,5 +402,6 @@ class RowReader:
 
 
 __all__ = ["MARKING_FIELDS", "MAX_COUNT", "PART_COLUMNS", "READING_FIELDS", "RowReader", "bin_key",
-           "cell_text", "decode_cached", "label_value", "normalise", "part_columns", "read_quantity",
+           "cell_text", "decode_cached", "label_value", "normalise", "package_facts", "part_columns",
+           "read_quantity",
            "same_value", "with_unit"]
