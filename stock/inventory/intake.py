@@ -228,7 +228,7 @@ class _SheetIntake:
             quantity = None
             problems.append(("bad-quantity", str(exc)))
         f = reader.texts(cells)
-        text, marking, value_text, claimed = reader.reading(f)
+        text, marking, claims = reader.reading(f)
         if marking is None or marking.capacitance_pf is None:
             problems.append(("no-capacitance", _no_capacitance(text, marking)))
         if problems:
@@ -250,7 +250,7 @@ class _SheetIntake:
             return
         self.seen[key] = (self.sheet.sheet, number)
 
-        marking, extra_flags = reader.cross_check(key, text, marking, value_text, claimed, label)
+        marking, extra_flags = reader.cross_check(key, text, marking, claims, label)
         self._store(number, cells, f, key, cabinet, label, location or None, text,
                     marking, extra_flags, quantity)
 

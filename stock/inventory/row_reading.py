@@ -40,6 +40,9 @@ MARKING_FIELDS = ("marking", "colours", "dielectric", "tolerance", "voltage", "s
 READING_FIELDS = ("marking", "value", "colours")
 READINGS_REMEMBERED = 65536  # distinct readings kept per sheet (memory stays bounded)
 
+# (where, text, value in pF or None) of each other value column filled in a row.
+Claims = tuple[tuple[str, str, "Decimal | None"], ...]
+
 # The flat parts columns, in the order of :func:`part_columns`.
 PART_COLUMNS = ("capacitance_pf", "tol_minus", "tol_plus", "tol_unit", "tol_code", "voltage_v",
                 "voltage_kind", "dielectric_code", "family", "class", "tempco_ppm_per_k",
@@ -253,8 +256,22 @@ class RowReader:
         self.headers = headers
         self._header_keys = [encode_basestring(h) + ": " for h in headers]
         self._text_fields = [(n, i) for n, i in self.index.items() if n not in ("quantity", "minimum")]
-        self._reading_fields = tuple(n for n in (*MARKING_FIELDS, "value") if n in self.index)
-        self._readings: dict[tuple[str | None, ...], tuple[str, Marking | None, str, Decimal | None]] = {}
+        column_units = dict(getattr(header_map, "column_units", None) or {})
+        # Every column that may carry the value, in the order tried: (field name in texts(),
+        # is it a marking column, its unit, how a cross-check names it).
+        self._order: list[tuple[str, bool, str | None, str]] = []
+        order = header_map.reading_order() if hasattr(header_map, "reading_order") else \
+            tuple((n, self.index[n]) for n in ("marking", "value") if n in self.index)
+        for n, i in order:
+            name = n if self.index.get(n) == i else f"{n}@{i}"
+            if name != n:
+                self._text_fields.append((name, i))
+            unit = self.units.get(n) if name == n else column_units.get(i)
+            where = "the value column" if name == "value" else f"the {headers[i]!r} column"
+            self._order.append((name, n == "marking", unit, where))
+        self._reading_fields = tuple(n for n in (*MARKING_FIELDS, "value") if n in self.index) + \
+            tuple(name for name, _, _, _ in self._order if "@" in name)
+        self._readings: dict[tuple[str | None, ...], tuple[str, Marking | None, Claims]] = {}
 
     def texts(self, cells: tuple[Any, ...]) -> dict[str, str]:
         """The non-blank text of each mapped field of a row (the hot path: one pass, no lookups)."""
@@ -277,29 +294,34 @@ class RowReader:
         i = self.index.get(name)
         return None if i is None or i >= len(cells) else cells[i]
 
-    def reading(self, f: dict[str, str]) -> tuple[str, Marking | None, str, Decimal | None]:
-        """(marking text, its decoding or None, the explicit value text or "", that value in pF).
+    def reading(self, f: dict[str, str]) -> tuple[str, Marking | None, Claims]:
+        """(marking text, its decoding or None, the other value columns' claims).
 
-        Remembered per distinct combination of the reading fields' texts, so the decoding of a
-        repeated marking is one and the same object (the store turns it into columns once).
+        Each claim is (where, the text, its value in pF or None). Remembered per distinct
+        combination of the reading fields' texts, so the decoding of a repeated marking is one
+        and the same object (the store turns it into columns once).
         """
         key = tuple(f.get(n) for n in self._reading_fields)
         found = self._readings.get(key)
         if found is None:
-            text, colours, value_text = self.marking_text(f)
+            text, colours, claimed = self.marking_text(f)
             text, marking = self.decode(text, colours)
-            claimed = decode_cached(value_text).capacitance_pf if value_text else None
-            found = (text, marking, value_text, claimed)
+            claims = tuple((where, raw, decode_cached(raw).capacitance_pf) for where, raw in claimed)
+            found = (text, marking, claims)
             if len(self._readings) < READINGS_REMEMBERED:
                 self._readings[key] = found
         return found
 
-    def marking_text(self, f: dict[str, str]) -> tuple[str, str, str]:
-        """(marking text to decode, the colours column's text or "", the explicit value or "")."""
+    def marking_text(self, f: dict[str, str]) -> tuple[str, str, tuple[tuple[str, str], ...]]:
+        """(marking text to decode, the colours column's text or "", the other value columns).
+
+        The first filled column of the reading order (marking columns, then value columns) is
+        the marking; every other filled one is a claim, (where, text), to cross-check it with.
+        """
         pieces = []
         for name in MARKING_FIELDS:
             text = f.get(name)
-            if not text or name == "colours":
+            if not text or name in ("colours", "marking"):
                 continue
             if name == "voltage":
                 text = with_unit(text, self.units.get(name) or "V")
@@ -311,16 +333,15 @@ class RowReader:
                 text = _POLARITY_WORDS.get(text.casefold(), text)
                 if not text:
                     continue
-            elif name == "marking":
-                text = with_unit(text, self.units.get(name))
             pieces.append(text)
-        value = f.get("value", "")
-        if value:
-            value = with_unit(value, self.units.get("value"))
+        filled = [(is_marking, with_unit(t, unit), where)
+                  for name, is_marking, unit, where in self._order if (t := f.get(name))]
         colours = f.get("colours", "")
-        if value and "marking" not in f and not colours:
-            return " ".join([value, *pieces]), "", ""  # the value column is the marking
-        return " ".join(pieces), colours, value
+        if not filled or (colours and not filled[0][0]):
+            # colour bands give the value; every value column cross-checks them
+            return " ".join(pieces), colours, tuple((w, t) for _, t, w in filled)
+        first = filled[0][1]
+        return " ".join([first, *pieces]), colours, tuple((w, t) for _, t, w in filled[1:])
 
     @staticmethod
     def decode(text: str, colours: str) -> tuple[str, Marking | None]:
@@ -348,9 +369,9 @@ class RowReader:
         return full, merged
 
     @staticmethod
-    def cross_check(key: str, text: str, marking: Marking, value_text: str, claimed: Decimal | None,
+    def cross_check(key: str, text: str, marking: Marking, claimed: Claims,
                     label: str) -> tuple[Marking, list[tuple[str, str, str]]]:
-        """Compare the marking's reading with an explicit value and a label; keep the marking's.
+        """Compare the marking's reading with the other value columns and a label; keep the marking's.
 
         Returns the marking (with an alternative and a ``label-conflict`` flag per disagreement)
         and the (kind, message, fingerprint) of each disagreement.
@@ -359,9 +380,7 @@ class RowReader:
         nominal = marking.capacitance_pf
         if nominal is None:
             return marking, found
-        claims: list[tuple[str, str, Decimal]] = []
-        if claimed is not None:
-            claims.append(("the value column", value_text, claimed))
+        claims: list[tuple[str, str, Decimal]] = [(w, raw, pf) for w, raw, pf in claimed if pf is not None]
         if label:
             said = label_value(label)
             if said is not None:
