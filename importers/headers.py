@@ -69,6 +69,7 @@ BIN_ALIASES: dict[str, tuple[str, ...]] = {
     "polarity": ("polarity", "polarised", "polarized", "polar", "pol", "+ lead", "bipolar"),
     "rated_temp": ("rated temp", "rated temperature", "temp", "temperature", "max temp", "temp rating",
                    "temp range", "operating temp", "°c", "degrees"),
+    "bin_key": ("bin key",),      # the whole identity "<cabinet>/<location>", as exports write it
 }
 
 BOM_ALIASES: dict[str, tuple[str, ...]] = {
@@ -290,6 +291,7 @@ class HeaderMap:
     notes: dict[str, str] = field(default_factory=dict)
     also: dict[str, tuple[int, ...]] = field(default_factory=dict)
     column_units: dict[int, str] = field(default_factory=dict)
+    label_is_value: bool = False       # the label column is read for the value when nothing else is
 
     def reading_order(self) -> tuple[tuple[str, int], ...]:
         """The columns a row's value is read from, in order: marking columns, then value columns.
@@ -302,6 +304,8 @@ class HeaderMap:
             if name in self.field_to_index:
                 out.append((name, self.field_to_index[name]))
                 out.extend((name, i) for i in self.also.get(name, ()))
+        if self.label_is_value and "label" in self.field_to_index:
+            out.append(("label", self.field_to_index["label"]))
         return tuple(out)
 
     def header_of(self, field_name: str) -> str | None:
@@ -394,6 +398,7 @@ def map_headers(headers: Iterable[str], vocabulary: Vocabulary = "bins",
                            f"FIELD=HEADER with FIELD one of {', '.join(fields)}")
         if header is None or not str(header).strip():
             blocked.add(field_name)
+            how[field_name] = "blocked"      # no column, by --map FIELD= (content mapping too)
             continue
         i = _find_header(headers, str(header), field_name)
         if i in taken:

@@ -267,7 +267,7 @@ class RowReader:
             if name != n:
                 self._text_fields.append((name, i))
             unit = self.units.get(n) if name == n else column_units.get(i)
-            where = "the value column" if name == "value" else f"the {headers[i]!r} column"
+            where = {"value": "the value column", "label": "the label"}.get(name, f"the {headers[i]!r} column")
             self._order.append((name, n == "marking", unit, where))
         self._reading_fields = tuple(n for n in (*MARKING_FIELDS, "value") if n in self.index) + \
             tuple(name for name, _, _, _ in self._order if "@" in name)
@@ -336,6 +336,8 @@ class RowReader:
             pieces.append(text)
         filled = [(is_marking, with_unit(t, unit), where)
                   for name, is_marking, unit, where in self._order if (t := f.get(name))]
+        if len(filled) > 1 and filled[-1][2] == "the label":
+            filled.pop()       # a label is read only when nothing else is; otherwise it cross-checks
         colours = f.get("colours", "")
         if not filled or (colours and not filled[0][0]):
             # colour bands give the value; every value column cross-checks them

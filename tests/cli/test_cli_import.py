@@ -105,7 +105,8 @@ def test_a_sheet_without_a_value_or_marking_column_is_refused(runner, tmp_path):
     path = write_csv(tmp_path / "q.csv", [["A1", "3"]], headers=("Bin #", "Qty"))
     result = run(runner, tmp_path / "s.db", "import", str(path))
     assert result.exit_code == 1
-    assert "no column carries a value or marking (headers found: 'Bin #', 'Qty')" in result.stderr
+    assert ("no column carries a value or marking (headers found: 'Bin #' (bin locations),"
+            " 'Qty' (whole numbers))") in result.stderr
 
 
 def test_import_help_has_a_real_example(runner):

@@ -149,7 +149,7 @@ def test_vocabularies_name_exactly_the_agreed_fields():
     # The field names are a contract with intake and kit (CONTRACTS.md / issue 4 brief).
     assert BIN_FIELDS == ("marking", "value", "tolerance", "voltage", "dielectric", "colours", "quantity",
                           "location", "label", "cabinet", "notes", "minimum", "package", "mounting",
-                          "date_code", "safety_class", "polarity", "rated_temp")
+                          "date_code", "safety_class", "polarity", "rated_temp", "bin_key")
     assert BOM_FIELDS == ("refs", "qty", "value", "marking", "tolerance", "voltage", "dielectric",
                           "tempco", "application", "part_type", "notes")
 
@@ -217,7 +217,7 @@ OVERRIDE_ERRORS = [
     pytest.param({"colour": "Bands"}, "bins",
                  "--map: cannot read 'colour=Bands' (expected FIELD=HEADER with FIELD one of marking, value, "
                  "tolerance, voltage, dielectric, colours, quantity, location, label, cabinet, notes, minimum, "
-                 "package, mounting, date_code, safety_class, polarity, rated_temp)",
+                 "package, mounting, date_code, safety_class, polarity, rated_temp, bin_key)",
                  id="unknown-field"),
     pytest.param({"refs": "Refs"}, "bins", None, id="bom-field-in-a-bin-sheet"),
     pytest.param({"value": "Capp"}, "bins",
