@@ -72,6 +72,29 @@ BIN_ALIASES: dict[str, tuple[str, ...]] = {
     "bin_key": ("bin key",),      # the whole identity "<cabinet>/<location>", as exports write it
 }
 
+# One line per bin-sheet field, for `stock import --help`.
+FIELD_MEANINGS: dict[str, str] = {
+    "marking": "what is printed on the part: 104K 2A, 4n7 C0G, CAP CER 0.1UF 50V X7R 0603",
+    "value": "the capacitance: 4.7nF, 0.1uF, 4700 (a unit in the header: 'Value (pF)')",
+    "tolerance": "±5 %, 10%, J, K",
+    "voltage": "rated voltage: 50, 50V, 275VAC",
+    "dielectric": "C0G, X7R, polyester, MKP, tantalum, electrolytic",
+    "colours": "colour bands or dots: yellow violet orange",
+    "quantity": "pieces on hand (blank = not counted, not zero)",
+    "location": "the bin within its cabinet: A1, drawer 12",
+    "label": "the bin's label or a description (read for the value when nothing else is)",
+    "cabinet": "the cabinet or rack (default: the sheet or file name)",
+    "notes": "anything else about the bin",
+    "minimum": "reorder when fewer are on hand",
+    "package": "0805, radial 5x11, axial",
+    "mounting": "SMD or through-hole",
+    "date_code": "maker's date code: 1832, 2019-07",
+    "safety_class": "mains safety class: X2, Y1",
+    "polarity": "polarised or not, which lead is marked",
+    "rated_temp": "rated temperature: 105 °C",
+    "bin_key": "cabinet/location in one cell, as the inventory export writes it",
+}
+
 BOM_ALIASES: dict[str, tuple[str, ...]] = {
     "refs": ("refs", "ref", "reference", "references", "ref des", "refdes", "ref designators",
              "reference designator", "reference designators", "designator", "designators",
@@ -342,6 +365,8 @@ class HeaderMap:
                 detail += f", unit {self.column_units[i]}"
             if len(order) > 1 and i in rank:
                 detail += f", read {_ORDINALS.get(rank[i], str(rank[i]) + 'th')}"
+            elif name == "label" and self.label_is_value:
+                detail += ", read for the value"
             lines.append(f"{header!r} → {name} ({detail})")
         if len(order) > 1:
             names = " then ".join(repr(self.headers[i]) for _, i in order)

@@ -270,7 +270,7 @@ class RowReader:
             where = {"value": "the value column", "label": "the label"}.get(name, f"the {headers[i]!r} column")
             self._order.append((name, n == "marking", unit, where))
         self._reading_fields = tuple(n for n in (*MARKING_FIELDS, "value") if n in self.index) + \
-            tuple(name for name, _, _, _ in self._order if "@" in name)
+            tuple(name for name, _, _, _ in self._order if "@" in name or name == "label")
         self._readings: dict[tuple[str | None, ...], tuple[str, Marking | None, Claims]] = {}
 
     def texts(self, cells: tuple[Any, ...]) -> dict[str, str]:

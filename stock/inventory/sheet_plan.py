@@ -96,6 +96,21 @@ def unmatched_error(rule: MapRule, seen: Sequence[tuple[Path, str | None, Sequen
     return BadValue("--map", f"{rule.field}={rule.header}", f"a header of some sheet of the import: {shown}")
 
 
+def check_rules_across(rules: Sequence[MapRule], paths: Sequence[Path], sheet: str | None = None) -> None:
+    """Refuse a ``--map`` rule that no sheet of any of the files has (headers read, rows not).
+
+    Raises:
+        BadValue: naming the rule and the headers (or sheets) there are.
+        BadSheet: a file cannot be read.
+    """
+    from importers.sheet import read_sheets
+
+    seen = [(Path(p), s.sheet, s.headers) for p in paths for s in read_sheets(Path(p), sheet)]
+    left = unmatched_rules(rules, seen)
+    if left:
+        raise unmatched_error(left[0], seen)
+
+
 @dataclass(frozen=True)
 class SheetPlan:
     """How a sheet is read: its header map and rows, or why it is skipped.
@@ -181,5 +196,5 @@ def refuse_unreadable(path: Path, plans: Sequence[SheetPlan]) -> None:
                         " or --map marking=HEADER")
 
 
-__all__ = ["MapRule", "SheetPlan", "parse_map_rules", "plan_sheet", "refuse_unreadable", "rules_for",
+__all__ = ["MapRule", "SheetPlan", "check_rules_across", "parse_map_rules", "plan_sheet", "refuse_unreadable", "rules_for",
            "unmatched_error", "unmatched_rules"]
