@@ -205,6 +205,7 @@ def inventory_rows(store: Store) -> list[list[Any]]:
             None if on_hand is None else max(0, on_hand - reserved.get(row["bid"], 0)),
             *[grades.get(row["bid"], {}).get(app, "") for app in APPLICATION_COLUMNS],
             ", ".join(flags.get(row["bid"], [])),
+            row["package"] or "", row["mounting"] or "",
         ])
     return out
 
@@ -217,6 +218,7 @@ INVENTORY_COLUMNS = (
     Column("Tempco (ppm/K)", 14, "0"), Column("Safety class", 12), Column("Polarity", 16),
     Column("On hand", 9, "#,##0"), Column("Available", 10, "#,##0"),
     *[Column(app.capitalize(), 9) for app in APPLICATION_COLUMNS], Column("Open flags", 30),
+    Column("Package", 14), Column("Mounting", 9),
 )
 
 
