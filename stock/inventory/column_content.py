@@ -35,6 +35,7 @@ LOCATION_SHARE = 0.7
 DISTINCT_SHARE = 0.6       # locations name one bin each, so they are mostly distinct
 COUNT_SHARE = 0.9
 REFERENCE_SHARE = 0.6
+SHOWN_COLUMNS = 8          # columns described in a message
 MIN_CELLS = 2              # a column with fewer filled cells is not judged
 
 _WHOLE = re.compile(r"^\d{1,7}$")
@@ -193,7 +194,9 @@ def label_holds_values(header_map: Any, profiles: Sequence[ColumnProfile]) -> bo
 
 def describe_columns(headers: Sequence[str], profiles: Sequence[ColumnProfile]) -> str:
     """``'Where' (bin locations), 'How many' (whole numbers)`` for a refusal message."""
-    return ", ".join(f"{h!r} ({p.looks_like()})" for h, p in zip(headers, profiles)) or "none"
+    shown = [f"{h!r} ({p.looks_like()})" for h, p in zip(headers, profiles)][:SHOWN_COLUMNS]
+    more = len(headers) - len(shown)
+    return (", ".join(shown) + (f" and {more} more" if more > 0 else "")) or "none"
 
 
 def bom_evidence(headers: Sequence[str], profiles: Sequence[ColumnProfile]) -> str | None:

@@ -15,6 +15,7 @@ the settled one, its doubts closed, and the ledger says it came from the exporte
 from __future__ import annotations
 
 import json
+import re
 from dataclasses import replace
 from decimal import Decimal, InvalidOperation
 from typing import Any, Sequence
@@ -27,7 +28,8 @@ EXPORT_HEADERS = ("Bin", "Marking", "Capacitance (pF)", "Tolerance", "Voltage (V
                   "Dielectric", "Family", "Safety class", "Polarity", "On hand")
 # Field → export header, for the fields read as such; the other reading fields get no column.
 _READ_AS = {"bin_key": "Bin", "location": "Location", "cabinet": "Cabinet", "label": "Label",
-            "marking": "Marking", "quantity": "On hand", "package": "Package", "mounting": "Mounting"}
+            "marking": "Marking", "quantity": "On hand", "package": "Package", "mounting": "Mounting",
+            "minimum": "Minimum", "date_code": "Date code", "notes": "Notes"}
 _NOT_READ = ("value", "colours", "tolerance", "voltage", "dielectric", "safety_class", "polarity",
              "rated_temp", "notes", "minimum", "date_code")
 
@@ -49,7 +51,7 @@ def export_overrides(headers: Sequence[str]) -> dict[str, str]:
     """The ``{field: header}`` mapping an export is read by (fields it states as facts: no column)."""
     present = set(headers)
     out = {name: header for name, header in _READ_AS.items() if header in present}
-    out.update({name: "" for name in _NOT_READ})
+    out.update({name: "" for name in _NOT_READ if name not in out})
     return out
 
 
@@ -81,14 +83,17 @@ class ExportedFacts:
 
     def marking(self, cells: Sequence[Any], decoded: Marking | None, text: str) -> tuple[Marking | None, bool]:
         """(the part's marking with the columns' facts, whether they differ from the decoding)."""
-        from stock.inventory.row_reading import decode_cached, same_value
+        from stock.inventory.row_reading import agreed_by_claim, same_value
 
         base = decoded or Marking(text=text)
         pf = _decimal(self._cell(cells, "Capacitance (pF)"))
         if pf is None:
             return decoded, False          # nothing stated: the decoding stands (or the row is refused)
+        if base.capacitance_pf is not None and same_value(base.capacitance_pf, pf):
+            # the sheet states the value the decoder chose: its doubts about the value are answered
+            base = agreed_by_claim(base, "the exported sheet", self._text(cells, "Value") or text)
         tolerance_text = self._text(cells, "Tolerance")
-        tolerance = decode_cached(tolerance_text).tolerance if tolerance_text else None
+        tolerance = _tolerance(tolerance_text)
         volts = _decimal(self._cell(cells, "Voltage (V)"))
         kind = self._text(cells, "AC/DC") or None
         dielectric = _dielectric(self._text(cells, "Dielectric"), self._text(cells, "Family"), base)
@@ -105,6 +110,22 @@ class ExportedFacts:
             polarity=self._text(cells, "Polarity") or None)
         differs = _facts(facts) != _facts(base)
         return facts, differs
+
+
+_PF_TOLERANCE = re.compile(r"^±\s*(\d+(?:\.\d+)?)\s*pF$")
+
+
+def _tolerance(text: str) -> Any:
+    """A tolerance as the export writes it: ``±10 %``, ``+80/−20 %``, ``±0.25 pF``."""
+    from stock.decoded import Tolerance
+    from stock.inventory.row_reading import decode_cached
+
+    if not text:
+        return None
+    pf = _PF_TOLERANCE.match(text)
+    if pf:
+        return Tolerance(Decimal(pf[1]), Decimal(pf[1]), "pF")
+    return decode_cached(text).tolerance
 
 
 def _same_tolerance(a: Any, b: Any) -> bool:

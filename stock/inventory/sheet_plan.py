@@ -174,7 +174,7 @@ def plan_sheet(store: Any, path: Path, raw_sheet: Any, rules: Sequence[MapRule] 
     if not exported:
         header_map = map_by_content(header_map, profiles)
     readable = any(f in header_map.field_to_index for f in ("marking", "value", "colours"))
-    if label_holds_values(header_map, profiles):
+    if not exported and label_holds_values(header_map, profiles):
         header_map = replace(header_map, label_is_value=True)    # a description column: read it
         readable = True
     if not readable:

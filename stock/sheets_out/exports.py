@@ -190,7 +190,7 @@ def inventory_rows(store: Store) -> list[list[Any]]:
         " WHERE p.status = 'reserved' GROUP BY r.bin_id")}
     out = []
     for row in store.rows("SELECT b.id AS bid, b.bin_key, b.location, b.cabinet, b.label, b.on_hand,"
-                          " p.* FROM bins b JOIN parts p ON p.bin_id = b.id ORDER BY b.bin_key"):
+                          " b.minimum, b.date_code, b.notes, p.* FROM bins b JOIN parts p ON p.bin_id = b.id ORDER BY b.bin_key"):
         m = part_marking(row)
         d = m.dielectric
         on_hand = row["on_hand"]
@@ -205,7 +205,8 @@ def inventory_rows(store: Store) -> list[list[Any]]:
             None if on_hand is None else max(0, on_hand - reserved.get(row["bid"], 0)),
             *[grades.get(row["bid"], {}).get(app, "") for app in APPLICATION_COLUMNS],
             ", ".join(flags.get(row["bid"], [])),
-            row["package"] or "", row["mounting"] or "",
+            row["package"] or "", row["mounting"] or "", row["minimum"], row["date_code"] or "",
+            row["notes"] or "",
         ])
     return out
 
@@ -218,7 +219,8 @@ INVENTORY_COLUMNS = (
     Column("Tempco (ppm/K)", 14, "0"), Column("Safety class", 12), Column("Polarity", 16),
     Column("On hand", 9, "#,##0"), Column("Available", 10, "#,##0"),
     *[Column(app.capitalize(), 9) for app in APPLICATION_COLUMNS], Column("Open flags", 30),
-    Column("Package", 14), Column("Mounting", 9),
+    Column("Package", 14), Column("Mounting", 9), Column("Minimum", 9, "#,##0"), Column("Date code", 10),
+    Column("Notes", 24),
 )
 
 
