@@ -136,7 +136,7 @@ def map_by_content(header_map: Any, profiles: Sequence[ColumnProfile]) -> Any:
 
     Content never overrides an alias, a fuzzy match or ``--map``: only columns left unmapped
     are looked at, and only fields no column has yet. A value-like column is the marking when
-    the sheet has no reading column; otherwise it is read too, after the others.
+    no column is; a further one is read too, after it (each row from the first filled).
 
     Returns:
         A new HeaderMap; the fields found are marked ``content NN %`` in ``how``.
@@ -159,14 +159,13 @@ def map_by_content(header_map: Any, profiles: Sequence[ColumnProfile]) -> Any:
     readers = [i for i in free if profiles[i].holds_values()]
     if readers:
         readers.sort(key=lambda i: (-profiles[i].value_share, i))
-        reading_mapped = any(f in index for f in ("marking", "value", "colours"))
         for i in readers:
-            if not reading_mapped and "marking" not in index:
+            if "marking" not in index:
                 give("marking", i, profiles[i].value_share)
                 continue
-            target = "marking" if "marking" in index else "value"
-            also[target] = tuple(sorted((*also.get(target, ()), i)))
-            how[f"{target}@{i}"] = _percent(profiles[i].value_share)
+            also["marking"] = tuple(sorted((*also.get("marking", ()), i)))
+            how[f"marking@{i}"] = _percent(profiles[i].value_share)
+            scores[f"marking@{i}"] = round(profiles[i].value_share * 100, 1)
             taken.add(i)
             free.remove(i)
             found_any = True

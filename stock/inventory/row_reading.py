@@ -354,21 +354,8 @@ class RowReader:
         rest = decode_cached(text) if text else None
         if rest is not None and rest.capacitance_pf is not None:
             return full, rest.with_flags(*_colours_unused(colours))
-        bands = _decode_colours_cached(colours)
-        if rest is None:
-            return full, bands
-        merged = replace(
-            bands, text=full,
-            tolerance=bands.tolerance or rest.tolerance,
-            voltage_v=bands.voltage_v or rest.voltage_v,
-            voltage_kind=bands.voltage_kind or rest.voltage_kind,
-            dielectric=bands.dielectric or rest.dielectric,
-            safety_class=bands.safety_class or rest.safety_class,
-            polarity=bands.polarity or rest.polarity,
-            rated_temp_c=bands.rated_temp_c or rest.rated_temp_c,
-            flags=bands.flags + tuple(x for x in rest.flags if x.kind not in ("unreadable",)),
-            unparsed=bands.unparsed + rest.unparsed)
-        return full, merged
+        from stock.markings.decoder import merge_colours
+        return full, merge_colours(_decode_colours_cached(colours), rest, full)
 
     @staticmethod
     def cross_check(key: str, text: str, marking: Marking, claimed: Claims,

@@ -34,7 +34,7 @@ from __future__ import annotations
 
 import re
 import unicodedata
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from decimal import Decimal
 from functools import lru_cache
 
@@ -509,12 +509,70 @@ def _decode(text: str) -> Marking:
                    unparsed=tuple(facts.unparsed), package=package, mounting=mounting)
 
 
+def merge_colours(bands: Marking, rest: Marking | None, text: str) -> Marking:
+    """Colour bands read beside printed or typed facts (a tolerance, a voltage) as one marking.
+
+    The bands give the value; the rest fills in what the bands do not say, and a tolerance
+    stated in words wins over the one three bands leave to be assumed.
+
+    >>> m = merge_colours(decode("yellow violet brown"), decode("5%"), "yellow violet brown 5%")
+    >>> format_capacitance(m.capacitance_pf), format_tolerance(m.tolerance)
+    ('470 pF', '±5 %')
+    """
+    if rest is None:
+        return replace(bands, text=text)
+    assumed = "tolerance-assumed" in bands.flag_kinds()
+    tolerance = (rest.tolerance or bands.tolerance) if assumed else (bands.tolerance or rest.tolerance)
+    flags = tuple(f for f in bands.flags if not (assumed and rest.tolerance and f.kind == "tolerance-assumed"))
+    return replace(
+        bands, text=text, tolerance=tolerance,
+        voltage_v=bands.voltage_v or rest.voltage_v,
+        voltage_kind=bands.voltage_kind or rest.voltage_kind,
+        dielectric=bands.dielectric or rest.dielectric,
+        safety_class=bands.safety_class or rest.safety_class,
+        polarity=bands.polarity or rest.polarity,
+        rated_temp_c=bands.rated_temp_c or rest.rated_temp_c,
+        flags=flags + tuple(x for x in rest.flags if x.kind not in ("unreadable",)),
+        unparsed=bands.unparsed + rest.unparsed,
+        package=rest.package, mounting=rest.mounting)
+
+
+_COLOUR_RUN_MIN = 3
+
+
+def _colour_run(text: str) -> tuple[str, str] | None:
+    """(colour words, the rest) when a run of colour words stands among other words."""
+    words = text.split()
+    if len(words) <= _COLOUR_RUN_MIN:
+        return None
+    for size in range(len(words) - 1, _COLOUR_RUN_MIN - 1, -1):
+        for start in range(0, len(words) - size + 1):
+            run = " ".join(words[start:start + size])
+            if looks_like_colours(run):
+                return run, " ".join(words[:start] + words[start + size:])
+    return None
+
+
+def _decode_mixed(text: str) -> Marking | None:
+    """``5% yellow violet brown``: colour bands joined with typed facts, as a sheet's columns are."""
+    found = _colour_run(text)
+    if found is None:
+        return None
+    bands = decode_colours(found[0])
+    if bands.capacitance_pf is None:
+        return None
+    return merge_colours(bands, _decode(found[1]), text)
+
+
 @lru_cache(maxsize=8192)
 def _decode_cached(text: str) -> Marking:
     try:
         if looks_like_colours(text):  # every word a colour: the colour code, not the printed codes
             return decode_colours(text)
-        return _decode(text)
+        marking = _decode(text)
+        if marking.capacitance_pf is None and marking.unparsed:
+            return _decode_mixed(text) or marking
+        return marking
     except Exception as exc:  # noqa: BLE001 - a decoder fault must not stop an import of many rows
         return Marking(text=text[:MAX_MARKING_CHARS],
                        flags=(Flag("unreadable", f"the decoder failed on this text ({type(exc).__name__})"),))
@@ -614,4 +672,5 @@ def cautions(m: Marking) -> tuple[str, ...]:
     return tuple(out)
 
 
-__all__ = ["MAX_MARKING_CHARS", "USUAL_POLARITY", "cautions", "decode", "describe_dielectric", "summary"]
+__all__ = ["MAX_MARKING_CHARS", "USUAL_POLARITY", "cautions", "decode", "describe_dielectric", "merge_colours",
+           "summary"]
