@@ -98,7 +98,8 @@ def picklist_command(
     xlsx: Annotated[Path | None, typer.Option("--xlsx", help="Also write the pick list to this XLSX file.")] = None,
     as_json: Annotated[bool, typer.Option("--json", help="Print the pick list as JSON.")] = False,
 ) -> None:
-    from stock.kitting.pick_list import pick_list, pick_list_text, write_pick_list_xlsx
+    from stock.kitting.pick_list import pick_list, pick_list_text
+    from stock.sheets_out.pick_sheet import write_pick_list_xlsx
 
     with _store(ctx) as store:
         picks = pick_list(store, plan)

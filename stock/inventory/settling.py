@@ -71,11 +71,11 @@ def settle(store: Store, bin_ref: str, *, reading: int | None = None, value: str
            flag_id: int | None = None, by: str | None = None) -> Settlement:
     """Record a person's decision about a bin, re-decode with it, and close the flags it settles.
 
-    Give at most one of ``reading`` (a number from :func:`readings`), ``value`` (a capacitance,
-    any syntax the decoder reads) or ``marking`` (the marking as it really reads). ``count``
-    settles an unknown quantity with a count movement. With none of these, a ``note`` settles
-    the flags a note settles (duplicate, below-minimum, shelf-life, unknown kinds). ``flag_id``
-    narrows the decision to one flag.
+    Give at most one of ``reading`` (a number from :func:`~stock.inventory.readings.readings`),
+    ``value`` (a capacitance, any syntax the decoder reads) or ``marking`` (the marking as it
+    really reads). ``count`` settles an unknown quantity with a count movement. With none of
+    these, a ``note`` settles the flags a note settles (duplicate, below-minimum, shelf-life,
+    unknown kinds). ``flag_id`` narrows the decision to one flag.
 
     Raises:
         NotFound: no such bin, or no such open flag on it.
@@ -94,7 +94,30 @@ def settle(store: Store, bin_ref: str, *, reading: int | None = None, value: str
     part = store.one("SELECT * FROM parts WHERE bin_id = ?", (bin_id,))
     if given and part is None:
         raise Refused(f"settle the reading of bin {key}", "it holds no decoded part")
+    targets = _flags_to_settle(store, bin_id, key, flag_id, bool(given), count)
 
+    decision: dict[str, Any] = {"via": "settle", "bin_id": bin_id, "by": actor, "note": note}
+    old = new = None
+    warnings: list[str] = []
+    chosen: Marking | None = None
+    if given:
+        before = current_marking(part)
+        chosen, decision["decision"] = _chosen_reading(part, key, before, reading, value, marking, warnings)
+        old, new = reading_summary(before), reading_summary(chosen)
+        decision["old"], decision["new"] = old, new
+    else:
+        decision["decision"] = f"count {count}" if count is not None else "note"
+    ids = [f["id"] for f in targets]
+    decision["flags"] = ids
+    with store.writing():
+        ledger_id = _record(store, bin_row, chosen, count, ids, decision, actor)
+    return Settlement(key, decision["decision"], tuple(ids), old=old, new=new,
+                      ledger_id=ledger_id, warnings=tuple(warnings))
+
+
+def _flags_to_settle(store: Store, bin_id: int, key: str, flag_id: int | None, reading_given: bool,
+                     count: int | None) -> list[dict[str, Any]]:
+    """The open flags a decision of this kind settles; refuses a decision that settles nothing."""
     open_flags = _open_flags_for(store, bin_id)
     if flag_id is not None:
         open_flags = [f for f in open_flags if f["id"] == flag_id]
@@ -102,11 +125,11 @@ def settle(store: Store, bin_ref: str, *, reading: int | None = None, value: str
             raise NotFound(f"open flag on bin {key} numbered", str(flag_id),
                            f"a flag id listed by `stock flags` for bin {key}")
     wanted: set[str] = set()
-    if given:
+    if reading_given:
         wanted.add("reading")
     if count is not None:
         wanted.add("count")
-    if not given and count is None:
+    if not reading_given and count is None:
         wanted.add("note")
     targets = [f for f in open_flags if flag_kind(f["kind"]).settled_by in wanted]
     if flag_id is not None and not targets:
@@ -114,7 +137,7 @@ def settle(store: Store, bin_ref: str, *, reading: int | None = None, value: str
         words = {"reading": "a reading: --reading N (0 keeps the decoder's), --value or --marking",
                  "count": "a count: --count N", "note": "a --note (or a merge)"}
         raise Refused(f"settle flag {flag_id} ({open_flags[0]['kind']})", f"it is settled by {words[need]}")
-    if not targets and not given and count is None:
+    if not targets and not reading_given and count is None:
         pending = ", ".join(f"{f['id']} {f['kind']}" for f in open_flags) or "none"
         raise Refused(f"settle bin {key}", "nothing to settle with a note alone"
                       f" (open flags: {pending}); give --reading, --value, --marking or --count")
@@ -123,68 +146,60 @@ def settle(store: Store, bin_ref: str, *, reading: int | None = None, value: str
         pending = ", ".join(f"{f['id']} {f['kind']}" for f in targets)
         raise Refused(f"settle bin {key} with one note", f"it has several open flags ({pending});"
                       " give --flag ID for each")
+    return targets
 
-    decision: dict[str, Any] = {"via": "settle", "bin_id": bin_id, "by": actor, "note": note}
-    old = new = None
-    warnings: list[str] = []
-    chosen: Marking | None = None
-    if given:
+
+def _chosen_reading(part: dict[str, Any], key: str, before: Marking, reading: int | None,
+                    value: str | Decimal | None, marking: str | None,
+                    warnings: list[str]) -> tuple[Marking, str]:
+    """The reading a person chose (by number, by value or by the marking as it really reads)."""
+    if reading is not None:
         decoded = Marking.from_json(json.loads(part["decoded_json"]))
-        before = current_marking(part)
-        if reading is not None:
-            if reading == 0 and decoded.capacitance_pf is None:
-                raise Refused(f"keep the decoder's reading of bin {key}",
-                              "it found no value; give --value or --marking")
-            chosen = pick_reading(decoded, reading)
-            decision["decision"] = f"reading {reading}"
-        elif value is not None:
-            pf = value if isinstance(value, Decimal) else _parse_value(str(value))
-            chosen = decided(replace(before, capacitance_pf=pf))
-            decision["decision"] = f"value {value}"
-        else:
-            chosen = decode(str(marking))
-            if chosen.alternatives or any(flag_kind(f.kind).settled_by == "reading" for f in chosen.flags):
-                warnings.append(f"the marking {marking!r} still has doubts"
-                                f" ({', '.join(sorted(chosen.flag_kinds())) or 'alternatives'});"
-                                " recorded as given")
-            if chosen.capacitance_pf is None:
-                raise Refused(f"settle bin {key} with the marking {marking!r}",
-                              "no value can be read from it; give --value")
-            decision["decision"] = f"marking {marking}"
-        old, new = reading_summary(before), reading_summary(chosen)
-        decision["old"], decision["new"] = old, new
-    elif count is not None:
-        decision["decision"] = f"count {count}"
-    else:
-        decision["decision"] = "note"
+        if reading == 0 and decoded.capacitance_pf is None:
+            raise Refused(f"keep the decoder's reading of bin {key}",
+                          "it found no value; give --value or --marking")
+        return pick_reading(decoded, reading), f"reading {reading}"
+    if value is not None:
+        pf = value if isinstance(value, Decimal) else _parse_value(str(value))
+        return decided(replace(before, capacitance_pf=pf)), f"value {value}"
+    chosen = decode(str(marking))
+    if chosen.alternatives or any(flag_kind(f.kind).settled_by == "reading" for f in chosen.flags):
+        warnings.append(f"the marking {marking!r} still has doubts"
+                        f" ({', '.join(sorted(chosen.flag_kinds())) or 'alternatives'});"
+                        " recorded as given")
+    if chosen.capacitance_pf is None:
+        raise Refused(f"settle bin {key} with the marking {marking!r}",
+                      "no value can be read from it; give --value")
+    return chosen, f"marking {marking}"
 
-    ids = [f["id"] for f in targets]
-    decision["flags"] = ids
-    with store.writing():
-        ledger_id = None
-        if chosen is not None:
-            cols = part_columns(chosen)
-            sets = ", ".join(f'"{c}" = ?' for c in cols)
-            store.db.conn.execute(f"UPDATE parts SET {sets}, settled_json = ? WHERE bin_id = ?",
-                                  (*cols.values(), json.dumps(chosen.to_json(), ensure_ascii=False), bin_id))
-        counted = False
-        if count is not None:
-            was_unknown = bin_row["on_hand"] is None
-            delta = store.set_count(bin_id, count, "count", ref="settle",
-                                    note=json.dumps(decision, default=str, ensure_ascii=False))
-            counted = bool(delta) or was_unknown
-            if counted:
-                ledger_id = store.one("SELECT MAX(id) AS id FROM ledger WHERE bin_id = ?",
-                                      (bin_id,))["id"]
-        if chosen is not None or not counted:
-            ledger_id = ledger_note(store, bin_id, "settle", ref="flags:" + ",".join(map(str, ids)),
-                                    note=decision, actor=actor)
-        decision["ledger_id"] = ledger_id
-        close_flags(store, ids, decision)
-        if chosen is not None:
-            _refresh_grades(store, [bin_id])
-    return Settlement(key, decision["decision"], tuple(ids), old=old, new=new,
-                      ledger_id=ledger_id, warnings=tuple(warnings))
+
+def _record(store: Store, bin_row: dict[str, Any], chosen: Marking | None, count: int | None,
+            ids: list[int], decision: dict[str, Any], actor: str) -> int | None:
+    """Write the decision inside the caller's transaction: part columns, count, ledger, flags."""
+    bin_id = bin_row["id"]
+    ledger_id = None
+    if chosen is not None:
+        cols = part_columns(chosen)
+        sets = ", ".join(f'"{c}" = ?' for c in cols)
+        store.db.conn.execute(f"UPDATE parts SET {sets}, settled_json = ? WHERE bin_id = ?",
+                              (*cols.values(), json.dumps(chosen.to_json(), ensure_ascii=False), bin_id))
+    counted = False
+    if count is not None:
+        was_unknown = bin_row["on_hand"] is None
+        delta = store.set_count(bin_id, count, "count", ref="settle",
+                                note=json.dumps(decision, default=str, ensure_ascii=False))
+        counted = bool(delta) or was_unknown
+        if counted:
+            ledger_id = store.one("SELECT MAX(id) AS id FROM ledger WHERE bin_id = ?",
+                                  (bin_id,))["id"]
+    if chosen is not None or not counted:
+        ledger_id = ledger_note(store, bin_id, "settle", ref="flags:" + ",".join(map(str, ids)),
+                                note=decision, actor=actor)
+    decision["ledger_id"] = ledger_id
+    close_flags(store, ids, decision)
+    if chosen is not None:
+        _refresh_grades(store, [bin_id])
+    return ledger_id
 
 
 def _parse_value(text: str) -> Decimal:

@@ -123,9 +123,8 @@ _SELECT = (
     "SELECT b.id AS bin_id, b.bin_key, b.location, b.on_hand, p.decoded_json, p.settled_json,"
     " p.capacitance_pf, p.tol_minus, p.tol_plus, p.tol_unit, p.tempco_ppm_per_k,"
     " p.tempco_tol_ppm_per_k, p.voltage_v,"
-    " (SELECT COALESCE(SUM(r.qty), 0) FROM reservations r JOIN plans pl ON pl.id = r.plan_id"
-    "  WHERE r.bin_id = b.id AND pl.status = 'reserved') AS reserved"
-    " FROM parts p JOIN bins b ON b.id = p.bin_id")
+    " s.held AS reserved"
+    " FROM parts p JOIN bins b ON b.id = p.bin_id JOIN bin_stock s ON s.bin_id = b.id")
 
 
 def _stocked(row: dict[str, Any]) -> Stocked:
@@ -202,9 +201,8 @@ def _value_error(c: Decimal, target: Decimal) -> Decimal:
 # The columns a single-part search needs, as plain tuples (no dict per row): bin, JSON, reserved.
 _CANDIDATE_SELECT = (
     "SELECT b.id, b.bin_key, b.location, b.on_hand, p.decoded_json, p.settled_json,"
-    " (SELECT COALESCE(SUM(r.qty), 0) FROM reservations r JOIN plans pl ON pl.id = r.plan_id"
-    "  WHERE r.bin_id = b.id AND pl.status = 'reserved') AS reserved"
-    " FROM parts p JOIN bins b ON b.id = p.bin_id")
+    " s.held AS reserved"
+    " FROM parts p JOIN bins b ON b.id = p.bin_id JOIN bin_stock s ON s.bin_id = b.id")
 
 
 def candidates(store: Store, req: Requirement) -> list[Match]:
@@ -231,6 +229,23 @@ def candidates(store: Store, req: Requirement) -> list[Match]:
     return found
 
 
+def linear_tempco_parts(store: Store) -> list[Stocked]:
+    """Every Class 1 ceramic on hand with a stated tempco and at least one part available, by value.
+
+    The flat columns pre-filter; the stored marking (a settled reading wins) has the last word.
+    """
+    sql = (f"{_SELECT} WHERE p.class = 1 AND p.tempco_ppm_per_k IS NOT NULL AND p.capacitance_pf > 0"
+           " AND s.available > 0 ORDER BY p.capacitance_pf, b.bin_key")
+    found = []
+    for row in store.rows(sql):
+        part = _stocked(row)
+        d = part.marking.dielectric
+        if (d is not None and d.klass == 1 and d.tempco_ppm_per_k is not None
+                and part.marking.capacitance_pf is not None and part.marking.capacitance_pf > 0):
+            found.append(part)
+    return found
+
+
 # The pair index of each open store, rebuilt when the database changes: PRAGMA data_version moves
 # when another connection commits, total_changes when this one writes. Kit planning asks for many
 # lines in a row, and the index costs a full read of the parts table.
@@ -241,11 +256,9 @@ _POOL_SQL = (
     " CASE WHEN p.tol_unit = 'pF' THEN p.tol_minus * 100.0 / p.capacitance_pf ELSE p.tol_minus END,"
     " CASE WHEN p.tol_unit = 'pF' THEN p.tol_plus * 100.0 / p.capacitance_pf ELSE p.tol_plus END,"
     " p.tempco_ppm_per_k, COALESCE(p.tempco_tol_ppm_per_k, 0.0), p.voltage_v,"
-    " COALESCE(b.on_hand, 0) - COALESCE(rv.n, 0), p.family, p.safety_class IS NOT NULL"
-    " FROM parts p JOIN bins b ON b.id = p.bin_id LEFT JOIN (SELECT r.bin_id, SUM(r.qty) AS n"
-    "  FROM reservations r JOIN plans pl ON pl.id = r.plan_id WHERE pl.status = 'reserved'"
-    "  GROUP BY r.bin_id) rv ON rv.bin_id = p.bin_id"
-    " WHERE p.capacitance_pf > 0 AND COALESCE(b.on_hand, 0) - COALESCE(rv.n, 0) > 0"
+    " s.available, p.family, p.safety_class IS NOT NULL"
+    " FROM parts p JOIN bin_stock s ON s.bin_id = p.bin_id"
+    " WHERE p.capacitance_pf > 0 AND s.available > 0"
     " ORDER BY p.capacitance_pf, p.bin_id")
 
 
@@ -520,4 +533,5 @@ def find(store: Store, req: Requirement, *, combine: bool = False, limit: int = 
 __all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION", "SAFETY_SUBSTITUTES",
            "Combination", "FindResult", "Match", "PairPart", "Requirement", "Stocked", "Verdict",
            "build_requirement", "candidates", "check_pair", "check_part", "check_single", "check_tempco",
-           "check_value", "find", "parse_tempco_window", "safety_classes", "safety_covers"]
+           "check_value", "find", "linear_tempco_parts", "parse_tempco_window", "safety_classes",
+           "safety_covers"]
