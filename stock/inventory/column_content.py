@@ -43,7 +43,7 @@ _LOCATION = re.compile(r"^(?:[A-Za-z]{1,3}[-./ ]?\d{1,4}[A-Za-z]?|\d{1,3}[-./][A
                        r"|[A-Za-z]{1,3}\d{0,3}[-./]\d{1,3})$")
 _DESIGNATOR = r"[A-Z]{1,3}\d{1,4}"
 _REFERENCES = re.compile(rf"^{_DESIGNATOR}(?:\s*(?:[,;]|\s|[-–]|\.\.)\s*(?:{_DESIGNATOR}|\d{{1,4}}))*$")
-_REFERENCE_LIST = re.compile(rf"^{_DESIGNATOR}(?:\s*(?:[,;]|\s|[-–]|\.\.)\s*(?:{_DESIGNATOR}|\d{{1,4}}))+$")
+_REFERENCE_LIST = re.compile(rf"^{_DESIGNATOR}(?:\s*[,;]\s*{_DESIGNATOR}|\s+{_DESIGNATOR}|\s*[-–]\s*{_DESIGNATOR})+$")
 
 
 @dataclass(frozen=True)
@@ -213,6 +213,8 @@ def bom_evidence(headers: Sequence[str], profiles: Sequence[ColumnProfile]) -> s
             return f"its column {header!r} holds reference designators"
     for header, profile in zip(headers, profiles):
         # single codes such as "A1" are bin locations as often as designators: a BOM lists them
+        if guess_field(header, "bins").field in ("location", "cabinet", "bin_key"):
+            continue
         if profile.holds_references() and profile.list_share >= 0.3 and not profile.holds_values():
             example = f" such as {profile.example!r}" if profile.example else ""
             return f"its column {header!r} holds reference designators{example}"
