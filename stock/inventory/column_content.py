@@ -6,7 +6,8 @@ little doubt. Each column is profiled over a bounded sample (the first :data:`SA
 non-blank rows), so a big sheet costs no more than a small one:
 
 * **value**: the share of cells that decode as a capacitance (``104``, ``4n7``, ``10uF 25V``)
-  or as colour bands; a column of bare whole numbers only is a count, not a value.
+  or as colour bands; a column of bare whole numbers only is a count, not a value, and a cell
+  shaped like a drawer name (``K1``) counts as a location even if a code could read it.
 * **location**: short codes of letters and digits (``A1``, ``B-12``, ``3/4``), mostly distinct.
 * **count**: whole numbers of zero or more.
 * **references**: reference designators (``C1``, ``C3, C7``, ``C10-C12``), the mark of a BOM.
@@ -107,11 +108,12 @@ def profile_column(cells: Iterable[Any]) -> ColumnProfile:
     for t in texts:
         whole = bool(_WHOLE.match(t))
         counts += whole
-        if len(t) <= 12 and _LOCATION.match(t):
-            locations += 1
         if _REFERENCES.match(t):
             references += 1
             lists += bool(_REFERENCE_LIST.match(t))
+        if len(t) <= 12 and _LOCATION.match(t):
+            locations += 1
+            continue       # "K1", "A12": a drawer's name, even where a code would read it as a value
         if looks_like_colours(t) or decode_cached(t).capacitance_pf is not None:
             values += 1
             wordy += not whole

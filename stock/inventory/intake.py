@@ -423,8 +423,11 @@ def _no_capacitance(text: str, marking: Marking | None) -> str:
     if marking is not None:
         other = [a.reason for a in marking.alternatives if a.capacitance_pf is not None]
         if marking.voltage_v is not None and other:
+            from stock.units import format_voltage
             return (f"no capacitance could be read from {text!r}: it reads as a voltage code"
-                    f" ({other[0]}); give the value with its unit, e.g. 1nF")
+                    f" ({format_voltage(marking.voltage_v, marking.voltage_kind)}), not a value"
+                    f" (at a stretch {other[0].split(': ', 1)[-1]}); give the capacitance with its"
+                    " unit, e.g. 1nF")
     return f"no capacitance could be read from {text!r}"
 
 
