@@ -111,6 +111,31 @@ def check_rules_across(rules: Sequence[MapRule], paths: Sequence[Path], sheet: s
         raise unmatched_error(left[0], seen)
 
 
+def refuse_bin_sheet_as_bom(path: str | Path, sheet: str | None = None) -> None:
+    """Refuse a bin sheet given where a BOM is wanted (``kit plan``), naming why it looks like one.
+
+    Reads the headers and a bounded sample of rows of the first sheet only.
+
+    Raises:
+        BadSheet: the sheet has bin columns and no references column.
+    """
+    from importers.sheet import read_sheets
+    from stock.inventory.column_content import SAMPLE_ROWS, bin_sheet_evidence, profile_sheet
+    from stock.inventory.row_reading import cell_text
+
+    sheets = read_sheets(Path(path), sheet)
+    if not sheets:
+        return
+    raw = sheets[0]
+    headers = [cell_text(h) for h in raw.headers]
+    sample = [r.cells for r in islice(raw.rows, SAMPLE_ROWS)]
+    why = bin_sheet_evidence(headers, profile_sheet(headers, sample))
+    if why is not None:
+        raise BadSheet(str(path), f"looks like a bin sheet, not a BOM: {why}", sheet=raw.sheet,
+                       row=raw.header_row,
+                       hint="import it with `stock import FILE`, or plan with it anyway with --force")
+
+
 @dataclass(frozen=True)
 class SheetPlan:
     """How a sheet is read: its header map and rows, or why it is skipped.
@@ -196,5 +221,5 @@ def refuse_unreadable(path: Path, plans: Sequence[SheetPlan]) -> None:
                         " or --map marking=HEADER")
 
 
-__all__ = ["MapRule", "SheetPlan", "check_rules_across", "parse_map_rules", "plan_sheet", "refuse_unreadable", "rules_for",
+__all__ = ["MapRule", "SheetPlan", "check_rules_across", "refuse_bin_sheet_as_bom", "parse_map_rules", "plan_sheet", "refuse_unreadable", "rules_for",
            "unmatched_error", "unmatched_rules"]
