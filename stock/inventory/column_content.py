@@ -40,6 +40,7 @@ SHOWN_COLUMNS = 8          # columns described in a message
 MIN_CELLS = 2              # a column with fewer filled cells is not judged
 
 _WHOLE = re.compile(r"^\d{1,7}$")
+_CODE = re.compile(r"^[1-9]\d[0-69]$")     # IEC 60062 three-digit code: two figures, a multiplier
 _LOCATION = re.compile(r"^(?:[A-Za-z]{1,3}[-./ ]?\d{1,4}[A-Za-z]?|\d{1,3}[-./][A-Za-z0-9]{1,3}"
                        r"|[A-Za-z]{1,3}\d{0,3}[-./]\d{1,3})$")
 _DESIGNATOR = r"[A-Z]{1,3}\d{1,4}"
@@ -59,6 +60,7 @@ class ColumnProfile:
     count_share: float = 0.0
     reference_share: float = 0.0
     list_share: float = 0.0        # cells listing several designators ("C1, C2", "C3-C5")
+    code_share: float = 0.0        # three-digit value codes typed as numbers ("104", 473)
     example: str = ""
 
     def holds_values(self, least: int = MIN_CELLS) -> bool:
@@ -104,10 +106,11 @@ def profile_column(cells: Iterable[Any]) -> ColumnProfile:
     if not texts:
         return ColumnProfile()
     n = len(texts)
-    values = wordy = locations = counts = references = lists = 0
+    values = wordy = locations = counts = references = lists = codes = 0
     for t in texts:
         whole = bool(_WHOLE.match(t))
         counts += whole
+        codes += bool(_CODE.match(t))
         if _REFERENCES.match(t):
             references += 1
             lists += bool(_REFERENCE_LIST.match(t))
@@ -119,7 +122,7 @@ def profile_column(cells: Iterable[Any]) -> ColumnProfile:
             wordy += not whole
     return ColumnProfile(cells=n, value_share=values / n, wordy_share=wordy / max(values, 1),
                          location_share=locations / n, distinct_share=len(set(texts)) / n,
-                         count_share=counts / n, reference_share=references / n, list_share=lists / n,
+                         count_share=counts / n, reference_share=references / n, list_share=lists / n, code_share=codes / n,
                          example=texts[0][:30])
 
 
@@ -171,6 +174,13 @@ def map_by_content(header_map: Any, profiles: Sequence[ColumnProfile]) -> Any:
             taken.add(i)
             free.remove(i)
             found_any = True
+    if not any(f in index for f in ("marking", "value", "colours")):
+        # codes typed into a spreadsheet become numbers: the column of codes, not of counts
+        coded = [i for i in free if profiles[i].cells >= 1 and profiles[i].code_share >= VALUE_SHARE
+                 and profiles[i].value_share >= VALUE_SHARE]
+        if coded:
+            best = max(coded, key=lambda i: (profiles[i].code_share, -i))
+            give("marking", best, profiles[best].value_share)
     for name, test, share in (("location", ColumnProfile.holds_locations, "location_share"),
                               ("quantity", ColumnProfile.holds_counts, "count_share")):
         if name in index or name in blocked:
