@@ -82,6 +82,9 @@ BODY_STYLES: dict[str, str] = {"disc": "disc", "disk": "disc", "rect": "box", "b
                                "dipped": "dipped"}
 POLARISED_WORDS = frozenset({"cp", "cpol", "elec", "electrolytic", "tantalum", "tantal", "tant",
                              "pol", "polarized", "polarised", "polar"})
+# Words that say the part has no polarity (a bipolar electrolytic is still "electrolytic").
+UNPOLARISED_WORDS = frozenset({"bipolar", "non-polar", "nonpolar", "np", "bp", "unpolarised",
+                               "unpolarized", "non-polarised", "non-polarized"})
 # Words understood that state no fact of their own (kind of part, solder process, orientation).
 UNDERSTOOD_WORDS = frozenset({"c", "cap", "capacitor", "capacitors", "metric", "handsolder",
                               "reflow", "wave", "horizontal", "vertical", "package", "footprint",
@@ -95,6 +98,7 @@ _PHRASES = (
     (re.compile(r"through[\s-]*holes?|thru[\s-]*holes?", re.I), " through-hole "),
     (re.compile(r"surface[\s-]*mount(?:ed)?", re.I), " surface-mount "),
     (re.compile(r"snap[\s-]*in", re.I), " snap-in "),
+    (re.compile(r"non[\s-]+polar(?:i[sz]ed)?", re.I), " non-polar "),
     (re.compile(r"screw[\s-]*terminals?|screw[\s-]*type", re.I), " screw-terminal "),
     (re.compile(r"case[\s-]+([a-e])\b", re.I), r" case-\1 "),
     (re.compile(r"\b(\d{4,5})\s+metric\b", re.I), r" \1M "),
@@ -144,7 +148,11 @@ class PackageFacts:
         body: the body sizes given, or None.
         pitch_mm: the lead pitch (through-hole), or None.
         polarised_hint: the name is a polarised-capacitor footprint or says polarised.
-        notes: how a reading was chosen, and any disagreement inside the text.
+        cad_name: the text is a CAD capacitor footprint name (``C_…``, ``CP_…``), whose library
+            names polarised footprints as such: one without the hint has no polarity mark.
+        notes: how a reading was chosen.
+        conflicts: disagreements inside the text (two sizes, SMD and through-hole ...); the
+            facts in dispute are left unset.
         unparsed: the words not used, as written.
     """
 
@@ -158,6 +166,8 @@ class PackageFacts:
     polarised_hint: bool = False
     notes: tuple[str, ...] = ()
     unparsed: tuple[str, ...] = field(default=())
+    conflicts: tuple[str, ...] = ()
+    cad_name: bool = False
 
     @property
     def known(self) -> bool:
@@ -177,22 +187,32 @@ class PackageFacts:
             if self.chip_size in TANTALUM_ONLY:     # moulded bodies are known by the metric name
                 return f"{CHIP_SIZES[self.chip_size]} metric"
             return self.chip_size
+        head, extra = self._words()
+        text = ", ".join(x for x in (head, *extra) if x)
+        return text or "package not recorded"
+
+    def _words(self) -> tuple[str, list[str]]:
         words = {"SMD": "SMD", "THT": "through-hole"}.get(self.mounting or "", "")
         form = self.lead_form if self.lead_form not in (None, "chip") else ""
-        head = " ".join(w for w in (words, form) if w)
         extra = []
         if self.body is not None and self.body.text():
             extra.append(self.body.text())
         if self.pitch_mm is not None:
             extra.append(f"{_num(self.pitch_mm)} mm pitch")
-        text = ", ".join(x for x in (head, *extra) if x)
-        return text or "package not recorded"
+        return " ".join(w for w in (words, form) if w), extra
 
     def describe_pads(self) -> str:
-        """The footprint as the place a part goes: ``0603 pads``, ``a through-hole radial footprint``."""
+        """The footprint as the place a part goes: ``0603 pads``, ``a through-hole radial footprint (D5 mm)``.
+
+        >>> read_package("CP_Radial_D5.0mm_P2.00mm").describe_pads()
+        'a through-hole radial footprint (D5 mm, 2 mm pitch)'
+        """
         if self.chip_size:
             return f"{self.describe()} pads"
-        return f"a {self.describe()} footprint" if self.known else "the footprint"
+        if not self.known:
+            return "the footprint"
+        head, extra = self._words()
+        return f"a {head or 'sized'} footprint" + (f" ({', '.join(extra)})" if extra else "")
 
     def to_json(self) -> dict[str, Any]:
         body = self.body
@@ -206,7 +226,8 @@ class PackageFacts:
                  ("width_mm", body.width_mm), ("height_mm", body.height_mm))},
             "pitch_mm": None if self.pitch_mm is None else float(self.pitch_mm),
             "polarised_hint": self.polarised_hint, "notes": list(self.notes),
-            "unparsed": list(self.unparsed),
+            "conflicts": list(self.conflicts), "unparsed": list(self.unparsed),
+            "cad_name": self.cad_name,
         }
 
 
@@ -234,6 +255,7 @@ class _Reading:
         self.notes: list[str] = []
         self.unparsed: list[str] = []
         self.elec = False
+        self.unpolarised = False
 
 
 def _read_size(word: str, token: str, r: _Reading) -> bool:
@@ -277,6 +299,8 @@ def _read_word(token: str, r: _Reading) -> None:
     elif word in LEAD_FORMS:
         r.lead_forms.append(LEAD_FORMS[word])
         r.style = BODY_STYLES.get(word, r.style)
+    elif word in UNPOLARISED_WORDS:
+        r.unpolarised = True
     elif word in POLARISED_WORDS:
         r.polarised = True
         r.elec = r.elec or word == "elec"
@@ -315,6 +339,7 @@ def _body(r: _Reading, lead_form: str | None) -> Body | None:
 
 def _resolve(raw: str, r: _Reading, cad_name: bool) -> PackageFacts:
     notes = list(dict.fromkeys(r.notes))
+    conflicts: list[str] = []
     chip = None
     codes = list(dict.fromkeys(code for code, _ in r.sizes))
     if len(codes) == 1:
@@ -323,22 +348,22 @@ def _resolve(raw: str, r: _Reading, cad_name: bool) -> PackageFacts:
             notes = [n for n in notes if not n.startswith(f"{chip} read as")]
     elif codes:
         written = " and ".join(dict.fromkeys(t for _, t in r.sizes))
-        notes.append(f"names {written}, which are different sizes ({', '.join(codes)}); size not used")
+        conflicts.append(f"names {written}, which are different sizes ({', '.join(codes)}); size not used")
     lead_forms = list(dict.fromkeys(r.lead_forms))
     lead_form = lead_forms[0] if len(lead_forms) == 1 else None
     if len(lead_forms) > 1:
-        notes.append(f"names {' and '.join(lead_forms)} leads; lead form not used")
+        conflicts.append(f"names {' and '.join(lead_forms)} leads; lead form not used")
     mounting = None
     if len(r.mounting) == 1:
         mounting = next(iter(r.mounting))
     elif r.mounting:
-        notes.append("says both SMD and through-hole; mounting not used")
+        conflicts.append("says both SMD and through-hole; mounting not used")
     implied = "THT" if lead_form in ("radial", "axial", "snap-in", "screw-terminal") else None
     if r.sizes:
         implied = implied or "SMD"     # even when the sizes disagree, a chip size is an SMD body
     if chip is not None:
         if implied == "THT":
-            notes.append(f"names chip size {chip} and {lead_form} leads; mounting not used")
+            conflicts.append(f"names chip size {chip} and {lead_form} leads; mounting not used")
             implied, chip = None, None
     if lead_form is None and chip is not None:
         lead_form = "chip"
@@ -348,11 +373,13 @@ def _resolve(raw: str, r: _Reading, cad_name: bool) -> PackageFacts:
     if mounting is None and not r.mounting:
         mounting = implied
     elif implied is not None and mounting is not None and implied != mounting:
-        notes.append(f"says {mounting} but names {lead_form or chip}; mounting not used")
+        conflicts.append(f"says {mounting} but names {lead_form or chip}; mounting not used")
         mounting = None
     return PackageFacts(raw=raw, chip_size=chip, mounting=mounting, lead_form=lead_form,
                         style=r.style, body=_body(r, lead_form), pitch_mm=r.pitch,
-                        polarised_hint=r.polarised, notes=tuple(notes), unparsed=tuple(r.unparsed))
+                        polarised_hint=r.polarised and not r.unpolarised, notes=tuple(notes),
+                        unparsed=tuple(r.unparsed),
+                        conflicts=tuple(conflicts), cad_name=cad_name)
 
 
 @lru_cache(maxsize=4096)
@@ -382,12 +409,14 @@ def read_package(text: str | None) -> PackageFacts:
         words = [w for w in _SPLIT.split(work) if w]
         for token in words:
             _read_word(token.strip(".-"), r)
-        cad_name = "_" in raw and bool(words) and words[0].casefold() in ("c", "cp", "cpol")
-        if cad_name and words[0].casefold() in ("cp", "cpol"):
+        name = _SPLIT.split(raw.rpartition(":")[2].strip())   # after a CAD library's name
+        first = name[0].casefold() if name else ""
+        cad_name = "_" in raw and first in ("c", "cp", "cpol")
+        if cad_name and first in ("cp", "cpol"):
             r.polarised = True
         return _resolve(raw, r, cad_name)
     except Exception as exc:   # noqa: BLE001 - a decoder never raises; the text is kept whole
-        return PackageFacts(raw=raw, notes=(f"could not be read ({type(exc).__name__})",),
+        return PackageFacts(raw=raw, conflicts=(f"could not be read ({type(exc).__name__})",),
                             unparsed=(raw,) if raw else ())
 
 

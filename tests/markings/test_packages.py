@@ -55,13 +55,13 @@ def test_every_size_pair_agrees_with_the_inch_in_millimetres() -> None:
 def test_a_cad_footprint_naming_both_sizes_is_one_size() -> None:
     # common practice: CAD chip footprints carry the imperial code and the metric name
     p = read_package("C_0805_2012Metric")
-    assert (p.chip_size, p.mounting, p.notes, p.unparsed) == ("0805", "SMD", (), ())
+    assert (p.chip_size, p.mounting, p.notes, p.conflicts, p.unparsed) == ("0805", "SMD", (), (), ())
 
 
 def test_a_footprint_naming_two_different_sizes_uses_neither() -> None:
     p = read_package("C_0805_1608Metric")
     assert p.chip_size is None
-    assert "different sizes" in p.notes[0]
+    assert "different sizes" in p.conflicts[0]
 
 
 def test_a_bare_size_that_is_also_a_metric_name_is_read_as_imperial_and_says_so() -> None:
@@ -152,6 +152,20 @@ def test_a_description_keeps_the_words_that_are_no_package_fact() -> None:
     assert p.unparsed == ("CER", "0.1UF", "50V", "X7R")
 
 
+@pytest.mark.parametrize(("text", "polarised"), [
+    pytest.param("CAP ALUM 4.7UF RADIAL", False, id="no-polarity-word"),
+    pytest.param("electrolytic radial", True, id="electrolytic"),
+    pytest.param("bipolar electrolytic radial", False, id="bipolar-electrolytic"),
+    pytest.param("non polar electrolytic", False, id="non-polar"),
+    pytest.param("C_Radial_D5.0mm_P2.00mm", False, id="cad-unpolarised"),
+    pytest.param("CP_Radial_D5.0mm_P2.00mm", True, id="cad-polarised"),
+])
+def test_a_polarity_hint_is_read_and_a_bipolar_part_is_not_polarised(text, polarised):
+    # common practice: CAD libraries prefix polarised footprints CP_; bipolar electrolytics
+    # have no polarity (from memory of maker datasheets)
+    assert read_package(text).polarised_hint is polarised
+
+
 def test_tantalum_case_letters_name_a_metric_body() -> None:
     # from memory of EIA-535: case A is 3216, B is 3528
     assert TANTALUM_CASES["a"] == "3216"
@@ -161,7 +175,7 @@ def test_tantalum_case_letters_name_a_metric_body() -> None:
 def test_a_chip_size_beside_through_hole_words_uses_no_mounting() -> None:
     p = read_package("1206 radial")
     assert p.mounting is None and p.chip_size is None
-    assert p.notes
+    assert p.conflicts
 
 
 @settings(max_examples=300, deadline=None)
@@ -178,7 +192,7 @@ FITS = [
     pytest.param("radial 5x11", "C_0805_2012Metric", False, "through-hole radial part for 0805 pads",
                  id="radial-on-chip-pads"),
     pytest.param("SMD 0805", "C_Disc_D5.0mm_W2.5mm_P5.00mm", False,
-                 "SMD 0805 part for a through-hole radial, D5 × W2.5 mm, 5 mm pitch footprint",
+                 "SMD 0805 part for a through-hole radial footprint (D5 × W2.5 mm, 5 mm pitch)",
                  id="chip-in-holes"),
     pytest.param("", "C_0603_1608Metric", None, "package not recorded; check it fits 0603 pads",
                  id="unknown-part"),
@@ -186,18 +200,18 @@ FITS = [
                  id="smd-without-size"),
     pytest.param("0805", "", True, "", id="line-without-footprint"),
     pytest.param("axial", "CP_Radial_D5.0mm_P2.00mm", False,
-                 "through-hole axial part for a through-hole radial, D5 mm, 2 mm pitch footprint",
+                 "through-hole axial part for a through-hole radial footprint (D5 mm, 2 mm pitch)",
                  id="axial-for-radial"),
     pytest.param("radial D6.3mm P2.5mm", "CP_Radial_D5.0mm_P2.00mm", False,
                  "D6.3 mm body for a D5 mm outline", id="can-too-wide"),
     pytest.param("radial D5mm P2mm", "CP_Radial_D5.0mm_P2.00mm", True, "", id="can-fits"),
     pytest.param("radial D4mm P5mm", "CP_Radial_D5.0mm_P2.00mm", False,
-                 "5 mm pitch part for a through-hole radial, D5 mm, 2 mm pitch footprint",
+                 "5 mm pitch part for a through-hole radial footprint (D5 mm, 2 mm pitch)",
                  id="wrong-pitch"),
     pytest.param("disc P2.54mm", "C_Disc_D5.0mm_W2.5mm_P2.50mm", True, "", id="tenth-inch-is-2.5mm"),
     pytest.param("radial", "CP_Radial_D5.0mm_P2.00mm", None,
-                 "lead pitch not recorded; check it fits a through-hole radial, D5 mm, 2 mm pitch"
-                 " footprint", id="pitch-unknown"),
+                 "lead pitch not recorded; check it fits a through-hole radial footprint (D5 mm,"
+                 " 2 mm pitch)", id="pitch-unknown"),
     pytest.param("axial L12mm", "C_Axial_D4.5mm_P10.00mm", False,
                  "L12 mm axial body for holes 10 mm apart", id="axial-too-long"),
     pytest.param("axial L6mm", "C_Axial_L5.0mm_D2.5mm_P10.00mm", False,
