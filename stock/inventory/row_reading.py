@@ -186,8 +186,8 @@ def package_facts(package: str | None, mounting: str | None, said_package: str |
         said_package, said_mounting: what the marking or description said (``Marking.package``).
 
     Returns:
-        (package text, mounting ``SMD``/``THT`` or the column's own word, disagreement or None).
-        The columns win; a column and a description that disagree on mounting or chip size give
+        (package text, the mounting column as typed or else ``SMD``/``THT`` as decoded,
+        disagreement or None). The columns win; a column and a description that disagree on mounting or chip size give
         the disagreement, to be raised as a flag.
 
     >>> package_facts("0805", None, None, None)
@@ -199,8 +199,8 @@ def package_facts(package: str | None, mounting: str | None, said_package: str |
 
     column = read_package(" ".join(t for t in (package, mounting) if t)) if (package or mounting) else None
     said = read_package(said_package) if said_package else None
-    chosen_mounting = (column.mounting if column is not None and column.mounting else None) or \
-        (mounting if mounting else None) or said_mounting
+    # a mounting column is kept as typed ("radial" says more than THT); else the decoded mounting
+    chosen_mounting = mounting or (column.mounting if column is not None else None) or said_mounting
     conflict = None
     if column is not None and said is not None:
         where = "mounting" if mounting else "package"
