@@ -87,20 +87,27 @@ FAMILY_NAMES: dict[str, str] = {
     "polyphenylenesulphide": "polyphenylene-sulfide",
     "polycarbonate": "polycarbonate", "mkc": "polycarbonate", "kc": "polycarbonate", "pc": "polycarbonate",
     "ptfe": "ptfe", "teflon": "ptfe",
-    "mica": "mica", "silvermica": "mica", "sm": "mica",
+    "mica": "mica", "silvermica": "mica", "sm": "mica", "micas": "mica",
     "glass": "glass",
     "paper": "paper", "oilpaper": "paper", "mp": "paper", "paperinoil": "paper", "waxpaper": "paper",
-    "tantalum": "tantalum", "tant": "tantalum", "ta": "tantalum", "tantal": "tantalum",
+    "metallisedpaper": "paper",
+    "tantalum": "tantalum", "tant": "tantalum", "tantalium": "tantalum", "ta": "tantalum", "tantal": "tantalum",
     "mno2": "tantalum", "tantalummno2": "tantalum",
     "tantalumpolymer": "tantalum-polymer", "polymertantalum": "tantalum-polymer",
     "aluminiumelectrolytic": "aluminium-electrolytic", "aluminumelectrolytic": "aluminium-electrolytic",
     "electrolytic": "aluminium-electrolytic", "elco": "aluminium-electrolytic", "elko": "aluminium-electrolytic",
     "alu": "aluminium-electrolytic", "ecap": "aluminium-electrolytic", "elyt": "aluminium-electrolytic",
+    # distributor descriptions: "CAP ALUM 100UF 25V", "CAP ELEC 47UF" (common practice, no published source)
+    "alum": "aluminium-electrolytic", "aluminium": "aluminium-electrolytic",
+    "aluminum": "aluminium-electrolytic", "elec": "aluminium-electrolytic",
+    "electrolytics": "aluminium-electrolytic", "aluelectrolytic": "aluminium-electrolytic",
+    "alel": "aluminium-electrolytic",
     "bipolar": "bipolar-electrolytic", "bipolarelectrolytic": "bipolar-electrolytic",
     "bp": "bipolar-electrolytic", "nonpolar": "bipolar-electrolytic", "np": "bipolar-electrolytic",
     "nonpolarelectrolytic": "bipolar-electrolytic",
     "doublelayer": "double-layer", "supercap": "double-layer", "supercapacitor": "double-layer",
-    "edlc": "double-layer", "ultracap": "double-layer",
+    "edlc": "double-layer", "ultracap": "double-layer", "ultracapacitor": "double-layer",
+    "goldcap": "double-layer",
 }
 # Abbreviations whose reading is disputed: name -> (other family, reason).
 DISPUTED_NAMES: dict[str, tuple[str, str]] = {
@@ -156,6 +163,40 @@ def _key(text: str) -> str:
     return key
 
 
+# A misspelt family word is matched against the longer names only (short abbreviations such as
+# "pp" or "ks" are too close to every other short word). The cutoff is a judgement call.
+FUZZY_MIN_LENGTH = 5
+FUZZY_CUTOFF = 85
+
+
+@lru_cache(maxsize=4096)
+def read_misspelt_family(token: str) -> FamilyReading | None:
+    """A family word with a typing slip (``elctrolytic``), read with rapidfuzz and flagged.
+
+    Only whole words of letters, at least :data:`FUZZY_MIN_LENGTH` long, are compared, and only
+    against names as long; None when no name is close enough.
+
+    >>> r = read_misspelt_family("elctrolytic")
+    >>> r.dielectric.family, r.flags[0].kind
+    ('aluminium-electrolytic', 'spelling-corrected')
+    >>> read_misspelt_family("plastic") is None
+    True
+    """
+    from rapidfuzz import fuzz, process   # imported late: it costs start-up time
+
+    word = token.lower()
+    if len(word) < FUZZY_MIN_LENGTH or not word.isalpha() or word in FAMILY_NAMES:
+        return None
+    found = process.extractOne(word, _FUZZY_NAMES, scorer=fuzz.ratio, score_cutoff=FUZZY_CUTOFF)
+    if found is None:
+        return None
+    name = found[0]
+    reading = read_family(name)
+    assert reading is not None
+    flag = Flag("spelling-corrected", f"{token}: read as {name} ({reading.dielectric.family})")
+    return FamilyReading(token, reading.dielectric, reading.alternatives, (flag, *reading.flags))
+
+
 @lru_cache(maxsize=4096)
 def read_family(token: str) -> FamilyReading | None:
     """A family name or abbreviation, with alternatives and flags; None when it names no family.
@@ -178,6 +219,9 @@ def read_family(token: str) -> FamilyReading | None:
     return FamilyReading(token, chosen)
 
 
+_FUZZY_NAMES = [n for n in FAMILY_NAMES if len(n) >= FUZZY_MIN_LENGTH]
+
+
 def decode_family(token: str) -> Dielectric | None:
     """The family a name or abbreviation stands for, with its typical figures; None when it is none.
 
@@ -189,4 +233,4 @@ def decode_family(token: str) -> Dielectric | None:
 
 
 __all__ = ["DISPUTED_NAMES", "FAMILY_FIGURES", "FAMILY_NAMES", "FamilyFigures", "FamilyReading",
-           "decode_family", "family_dielectric", "read_family"]
+           "decode_family", "family_dielectric", "read_family", "read_misspelt_family"]

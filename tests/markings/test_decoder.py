@@ -66,7 +66,7 @@ def test_field_values_of_the_named_cases():
 FLAG_CASES = [
     pytest.param("100", "ambiguous-code", D(100), id="code-ending-in-zero"),
     pytest.param("470", "ambiguous-code", D(470), id="470-literal-kept"),
-    pytest.param("47K", "ambiguous-code", D(47000), id="nnK-ERIE"),
+    pytest.param("47K", "ambiguous-code", D(47000), id="nnK-older-US"),
     pytest.param("0.047", "unit-assumed", None, id="decimal-without-unit"),
     pytest.param("33", "unit-assumed", None, id="whole-number-without-unit"),
     pytest.param("1R5C", "tolerance-by-value", None, id="tolerance-by-value"),
@@ -121,10 +121,10 @@ def test_two_dielectrics_that_disagree_are_flagged():
     assert "conflicting-readings" in decode("N150 -750ppm").flag_kinds()
 
 
-def test_chip_size_is_not_taken_for_a_value():
+def test_chip_size_is_read_as_a_package_not_a_value():
     # EIA chip sizes (common practice): "1206" is a case, not 1.206 nF
     m = decode("X7R 1206 10% 50V")
-    assert m.capacitance_pf is None and m.unparsed == ("1206",)
+    assert m.capacitance_pf is None and m.unparsed == () and m.package == "1206"
 
 
 def test_rated_temperature_forms():
