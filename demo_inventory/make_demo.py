@@ -9,6 +9,8 @@ a real register has. Three BOMs of our own design go with it: a 7 MHz VFO board 
 stable parts, a two-LED flasher with a 555 timer, and a mains inlet with an X2 position. A fourth,
 exported from a CAD program (footprint names, grouped designators, a do-not-fit column), is the
 control board of the bench's own supply; the SMD drawers bought for it record each part's package.
+The tour ends with a repair of our own invention: an old receiver's oscillator whose silver mica (dots
+white orange orange red gold brown, 330 pF) has failed, replaced from cabinets A and B.
 """
 
 from __future__ import annotations

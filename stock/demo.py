@@ -1,4 +1,5 @@
-"""The whole job on the demo shop, in one run: import, flags, grades, find, kits, pull, exports.
+"""The whole job on the demo shop, in one run: import, flags, grades, find, kits, pull, a repair,
+exports, labels.
 
 The demo shop (Lantern Bench Instruments) and its four BOMs live in ``demo_inventory/`` at the
 top of the source tree, written by ``demo_inventory/make_demo.py``. :func:`run_demo` makes a fresh
@@ -90,11 +91,16 @@ def tour(src: Path, out: Path) -> list[Step]:
         Step("The flashers' pick list, in drawer order.",
              ("kit", "picklist", "2", "--xlsx", str(out / "flasher_pick_list.xlsx"))),
         Step("Pull the flasher parts: one transaction, a ledger movement per bin.", ("kit", "pull", "2")),
+        Step("A repair: an old transistor receiver's local oscillator has a failed silver mica,"
+             " dots white orange orange red gold brown. What in the bins can take its place?",
+             ("replace", "white orange orange red gold brown", "--use", "tuned")),
         Step("What to order for every plan's shortfalls and every bin under its minimum.",
              ("export", "purchasing", str(out / "purchasing.xlsx"), "--below-minimum")),
         Step("The inventory workbook, with the drift-against-temperature chart.",
              ("export", "inventory", str(out / "inventory.xlsx"))),
         Step("A stock-take sheet to fill in and import back.", ("export", "count", str(out / "count.xlsx"))),
+        Step("Bin labels for the drawers: value, ratings, fit-for mark and a QR code of the bin.",
+             ("labels", str(out / "bin_labels.pdf"), "--layout", "a4-3x7-64x38")),
         Step("Verify the database: integrity, ledger against on-hand, no orphans.", ("check",)),
     ]
 
@@ -128,6 +134,7 @@ def run_demo(out: Path, echo: Callable[[str], None], run: Callable[[Sequence[str
         f"stock --db {shlex.quote(str(db))} flags                      # every open flag and how to settle it",
         f"stock --db {shlex.quote(str(db))} show 'cabinet a/a23'       # one bin: facts, readings, history",
         f"stock --db {shlex.quote(str(db))} kit undo 2                 # put the flasher parts back",
+        f"stock --db {shlex.quote(str(db))} show 'BIN:CABINET A/A11'   # what a scanner types from a label",
         f"stock --db {shlex.quote(str(db))} drift --part A5 --f0 7MHz --tank 250p --delta-t 10",
         f"stock --db {shlex.quote(str(db))} import {shlex.quote(str(out / 'count.xlsx'))}   # after filling in Counted",
         "stock decode '104K 2A X7R' '4n7 J 100V' 'yel-vio-brn' --json",
