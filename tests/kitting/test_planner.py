@@ -480,8 +480,8 @@ def test_the_pick_list_walks_the_bins_in_natural_order_with_markings_counts_and_
         ("A2", "104K", 5, ("C1", "C2")), ("A10", "104K", 3, ("C1", "C2")),
         ("B1", "471J C0G", 4, ("C5",))]
     text = pick_list_text(picks)
-    assert text.splitlines()[1] == "location\tbin\tmarking\tvalue\tcount\trefs"
-    assert text.splitlines()[2] == "A2\tcab/A2\t104K\t100 nF\t5\tC1 C2"
+    assert text.splitlines()[1] == "location\tbin\tmarking\tvalue\tcount\trefs\tpackage"
+    assert text.splitlines()[2] == "A2\tcab/A2\t104K\t100 nF\t5\tC1 C2\t"
 
     from openpyxl import load_workbook
 

@@ -192,8 +192,8 @@ def test_the_purchasing_csv_names_every_fact_a_buyer_needs_in_plain_numbers(stor
 
 def test_the_inventory_export_keeps_every_field_the_sheet_gave(store, tmp_path):
     sheet = tmp_path / "bins.csv"
-    sheet.write_text("Bin,Marking,Qty,Min,Package,Mounting,Date code,Notes\n"
-                     "A1,104K 50V X7R,40,10,0805,SMD,2318,reel end\n", encoding="utf-8")
+    sheet.write_text("Bin,Marking,Qty,Min,Package,Mounting,Date code,Notes,Rated temp\n"
+                     "A1,104K 50V X7R,40,10,0805,SMD,2318,reel end,125\n", encoding="utf-8")
     from stock.inventory.intake import import_file
 
     import_file(store, sheet)
@@ -203,3 +203,4 @@ def test_the_inventory_export_keeps_every_field_the_sheet_gave(store, tmp_path):
     assert (row["Package"], row["Mounting"], row["Minimum"], row["Date code"], row["Notes"]) == \
         ("0805", "SMD", "10", "2318", "reel end")
     assert row["Capacitance (pF)"] == "100000" and row["Voltage (V)"] == "50"
+    assert row["Rated temp (°C)"] == "125"
