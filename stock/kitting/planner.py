@@ -140,14 +140,12 @@ def _search_requirement(line: BomLine, options: KitOptions) -> Any:
 
 
 def _search_safety(wanted: str | None) -> str | None:
-    """One class for the search: of a dual marking (X1Y2) the Y class, which also covers X ones.
+    """The line's class for the search, read to its canonical code (``X1/Y2`` → ``X1Y2``); the
+    search and :func:`stock.kitting.line_rules.check_part` then require every class it names."""
+    from stock.markings.safety_classes import read_safety_class
 
-    :func:`stock.kit_rules.check_part` then checks every class named.
-    """
-    from stock.matching.search import safety_classes
-
-    classes = sorted(safety_classes(wanted), key=lambda c: (c[0] != "Y", c))
-    return classes[0] if classes else None
+    reading = read_safety_class(wanted) if wanted else None
+    return reading.code if reading else None
 
 
 def describe_line(line: BomLine, options: KitOptions, qty: int = 1) -> str:

@@ -114,12 +114,13 @@ CLASS2_CHANGE: dict[str, tuple[Decimal, Decimal]] = {
 CLASS2_DISPUTED_CHANGE: dict[str, tuple[Decimal, Decimal]] = {"S": (Decimal(20), Decimal(20))}
 
 # Old industry names -> nominal α ppm/K and the EIA code usually meant (§1d). Tolerance is left
-# unknown except for NP0, which every source equates with C0G.
+# unknown except for NP0, which every source equates with C0G. N033 is S1G (3.3 × −10): the
+# Wikipedia-style "H2G" is no code, H being no EIA figure letter (§1a); derived from the table.
 OLD_CLASS1_NAMES: dict[str, tuple[Decimal, str]] = {
     "P100": (Decimal(100), "M7G"),
     "NP0": (Decimal(0), "C0G"),
     "N030": (Decimal(-30), "B2G"),
-    "N033": (Decimal(-33), "H2G"),
+    "N033": (Decimal(-33), "S1G"),
     "N075": (Decimal(-75), "U1G"),
     "N080": (Decimal(-80), "L2G"),
     "N150": (Decimal(-150), "P2G"),
@@ -133,6 +134,10 @@ OLD_CLASS1_NAMES: dict[str, tuple[Decimal, str]] = {
     "N3300": (Decimal(-3300), "S3L"),
     "N4700": (Decimal(-4700), "T3M"),
 }
+# Where the sources name a second EIA equivalent with a wider tolerance (§1d: N150 is P2G in S1,
+# P2H from memory), the wider one sets the tolerance a worst case assumes.
+OLD_NAME_WIDER_EQUIVALENT: dict[str, str] = {"N150": "P2H"}
+
 # Spellings seen on parts and in sheets -> the canonical name, with the reason for the correction.
 SPELLINGS: dict[str, str] = {
     "NPO": "NP0",   # letter O for digit zero
@@ -265,6 +270,28 @@ def _read_old_name(code: str) -> DielectricReading | None:
     return DielectricReading(code, chosen, alternatives)
 
 
+def assumed_tempco_tolerance(alpha: Decimal) -> tuple[Decimal, str]:
+    """The tolerance on α a worst case assumes for a tempco given without one, and why.
+
+    The one table for it: an old name's EIA-198 equivalent (:data:`OLD_CLASS1_NAMES`, the wider
+    of two where the sources disagree); an α no name carries takes the tolerance of the next
+    name of larger magnitude (common practice, no published source), ±1000 ppm/K past N4700.
+
+    >>> assumed_tempco_tolerance(Decimal(-750)), assumed_tempco_tolerance(Decimal(-2200))[0]
+    ((Decimal('120'), 'as U2J, the EIA-198 code N750 is sold as'), Decimal('500'))
+    >>> assumed_tempco_tolerance(Decimal(-150))[0], assumed_tempco_tolerance(Decimal(-4700))[0]
+    (Decimal('60'), Decimal('1000'))
+    """
+    by_size = sorted(OLD_CLASS1_NAMES.items(), key=lambda item: abs(item[1][0]))
+    for name, (tempco, eia) in by_size:
+        if abs(tempco) >= abs(alpha):
+            code = OLD_NAME_WIDER_EQUIVALENT.get(name, eia)
+            how = (f"as {code}, the EIA-198 code {name} is sold as" if tempco == alpha
+                   else f"as {code} ({name}), the next old name in size")
+            return CLASS1_TOLERANCE[code[2]], how
+    return CLASS1_TOLERANCE["M"], "±1000 ppm/K past N4700 (common practice, no published source)"
+
+
 def _read_iec_class2(code: str) -> DielectricReading | None:
     match = _IEC2.fullmatch(code)
     if not match or match[1] not in IEC_CLASS2_CHANGE or match[2] not in IEC_CLASS2_RANGE:
@@ -331,4 +358,5 @@ def decode_dielectric(token: str) -> Dielectric | None:
 
 
 __all__ = ["CLASS1_FIGURE", "CLASS1_MULTIPLIER", "CLASS1_TOLERANCE", "CLASS2_CHANGE", "CLASS2_HIGH",
-           "CLASS2_LOW", "OLD_CLASS1_NAMES", "DielectricReading", "decode_dielectric", "read_dielectric"]
+           "CLASS2_LOW", "OLD_CLASS1_NAMES", "OLD_NAME_WIDER_EQUIVALENT", "DielectricReading",
+           "assumed_tempco_tolerance", "decode_dielectric", "read_dielectric"]

@@ -504,7 +504,7 @@ def summary(m: Marking) -> str:
 def cautions(m: Marking) -> tuple[str, ...]:
     """The safety cautions a person handling this part should read (mains, polarity, stored charge).
 
-    >>> cautions(decode("X2 0.1uF 275VAC"))[0].startswith("Mains safety capacitor")
+    >>> cautions(decode("X2 0.1uF 275VAC"))[0].startswith("mains work can kill")
     True
     """
     out = []

@@ -27,10 +27,10 @@ from stock.inventory.bins import part_marking, stored_marking
 from stock.decoded import Marking
 from stock.errors import BadValue
 from stock.markings.preferred_values import nearest, series_for_tolerance
-from stock.matching.requirement import (DEFAULT_BUY_TOL_PCT, NOMINAL_MATCH_PCT, SAFETY_CAUTION, SAFETY_SUBSTITUTES,
+from stock.matching.requirement import (DEFAULT_BUY_TOL_PCT, NOMINAL_MATCH_PCT, SAFETY_CAUTION,
                                Requirement, Stocked, Verdict, build_requirement, check_part,
                                check_single, check_tempco, check_value, fmt, parse_tempco_window,
-                               safety_classes, safety_covers, tolerance_pct, window_text)
+                               tolerance_pct, window_text)
 from stock.store.database import Store
 from stock.units import format_capacitance
 
@@ -155,7 +155,7 @@ def _where(req: Requirement, lo: float | None, hi: float | None, *, strict: bool
     if req.family:
         where.append("p.family = ?")
         params.append(req.family)
-    if req.needed_safety():
+    if req.is_mains():
         where.append("p.safety_class IS NOT NULL")
     window = req.tempco_window()
     if window is not None:
@@ -273,10 +273,10 @@ class _PairSearch:
 
     def _index(self) -> combining.PairIndex:
         req = self.req
-        signature = (req.family, req.needed_safety() is not None, req.qty)
+        signature = (req.family, req.is_mains(), req.qty)
         rows, indexes = _pool_rows(self.store)
         if signature not in indexes:
-            qty, family, safety = req.qty, req.family, req.needed_safety() is not None
+            qty, family, safety = req.qty, req.family, req.is_mains()
             indexes[signature] = combining.PairIndex(
                 (c, bin_id, t_minus, t_plus, alpha, alpha_tol, volts, available >= 2 * qty)
                 for c, bin_id, t_minus, t_plus, alpha, alpha_tol, volts, available, fam, has_safety in rows
@@ -457,7 +457,10 @@ def _explain(store: Store, req: Requirement, pairs: _PairSearch | None) -> tuple
             bins = ", ".join(p.bin_key for p, _ in members[:5]) + (" …" if n > 5 else "")
             lines.append(f"{n} part{'s' if n > 1 else ''} at {format_capacitance(c)}, {what} "
                          f"(bin{'s' if n > 1 else ''} {bins}): {reason}")
-    if pairs is not None:
+    if req.is_mains():
+        lines.append("no pair may fill an X/Y position: in series on AC the smaller part carries nearly"
+                     " all the voltage, and a pair carries no safety rating (IEC 60384-14)")
+    elif pairs is not None:
         if pairs.nearest_rejected is not None:
             lines.append(pairs.nearest_rejected[1])
         else:
@@ -502,7 +505,7 @@ def find(store: Store, req: Requirement, *, combine: bool = False, limit: int = 
     matches = tuple(candidates(store, req)[:limit])
     combos: list[Combination] = []
     search = None
-    if combine:
+    if combine and not req.is_mains():   # never a pair on an X/Y position (see _explain)
         search = _PairSearch(store, req)
         for kind in combining.PAIR_KINDS:
             combos.extend(search.search(kind, limit))
@@ -517,7 +520,7 @@ def find(store: Store, req: Requirement, *, combine: bool = False, limit: int = 
     return FindResult(req, matches, tuple(combos), explanation, suggestion, _cautions(req, matches))
 
 
-__all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION", "SAFETY_SUBSTITUTES",
+__all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION",
            "Combination", "FindResult", "Match", "PairPart", "Requirement", "Stocked", "Verdict",
            "build_requirement", "candidates", "check_pair", "check_part", "check_single", "check_tempco",
-           "check_value", "find", "parse_tempco_window", "safety_classes", "safety_covers"]
+           "check_value", "find", "parse_tempco_window"]
