@@ -160,7 +160,7 @@ def test_unitless_whole_number_on_an_electrolytic_is_read_as_microfarad():
 def test_safety_class_dual_rating_and_ac_voltage():
     m = decode("X1/Y2 4.7nF 400VAC")
     assert (m.safety_class, m.voltage_v, m.voltage_kind) == ("X1Y2", 400, "AC")
-    assert any("local codes" in c for c in cautions(m))
+    assert any("local electrical codes" in c for c in cautions(m))
 
 
 def test_plain_volts_on_a_safety_capacitor_are_read_as_ac_with_a_flag():
