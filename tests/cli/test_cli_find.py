@@ -80,8 +80,8 @@ def test_an_empty_answer_says_why_and_what_to_buy(db):
 def test_a_mains_requirement_prints_the_safety_caution(db):
     result = run(db, "--value", "100n", "--use", "mains", "--safety", "X2")
     assert result.exit_code == 0
-    assert "caution: Mains position" in result.stdout
-    assert "defer to local codes and licensed practice" in result.stdout
+    assert "caution: mains work can kill" in result.stdout
+    assert "defer to local electrical codes and licensed practice" in result.stdout
 
 
 @pytest.mark.parametrize(("args", "message"), [

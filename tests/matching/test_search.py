@@ -208,7 +208,7 @@ def test_a_mains_position_never_accepts_a_part_without_a_safety_class(shop):
         result = find(shop, r, combine=True)
         assert "G1" not in _bins(result)
         assert all(p.bin_key != "G1" for c in result.combinations for p in c.parts)
-        assert any("defer to local codes and licensed practice" in c for c in result.cautions)
+        assert any("defer to local electrical codes and licensed practice" in c for c in result.cautions)
 
 
 @pytest.mark.parametrize(("have", "need", "ok"), [
