@@ -13,8 +13,10 @@ What "meets" means, constraint by constraint:
   within :data:`NOMINAL_MATCH_PCT` of the target (closer than any two E96 neighbours, so a single part
   must carry the value asked for, while a pair may land 1 % off).
 - **Tempco window.** The part's whole band ``α ± tol`` must lie in the window; a part whose tolerance
-  on α is not marked (old names such as N750) is judged on its nominal α, and says so. A part with no
-  linear tempco (Class 2 ceramics, electrolytics) never meets a window.
+  on α is not marked (old names such as N750) takes the tolerance grading assumes (that of the
+  EIA-198 code it is sold as, :func:`stock.markings.ceramic_codes.assumed_tempco_tolerance`), for
+  single parts and pairs alike, and says so. A part with no linear tempco (Class 2 ceramics,
+  electrolytics) never meets a window.
 - **Voltage.** The rated voltage must reach the working voltage (for a series pair, each part's share,
   V₁ = V·C₂/(C₁ + C₂)), within the derating rules of :func:`stock.grading.worst_case`; "marginal"
   derating passes only with ``allow_marginal``.
@@ -41,7 +43,7 @@ from functools import cached_property, lru_cache
 from typing import Any
 
 from stock.physics import combining
-from stock.markings.ceramic_codes import decode_dielectric, read_dielectric
+from stock.markings.ceramic_codes import assumed_tempco_tolerance, decode_dielectric, read_dielectric
 from stock.decoded import FAMILIES, Dielectric, Marking, Tolerance
 from stock.errors import BadValue
 from stock.markings.safety_classes import MAINS_CAUTION, POSITION_NAMES, SUBCLASSES, covers, read_safety_class
@@ -113,14 +115,7 @@ def parse_tempco_window(text: str) -> tuple[Decimal, Decimal]:
     diel = reading.dielectric if reading else None
     if diel is None or diel.tempco_ppm_per_k is None:
         raise BadValue("--tempco", raw, expected)
-    tol = diel.tempco_tol_ppm_per_k
-    if tol is None:  # an old name: take the tolerance of the EIA code it is usually sold as
-        tol = next((a.dielectric.tempco_tol_ppm_per_k for a in reading.alternatives
-                    if a.dielectric is not None and a.dielectric.tempco_ppm_per_k == diel.tempco_ppm_per_k
-                    and a.dielectric.tempco_tol_ppm_per_k is not None), None)
-    if tol is None:
-        raise BadValue("--tempco", raw, f"a window such as {fmt(diel.tempco_ppm_per_k)}±60: "
-                                        f"{text.strip()} names a tempco but no tolerance on it")
+    tol = tempco_tolerance(diel)  # an old name: the tolerance of the EIA code it is sold as
     return diel.tempco_ppm_per_k - tol, diel.tempco_ppm_per_k + tol
 
 
@@ -432,14 +427,27 @@ def check_tempco(m: Marking, req: Requirement) -> Verdict:
     if diel is None or diel.tempco_ppm_per_k is None:
         what = diel.code if diel else "dielectric not marked"
         return Verdict(False, (f"{what}: no linear tempco",), "tempco")
-    alpha, tol = diel.tempco_ppm_per_k, diel.tempco_tol_ppm_per_k
-    a_lo, a_hi = alpha - (tol or 0), alpha + (tol or 0)
+    alpha, tol = diel.tempco_ppm_per_k, tempco_tolerance(diel)
+    a_lo, a_hi = alpha - tol, alpha + tol
+    note = ("" if diel.tempco_tol_ppm_per_k is not None else
+            f" (tolerance on α not marked: ±{fmt(tol)} assumed, {assumed_tempco_tolerance(alpha)[1]})")
     if a_lo < window[0] or a_hi > window[1]:
-        return Verdict(False, (f"{diel.code} α {fmt(alpha)}" + (f"±{fmt(tol)}" if tol is not None else "")
-                               + f" ppm/K outside {window_text(window)}",), "tempco")
-    note = "" if tol is not None else " (no tolerance on α marked: nominal judged)"
-    return Verdict(True, (f"α {fmt(alpha)}" + (f"±{fmt(tol)}" if tol is not None else "")
-                          + f" ppm/K within {window_text(window)}{note}",))
+        return Verdict(False, (f"{diel.code} α {fmt(alpha)}±{fmt(tol)} ppm/K outside {window_text(window)}{note}",),
+                       "tempco")
+    return Verdict(True, (f"α {fmt(alpha)}±{fmt(tol)} ppm/K within {window_text(window)}{note}",))
+
+
+def tempco_tolerance(diel: Dielectric | None) -> Decimal:
+    """The tolerance on α a check uses: the marked one, else the one assumed everywhere (never 0).
+
+    >>> tempco_tolerance(decode_dielectric("N750")), tempco_tolerance(decode_dielectric("C0G"))
+    (Decimal('120'), Decimal('30'))
+    """
+    if diel is None or diel.tempco_ppm_per_k is None:
+        return Decimal(0)
+    if diel.tempco_tol_ppm_per_k is not None:
+        return diel.tempco_tol_ppm_per_k
+    return assumed_tempco_tolerance(diel.tempco_ppm_per_k)[0]
 
 
 @lru_cache(maxsize=256)
@@ -526,4 +534,4 @@ SAFETY_CAUTION = MAINS_CAUTION  # one caution text per hazard: the safety table'
 
 __all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION",
            "Requirement", "Stocked", "Verdict", "build_requirement", "check_part", "check_single",
-           "check_tempco", "check_value", "parse_tempco_window", "tolerance_pct", "window_text"]
+           "check_tempco", "check_value", "parse_tempco_window", "tempco_tolerance", "tolerance_pct", "window_text"]

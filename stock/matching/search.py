@@ -27,10 +27,12 @@ from stock.inventory.bins import part_marking, stored_marking
 from stock.decoded import Marking
 from stock.errors import BadValue
 from stock.markings.preferred_values import nearest, series_for_tolerance
+from stock.markings.ceramic_codes import assumed_tempco_tolerance
 from stock.matching.requirement import (DEFAULT_BUY_TOL_PCT, NOMINAL_MATCH_PCT, SAFETY_CAUTION,
                                Requirement, Stocked, Verdict, build_requirement, check_part,
                                check_single, check_tempco, check_value, fmt, parse_tempco_window,
-                               tolerance_pct, window_text)
+                               tempco_tolerance, tolerance_pct, window_text)
+from stock.physics.stability import assumed_tempco_tol
 from stock.store.database import Store
 from stock.units import format_capacitance
 
@@ -240,7 +242,7 @@ _POOL_SQL = (
     "SELECT p.capacitance_pf, p.bin_id,"
     " CASE WHEN p.tol_unit = 'pF' THEN p.tol_minus * 100.0 / p.capacitance_pf ELSE p.tol_minus END,"
     " CASE WHEN p.tol_unit = 'pF' THEN p.tol_plus * 100.0 / p.capacitance_pf ELSE p.tol_plus END,"
-    " p.tempco_ppm_per_k, COALESCE(p.tempco_tol_ppm_per_k, 0.0), p.voltage_v,"
+    " p.tempco_ppm_per_k, p.tempco_tol_ppm_per_k, p.voltage_v,"
     " COALESCE(b.on_hand, 0) - COALESCE(rv.n, 0), p.family, p.safety_class IS NOT NULL"
     " FROM parts p JOIN bins b ON b.id = p.bin_id LEFT JOIN (SELECT r.bin_id, SUM(r.qty) AS n"
     "  FROM reservations r JOIN plans pl ON pl.id = r.plan_id WHERE pl.status = 'reserved'"
@@ -260,6 +262,12 @@ def _pool_rows(store: Store) -> tuple[list[tuple[Any, ...]], dict[Any, combining
     return cached[1], cached[2]
 
 
+def _alpha_tol(alpha: float | None, tol: float | None) -> float:
+    if tol is not None:
+        return tol
+    return 0.0 if alpha is None else float(assumed_tempco_tol(Decimal(str(alpha))))
+
+
 class _PairSearch:
     """Pairs for one requirement: a float index first, then exact checks (cached per part and voltage)."""
 
@@ -277,8 +285,9 @@ class _PairSearch:
         rows, indexes = _pool_rows(self.store)
         if signature not in indexes:
             qty, family, safety = req.qty, req.family, req.is_mains()
+            # an α with no marked tolerance takes the one the exact check assumes (never 0)
             indexes[signature] = combining.PairIndex(
-                (c, bin_id, t_minus, t_plus, alpha, alpha_tol, volts, available >= 2 * qty)
+                (c, bin_id, t_minus, t_plus, alpha, _alpha_tol(alpha, alpha_tol), volts, available >= 2 * qty)
                 for c, bin_id, t_minus, t_plus, alpha, alpha_tol, volts, available, fam, has_safety in rows
                 if available >= qty and (family is None or fam == family) and (has_safety or not safety))
         return indexes[signature]
@@ -386,12 +395,15 @@ def check_pair(kind: str, a: Stocked, b: Stocked, req: Requirement, *,
     if window is not None:
         if net is None:
             return Verdict(False, ("a part has no linear tempco",), "tempco")
-        t1 = (d1.tempco_tol_ppm_per_k or Decimal(0)) if d1 else Decimal(0)
-        t2 = (d2.tempco_tol_ppm_per_k or Decimal(0)) if d2 else Decimal(0)
+        t1, t2 = tempco_tolerance(d1), tempco_tolerance(d2)
         spread = combining.pair_tempco_spread(kind, c1, t1, c2, t2)  # type: ignore[arg-type]
+        assumed = [f"{d.code} ±{fmt(t)} ppm/K assumed ({assumed_tempco_tolerance(d.tempco_ppm_per_k)[1]})"
+                   for d, t in ((d1, t1), (d2, t2)) if d.tempco_tol_ppm_per_k is None]
+        if assumed:
+            reasons.append("tolerance on α not marked: " + "; ".join(dict.fromkeys(assumed)))
         if net - spread < window[0] or net + spread > window[1]:
-            return Verdict(False, (f"net tempco {fmt(net)}±{fmt(spread)} ppm/K outside {window_text(window)}",),
-                           "tempco")
+            return Verdict(False, (f"net tempco {fmt(net)}±{fmt(spread)} ppm/K outside {window_text(window)}",)
+                           + tuple(reasons[-1:] if assumed else ()), "tempco")
         weights = (f"{fmt(c1)}·{fmt(a1)} + {fmt(c2)}·{fmt(a2)}" if kind == "parallel"
                    else f"{fmt(c2)}·{fmt(a1)} + {fmt(c1)}·{fmt(a2)}")
         mix = f"{d1.code} with {d2.code}: " if d1.code != d2.code else ""

@@ -57,10 +57,12 @@ def test_combine_prints_the_pair_and_its_formula(db):
 
 
 def test_json_has_the_contract_keys_and_nothing_else_on_stdout(db):
-    result = run(db, "--value", "100p", "--tempco", "-300±30", "--combine", "--json")
+    # N750's tolerance on α is not marked: ±120 ppm/K assumed (as U2J, EIA-198), NP0 ±30: the pair's
+    # spread is (40·120 + 60·30)/100 = ±66 ppm/K, so the window must be wider than −300±30
+    result = run(db, "--value", "100p", "--tempco", "-300±70", "--combine", "--json")
     assert result.exit_code == 0, result.stderr
     data = json.loads(result.stdout)
-    assert data["requirement"]["tempco_min"] == -330.0
+    assert data["requirement"]["tempco_min"] == -370.0
     assert data["matches"] == []
     combo = data["combinations"][0]
     assert combo["kind"] == "parallel" and combo["capacitance_pf"] == 100.0

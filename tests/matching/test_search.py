@@ -29,6 +29,7 @@ DIELECTRICS = {
     "C0G": Dielectric("C0G", "ceramic", 1, D(0), D(30), D(-55), D(125), source="EIA-198 Class 1"),
     "NP0": Dielectric("NP0", "ceramic", 1, D(0), D(30), D(-55), D(125), source="industry name"),
     "U2J": Dielectric("U2J", "ceramic", 1, D(-750), D(120), D(-55), D(125), source="EIA-198 Class 1"),
+    "U2G": Dielectric("U2G", "ceramic", 1, D(-750), D(30), D(-55), D(125), source="EIA-198 Class 1"),
     "N750": Dielectric("N750", "ceramic", 1, D(-750), None, D(-55), D(125), source="industry name"),
     "S2H": Dielectric("S2H", "ceramic", 1, D(-330), D(60), D(-55), D(125), source="EIA-198 Class 1"),
     "X7R": Dielectric("X7R", "ceramic", 2, None, None, D(-55), D(125), D(15), D(15), source="EIA-198 Class 2"),
@@ -293,18 +294,33 @@ def test_a_series_pair_splits_the_working_voltage_inversely_to_capacitance(shop)
     assert too_much.combinations == ()
 
 
-def test_an_n750_part_beside_an_np0_part_compensates_to_minus_300(shop):
-    # 40 p N750 ∥ 60 p NP0: (40·(−750) + 60·0)/100 = −300 ppm/K (parallel net-tempco rule)
+def test_an_n750_part_beside_an_np0_part_takes_the_assumed_tempco_tolerance(shop):
+    # 40 p N750 ∥ 60 p NP0: (40·(−750) + 60·0)/100 = −300 ppm/K (parallel net-tempco rule); N750 marks
+    # no tolerance on α, so the ±120 ppm/K of U2J (EIA-198, the code it is sold as) is assumed, as in
+    # grading: spread (40·120 + 60·30)/100 = ±66 ppm/K, outside −300±30, inside −300±70
     add_bin(shop, "N1", part("40 N750", "40", tol="2", volts="100", code="N750"), 5)
     add_bin(shop, "N2", part("60 NP0", "60", tol="2", volts="100", code="NP0"), 5)
     add_bin(shop, "N3", part("100 NP0", "100", tol="2", volts="100", code="NP0"), 5)
-    r = build_requirement(value="100p", tempco="-300±30")
-    result = find(shop, r, combine=True)
+    tight = find(shop, build_requirement(value="100p", tempco="-300±30"), combine=True)
+    assert tight.matches == () and tight.combinations == ()
+    result = find(shop, build_requirement(value="100p", tempco="-300±70"), combine=True)
     assert result.matches == ()           # the 100 p NP0 is 0 ppm/K: outside the window
     combo = result.combinations[0]
     assert combo.tempco_ppm_per_k == D(-300)
-    assert any(r.startswith("N750 with NP0: net tempco (40·−750 + 60·0) / 100 = −300±18 ppm/K")
+    assert any(r.startswith("N750 with NP0: net tempco (40·−750 + 60·0) / 100 = −300±66 ppm/K")
                for r in combo.reasons)
+    assert any("N750 ±120 ppm/K assumed (as U2J" in r for r in combo.reasons)
+
+
+def test_a_pair_exactly_on_a_negative_tempco_edge_is_found(shop):
+    # EIA-198: U2G = 7.5 × −100 ± 30 = −750 ± 30; 40 p U2G ∥ 60 p C0G = −300 ± 30 ppm/K exactly,
+    # the edge of the window −330…−270: the float pre-filter must not drop it
+    add_bin(shop, "E1", part("40 U2G", "40", tol="2", volts="100", code="U2G"), 5)
+    add_bin(shop, "E2", part("60 C0G", "60", tol="2", volts="100", code="C0G"), 5)
+    result = find(shop, build_requirement(value="100p", tempco="-300±30"), combine=True)
+    [combo] = [c for c in result.combinations if c.kind == "parallel"]
+    assert combo.tempco_ppm_per_k == D(-300)
+    assert any("−300±30 ppm/K, within −330…−270 ppm/K" in r for r in combo.reasons)
 
 
 def test_find_json_has_the_contract_shape(shop):
