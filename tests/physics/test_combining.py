@@ -14,7 +14,7 @@ from decimal import Decimal, localcontext
 from decimal import Decimal as D
 
 import pytest
-from hypothesis import given, settings
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 from stock.physics import combining as cb
@@ -206,6 +206,8 @@ _ALPHAS = [(D(0), D(30)), (D(-750), D(30)), (D(-750), D(120)), (D(-150), D(60)),
                           st.sampled_from([D(1), D(2), D(5)])), min_size=2, max_size=9),
        st.sampled_from(["parallel", "series"]), st.sampled_from(_VALUES),
        st.integers(-800, 100), st.sampled_from([D(0), D(30), D(60)]), st.booleans())
+@example([(D(40), (D(-750), D(30)), D(2)), (D(60), (D(0), D(30)), D(2))], "parallel", D(100), -300, D(30), False)
+@example([(D(40), (D(-750), D(30)), D(2)), (D(60), (D(0), D(30)), D(2))], "parallel", D(100), -300, D(30), True)
 def test_the_pair_prefilter_never_rejects_a_pair_the_exact_check_accepts(parts, kind, target, mid, half, worst):
     from stock.physics.combining import (PairIndex, PairItem, PairQuery, band, pair_bounds, pair_tempco,
                                          pair_tempco_spread, pair_value)
