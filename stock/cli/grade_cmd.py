@@ -93,7 +93,7 @@ def _mains_word(item: BinGrades) -> str:
 def _table(items: list[BinGrades]) -> list[str]:
     key_w = max([3] + [len(i.bin_key) for i in items])
     mark_w = min(24, max([7] + [len(i.marking.text) for i in items]))
-    widths = {a: (11 if a == "mains" else 8) for a in APPLICATIONS}
+    widths = {a: (11 if a == "mains" else 9) for a in APPLICATIONS}
     head = f"{'bin':<{key_w}}  {'marking':<{mark_w}}  " + "  ".join(f"{a:<{widths[a]}}" for a in APPLICATIONS)
     lines = [head.rstrip()]
     doubts: list[str] = []

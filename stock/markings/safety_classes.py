@@ -131,23 +131,24 @@ class SafetyClass:
         return ("line-line",)
 
 
+def _v(value: Decimal) -> str:
+    return f"{value.normalize():f}"
+
+
 def _reaches(part: str, position: str, part_ac_v: Decimal | None, position_ac_v: Decimal | None) -> str | None:
     """None when the part's AC rating reaches the position's; else the reason it does not."""
     have, need = SUBCLASSES[part], SUBCLASSES[position]
     wanted = position_ac_v if position_ac_v is not None else need.ac_floor_v
     if wanted is None:
         return None
+    what = (f"the position's {_v(wanted)} V AC" if position_ac_v is not None
+            else f"the {_v(wanted)} V AC {'an' if position[0] == 'X' else 'a'} {position} position may run at")
     if part_ac_v is not None:
-        if part_ac_v >= wanted:
-            return None
-        return f"rated {part_ac_v:f} V AC, below the position's {wanted:f} V AC"
+        return None if part_ac_v >= wanted else f"rated {_v(part_ac_v)} V AC, below {what}"
     if have.ac_ceiling_v is None:
         return None
     below = have.ac_ceiling_v <= wanted if have.ceiling_below else have.ac_ceiling_v < wanted
-    if below:
-        what = "the position's" if position_ac_v is not None else f"the {wanted:f} V AC a {position} position may run at"
-        return f"{part} is rated {have.typical_rating()}, below {what}"
-    return None
+    return f"{part} is rated {have.typical_rating()}, below {what}" if below else None
 
 
 def _covers_one(part: str, position: str, part_ac_v: Decimal | None,
@@ -155,7 +156,7 @@ def _covers_one(part: str, position: str, part_ac_v: Decimal | None,
     have, need = SUBCLASSES[part], SUBCLASSES[position]
     if part == position:
         lacking = _reaches(part, position, part_ac_v, position_ac_v)
-        return Cover(lacking is None, f"{part} is {position}" if lacking is None
+        return Cover(lacking is None, f"{part} is the class asked (IEC 60384-14)" if lacking is None
                      else f"{part} does not cover {position}: {lacking}")
     if have.position == "line-line" and need.position == "line-earth":
         return Cover(False, f"{part} does not cover {position}: an X part never takes a line–earth (Y) position")

@@ -216,7 +216,7 @@ class Requirement:
         return "line-earth" if "Y" in self.safety_class.upper() else "line-line"
 
     def is_mains(self) -> bool:
-        return self.application == "mains" or self.safety_class is not None
+        return self.application == "mains" or self.safety_class is not None or self.position is not None
 
     def describe(self) -> str:
         """The requirement in words, for ordering: "150 pF ±5 %, 0±30 ppm/K, ≥ 50 V, fit for tuned"."""
@@ -357,6 +357,7 @@ def check_part(m: Marking, req: Requirement, *, working_v: Decimal | None) -> Ve
             return Verdict(False, tuple(g.reasons[:2]) or (f"{word} for {req.application}",),
                            "application", word)
         reasons.append(g.reasons[0] if g.reasons else f"{word} for {req.application}")
+        reasons.extend(f"doubt: {d}" for d in g.doubts)
     if not reasons and word is None:
         return _PASSED
     return Verdict(True, tuple(reasons), None, word)
@@ -461,12 +462,28 @@ def window_text(window: tuple[Decimal, Decimal]) -> str:
     return f"{fmt(lo)}…{fmt(hi)} ppm/K"
 
 
-def check_single(part: Stocked, req: Requirement) -> Verdict:
-    """Every constraint a single part must meet, in the order an explanation reports them."""
+def check_nominal(m: Marking, req: Requirement) -> Verdict:
+    """For a part with no marked tolerance: whether its nominal lies in the requirement's window.
+
+    Such a part is no proven match for a tolerance; it is a part to measure.
+    """
+    c = m.capacitance_pf
+    lo, hi = req.value_window()
+    if c is None or not lo <= c <= hi:
+        return Verdict(False, ("value outside the window",), "value")
+    return Verdict(True, (f"{_cap_text(c)} nominal, tolerance not marked: measure it before fitting"
+                          f" (it must read {_cap_text(lo)}…{_cap_text(hi)})",))
+
+
+def check_single(part: Stocked, req: Requirement, *, to_measure: bool = False) -> Verdict:
+    """Every constraint a single part must meet, in the order an explanation reports them.
+
+    With ``to_measure``, the value check is :func:`check_nominal` (a part with no marked tolerance).
+    """
     reasons: list[str] = []
     word = None
     m = part.marking
-    for check in (check_value, check_tempco):
+    for check in ((check_nominal, check_tempco) if to_measure else (check_value, check_tempco)):
         verdict = check(m, req)
         if not verdict.ok:
             return verdict
@@ -533,5 +550,5 @@ def build_requirement(*, value: str, tol: str | None = None, tempco: str | None 
 SAFETY_CAUTION = MAINS_CAUTION  # one caution text per hazard: the safety table's
 
 __all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION",
-           "Requirement", "Stocked", "Verdict", "build_requirement", "check_part", "check_single",
+           "Requirement", "Stocked", "Verdict", "build_requirement", "check_nominal", "check_part", "check_single",
            "check_tempco", "check_value", "parse_tempco_window", "tempco_tolerance", "tolerance_pct", "window_text"]

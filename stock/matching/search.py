@@ -111,11 +111,13 @@ class FindResult:
     explanation: tuple[str, ...]
     suggestion: str | None
     cautions: tuple[str, ...] = ()
+    to_measure: tuple[Match, ...] = ()   # no marked tolerance: not proven, named after the matches
 
     def to_json(self) -> dict[str, Any]:
         """The ``stock find --json`` shape (stable contract)."""
         return {"requirement": self.requirement.to_json(),
                 "matches": [m.to_json() for m in self.matches],
+                "to_measure": [m.to_json() for m in self.to_measure],
                 "combinations": [c.to_json() for c in self.combinations],
                 "explanation": list(self.explanation), "suggestion": self.suggestion,
                 "cautions": list(self.cautions)}
@@ -209,14 +211,22 @@ _CANDIDATE_SELECT = (
     " FROM parts p JOIN bins b ON b.id = p.bin_id")
 
 
-def candidates(store: Store, req: Requirement) -> list[Match]:
+def candidates(store: Store, req: Requirement, *, to_measure: bool = False) -> list[Match]:
     """The single parts that meet the requirement, best first (value error, grade, spare, bin).
 
     The SQL pre-filter takes the capacitance window and the indexed per-part filters; every row is
-    then checked exactly with :func:`check_single`.
+    then checked exactly with :func:`check_single`. With ``to_measure`` (a requirement with a
+    tolerance only), the parts whose tolerance is not marked but whose nominal is in the window:
+    no proven matches, parts to measure.
     """
     lo, hi = req.value_window()
-    where, params = _where(req, float(lo), float(hi), strict=True, single=True)
+    if to_measure:
+        if req.tol_pct is None:
+            return []
+        where, params = _where(replace(req, tol_pct=None), float(lo), float(hi), strict=True, single=True)
+        where.append("(p.tol_minus IS NULL OR p.tol_plus IS NULL)")
+    else:
+        where, params = _where(req, float(lo), float(hi), strict=True, single=True)
     sql = (f"SELECT * FROM ({_CANDIDATE_SELECT} WHERE {' AND '.join(where)})"
            " WHERE COALESCE(on_hand, 0) - reserved >= ?")
     target, qty = req.capacitance_pf, req.qty
@@ -224,7 +234,9 @@ def candidates(store: Store, req: Requirement) -> list[Match]:
     for bin_id, bin_key, location, on_hand, decoded, settled, reserved in store.db.conn.execute(
             sql, (*params, qty)):
         part = Stocked(bin_id, bin_key, location, on_hand, int(reserved), stored_marking(decoded, settled))
-        verdict = check_single(part, req)
+        if to_measure and tolerance_pct(part.marking) is not None:
+            continue
+        verdict = check_single(part, req, to_measure=to_measure)
         if verdict.ok:
             c = part.marking.capacitance_pf
             found.append(Match(bin_id, bin_key, location, part.marking.text, c, part.available,
@@ -456,7 +468,10 @@ def _explain(store: Store, req: Requirement, pairs: _PairSearch | None) -> tuple
     for c, checked in groups.items():
         causes: dict[str, list[tuple[Stocked, Verdict]]] = {}
         for part, verdict in checked:
-            causes.setdefault(verdict.failed or "none", []).append((part, verdict))
+            cause = verdict.failed or "none"
+            if cause == "safety":   # each safety reason names its own cause: never group them
+                cause = f"safety: {verdict.reasons[0]}"
+            causes.setdefault(cause, []).append((part, verdict))
         for cause, members in causes.items():
             n = len(members)
             codes = sorted({p.marking.dielectric.code if p.marking.dielectric else "dielectric not marked"
@@ -515,6 +530,7 @@ def find(store: Store, req: Requirement, *, combine: bool = False, limit: int = 
     if limit < 1:
         raise BadValue("--limit", str(limit), "a number of results of 1 or more")
     matches = tuple(candidates(store, req)[:limit])
+    to_measure = tuple(candidates(store, req, to_measure=True)[:limit])
     combos: list[Combination] = []
     search = None
     if combine and not req.is_mains():   # never a pair on an X/Y position (see _explain)
@@ -529,7 +545,8 @@ def find(store: Store, req: Requirement, *, combine: bool = False, limit: int = 
     if not matches and not combos:
         explanation = _explain(store, req, search)
         suggestion = _suggestion(req)
-    return FindResult(req, matches, tuple(combos), explanation, suggestion, _cautions(req, matches))
+    return FindResult(req, matches, tuple(combos), explanation, suggestion, _cautions(req, matches),
+                      to_measure)
 
 
 __all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION",

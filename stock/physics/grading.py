@@ -555,6 +555,8 @@ def grade(marking: Marking, application: str, conditions: Conditions = Condition
     budget = budget or worst_case(marking, conditions, case_size=case_size)
     checks, doubts = _judge(marking, rule, budget, measured)
     word = _decide(checks)
+    if word not in ("fit", "marginal"):
+        doubts = []   # a doubt matters only where the part would otherwise serve
     deciding = [r for w, r in checks if w == word]
     others = [r for w, r in checks if w != word]
     if not deciding:  # every check passed: lead with the budget line

@@ -235,14 +235,14 @@ def dc_bias_loss_at_rated_pct(code: str | None, capacitance_pf: Decimal | None,
     """A Class 2 MLCC's DC-bias loss at its full rated voltage, in %, and what it was taken from.
 
     >>> dc_bias_loss_at_rated_pct("X7R", Decimal(10_000_000), "1206")
-    (Decimal('30'), 'a 1206 case')
+    (Decimal('30'), 'case 1206')
     >>> dc_bias_loss_at_rated_pct("X7R", Decimal(10_000_000))
     (Decimal('80'), 'case size unknown: the worst small case assumed')
     """
     key = (code or "").upper()
     high_k = len(key) == 3 and key[2] in "UV"
     if case_size in DC_BIAS_LOSS_BY_CASE_PCT:
-        loss, basis = DC_BIAS_LOSS_BY_CASE_PCT[case_size], f"a {case_size} case"
+        loss, basis = DC_BIAS_LOSS_BY_CASE_PCT[case_size], f"case {case_size}"
     else:
         loss, basis = DC_BIAS_UNKNOWN_CASE_PCT, "case size unknown: the worst small case assumed"
     if capacitance_pf is not None and capacitance_pf <= DC_BIAS_SMALL_VALUE_PF:
