@@ -198,36 +198,61 @@ def _hold(store: Store, plan_id: int, line_id: int, bin_id: int, qty: int) -> No
                           (plan_id, line_id, bin_id, qty))
 
 
+def _tol_text(value: Decimal | None) -> str:
+    from stock.units import format_number
+
+    return "no tolerance" if value is None else f"±{format_number(value)} %"
+
+
 def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
              notes: list[str]) -> dict[int, int]:
-    """Bins and quantities of single parts for a line (at most ``need``), with their notes."""
+    """Bins and quantities of single parts for a line (at most ``need``), with their notes.
+
+    Proven parts first; where a line names a tolerance and they fall short, parts whose tolerance
+    is not marked fill the rest, each noted as a part to measure.
+    """
     from stock.matching.search import candidates
 
     req = _search_requirement(line, options)
     refused: list[str] = []
     pool: list[Candidate] = []
+    to_measure: list[Candidate] = []   # no marked tolerance for a line that names one: used last
     doubts = _doubts(store)
-    for match in candidates(store, req):
-        marking = match.decoded if match.decoded is not None else _marking_of(store, match.bin_id)[0]
-        verdict = check_part(line, marking, match.capacitance_pf, options.allow)
-        if verdict.refused:
-            refused.append(f"{match.bin_key} ({match.marking}): {verdict.refused}")
-            continue
-        free = store.available(match.bin_id)        # re-read inside this plan's transaction
-        if free <= 0:
-            continue
-        pool.append(Candidate(match.bin_id, match.bin_key, match.location, marking,
-                              match.capacitance_pf, free, match.grade, tuple(match.reasons),
-                              exact=match.capacitance_pf == line.capacitance_pf,
-                              doubts=doubts.get(match.bin_id, ())))
+    for measure in (False, True):
+        if measure and (req.tol_pct is None or sum(c.available for c in pool) >= need):
+            break
+        allow = options.allow | {"looser-tolerance"} if measure else options.allow
+        for match in candidates(store, req, to_measure=measure):
+            marking = match.decoded if match.decoded is not None else _marking_of(store, match.bin_id)[0]
+            verdict = check_part(line, marking, match.capacitance_pf, allow)
+            if verdict.refused:
+                refused.append(f"{match.bin_key} ({match.marking}): {verdict.refused}")
+                continue
+            free = store.available(match.bin_id)        # re-read inside this plan's transaction
+            if free <= 0:
+                continue
+            (to_measure if measure else pool).append(Candidate(
+                match.bin_id, match.bin_key, match.location, marking, match.capacitance_pf, free,
+                match.grade, tuple(match.reasons), exact=match.capacitance_pf == line.capacitance_pf,
+                doubts=doubts.get(match.bin_id, ())))
     taken: dict[int, int] = {}
-    for cand, qty in choose_bins(need, pool):
+    chosen = choose_bins(need, pool)
+    left = need - sum(qty for _, qty in chosen)
+    measured = choose_bins(left, to_measure) if left > 0 and to_measure else []
+    for cand, qty in chosen + measured:
         taken[cand.bin_id] = qty
         if cand.doubts:
             notes.append(f"{cand.bin_key}: used although it has open flags ({', '.join(cand.doubts)});"
                          " see `stock flags`")
+        if (cand, qty) in measured:
+            notes.append(f"{cand.bin_key}: filled with parts to measure: its tolerance is not marked;"
+                         f" measure each before fitting (the line asks {_tol_text(line.tol_pct)})")
+            continue
         verdict = check_part(line, cand.marking, cand.capacitance_pf, options.allow)
         notes.extend(f"{cand.bin_key}: {note}" for note in verdict.notes)
+        if cand.marking.tolerance is None and line.application not in ("bypass", "bulk", "mains"):
+            notes.append(f"{cand.bin_key}: tolerance not marked: parts to measure before fitting where"
+                         " the value matters")
         if cand.grade == "marginal":
             why = next((r for r in cand.grade_reasons if r.startswith("marginal")),
                        f"marginal for {line.application}")
