@@ -134,10 +134,6 @@ OLD_CLASS1_NAMES: dict[str, tuple[Decimal, str]] = {
     "N3300": (Decimal(-3300), "S3L"),
     "N4700": (Decimal(-4700), "T3M"),
 }
-# Where the sources name a second EIA equivalent with a wider tolerance (§1d: N150 is P2G in S1,
-# P2H from memory), the wider one sets the tolerance a worst case assumes.
-OLD_NAME_WIDER_EQUIVALENT: dict[str, str] = {"N150": "P2H"}
-
 # Spellings seen on parts and in sheets -> the canonical name, with the reason for the correction.
 SPELLINGS: dict[str, str] = {
     "NPO": "NP0",   # letter O for digit zero
@@ -273,22 +269,22 @@ def _read_old_name(code: str) -> DielectricReading | None:
 def assumed_tempco_tolerance(alpha: Decimal) -> tuple[Decimal, str]:
     """The tolerance on α a worst case assumes for a tempco given without one, and why.
 
-    The one table for it: an old name's EIA-198 equivalent (:data:`OLD_CLASS1_NAMES`, the wider
-    of two where the sources disagree); an α no name carries takes the tolerance of the next
-    name of larger magnitude (common practice, no published source), ±1000 ppm/K past N4700.
+    The one table for it: an old name's EIA-198 equivalent (:data:`OLD_CLASS1_NAMES`, the published
+    one where a second is only remembered: N150 is P2G in S1, P2H from memory); an α no name
+    carries takes the tolerance of the next name of larger magnitude (common practice, no
+    published source), ±1000 ppm/K past N4700. :func:`usual_tempco_tolerance` reads the same table.
 
     >>> assumed_tempco_tolerance(Decimal(-750)), assumed_tempco_tolerance(Decimal(-2200))[0]
     ((Decimal('120'), 'as U2J, the EIA-198 code N750 is sold as'), Decimal('500'))
     >>> assumed_tempco_tolerance(Decimal(-150))[0], assumed_tempco_tolerance(Decimal(-4700))[0]
-    (Decimal('60'), Decimal('1000'))
+    (Decimal('30'), Decimal('1000'))
     """
     by_size = sorted(OLD_CLASS1_NAMES.items(), key=lambda item: abs(item[1][0]))
     for name, (tempco, eia) in by_size:
         if abs(tempco) >= abs(alpha):
-            code = OLD_NAME_WIDER_EQUIVALENT.get(name, eia)
-            how = (f"as {code}, the EIA-198 code {name} is sold as" if tempco == alpha
-                   else f"as {code} ({name}), the next old name in size")
-            return CLASS1_TOLERANCE[code[2]], how
+            how = (f"as {eia}, the EIA-198 code {name} is sold as" if tempco == alpha
+                   else f"as {eia} ({name}), the next old name in size")
+            return CLASS1_TOLERANCE[eia[2]], how
     return CLASS1_TOLERANCE["M"], "±1000 ppm/K past N4700 (common practice, no published source)"
 
 
@@ -298,12 +294,10 @@ def usual_tempco_tolerance(code: str) -> tuple[Decimal, str] | None:
     Returns (± ppm/K, the EIA code) for a name in :data:`OLD_CLASS1_NAMES`, or for a bare tempco
     that one of them names (``-750 ppm/K``); None for anything else.
 
-    Where the sources name a wider equivalent too (:data:`OLD_NAME_WIDER_EQUIVALENT`), the wider is
-    the one (the same as :func:`assumed_tempco_tolerance`: one table for grading, search and
-    compensation).
+    The same table as :func:`assumed_tempco_tolerance` (grading, search and compensation agree).
 
     >>> usual_tempco_tolerance("N150"), usual_tempco_tolerance("N750"), usual_tempco_tolerance("P100")
-    ((Decimal('60'), 'P2H'), (Decimal('120'), 'U2J'), (Decimal('30'), 'M7G'))
+    ((Decimal('30'), 'P2G'), (Decimal('120'), 'U2J'), (Decimal('30'), 'M7G'))
     >>> usual_tempco_tolerance("X7R") is None
     True
     """
@@ -314,7 +308,7 @@ def usual_tempco_tolerance(code: str) -> tuple[Decimal, str] | None:
         name = next((n for n, (a, _) in OLD_CLASS1_NAMES.items() if tempco is not None and a == tempco), "")
     if name not in OLD_CLASS1_NAMES:
         return None
-    eia = OLD_NAME_WIDER_EQUIVALENT.get(name, OLD_CLASS1_NAMES[name][1])
+    eia = OLD_CLASS1_NAMES[name][1]
     return CLASS1_TOLERANCE[eia[2]], eia
 
 
@@ -384,5 +378,5 @@ def decode_dielectric(token: str) -> Dielectric | None:
 
 
 __all__ = ["CLASS1_FIGURE", "CLASS1_MULTIPLIER", "CLASS1_TOLERANCE", "CLASS2_CHANGE", "CLASS2_HIGH",
-           "CLASS2_LOW", "OLD_CLASS1_NAMES", "OLD_NAME_WIDER_EQUIVALENT", "DielectricReading",
+           "CLASS2_LOW", "OLD_CLASS1_NAMES", "DielectricReading",
            "assumed_tempco_tolerance", "decode_dielectric", "read_dielectric", "usual_tempco_tolerance"]

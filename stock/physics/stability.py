@@ -107,10 +107,10 @@ def assumed_tempco_tol(alpha: Decimal) -> Decimal:
     """A tempco tolerance for an α given without one (an old name: N750, P100).
 
     The one table: :func:`stock.markings.ceramic_codes.assumed_tempco_tolerance` (the tolerance of
-    the EIA-198 code the old name is sold as, the wider where sources disagree).
+    the EIA-198 code the old name is sold as).
 
     >>> assumed_tempco_tol(Decimal(-150)), assumed_tempco_tol(Decimal(-750)), assumed_tempco_tol(Decimal(-2200))
-    (Decimal('60'), Decimal('120'), Decimal('500'))
+    (Decimal('30'), Decimal('120'), Decimal('500'))
     """
     return assumed_tempco_tolerance(alpha)[0]
 

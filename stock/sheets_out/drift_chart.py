@@ -55,8 +55,8 @@ def _in(t: int, low: Decimal | None, high: Decimal | None) -> bool:
 
 
 def _line(slope_ppm: Decimal, low: Decimal | None, high: Decimal | None) -> dict[int, float | None]:
-    return {t: float(slope_ppm * (t - REFERENCE_C) / Decimal(10_000)) if _in(t, low, high) else None
-            for t in TEMPERATURES}
+    return {t: float(slope_ppm * (t - REFERENCE_C) / Decimal(10_000)) + 0.0 if _in(t, low, high) else None
+            for t in TEMPERATURES}  # + 0.0: no −0.0 in the sheet
 
 
 def _ppm(value: Decimal) -> str:

@@ -190,15 +190,15 @@ def test_electrolytic_windows_are_not_scaled_to_a_narrow_range():
 
 @pytest.mark.parametrize("alpha, tol", [
     pytest.param(D(0), D(30), id="NP0-as-C0G-30"),
-    pytest.param(D(-150), D(60), id="N150-P2G-or-P2H-assumed-60"),
+    pytest.param(D(-150), D(30), id="N150-as-P2G-30-S1"),
     pytest.param(D(-750), D(120), id="N750-as-U2J-120"),
     pytest.param(D(-1500), D(250), id="N1500-as-P3K-250"),
     pytest.param(D(-2200), D(500), id="N2200-as-R3L-500"),
     pytest.param(D(-3300), D(500), id="N3300-as-S3L-500"),
     pytest.param(D(-4700), D(1000), id="N4700-as-T3M-1000"),
 ])
-def test_an_old_name_takes_the_widest_customary_tempco_tolerance(alpha, tol):
-    # capacitor-codes.md §1d (EIA-198 equivalents; P2G vs P2H disagreement → the wider)
+def test_an_old_name_takes_the_tempco_tolerance_of_its_eia_equivalent(alpha, tol):
+    # capacitor-codes.md §1d (EIA-198 equivalents; N150 = P2G per S1, P2H only from memory)
     assert assumed_tempco_tol(alpha) == tol
 
 
