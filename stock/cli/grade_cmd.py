@@ -88,7 +88,10 @@ def _mains_word(item: BinGrades) -> str:
     reading = read_safety_class(item.marking.safety_class) if item.marking.safety_class else None
     if g.word != "fit" or reading is None:
         return g.word
-    return g.word + (" L–L" if reading.positions() == ("line-line",) else " L–L/L–E")
+    part_ac = item.marking.voltage_v if item.marking.voltage_kind == "AC" else None
+    mains = g.budget.conditions.working_v if g.budget is not None else None
+    where = reading.positions(part_ac, mains)
+    return g.word + " " + "/".join({"line-line": "L–L", "line-earth": "L–E"}[p] for p in where)
 
 
 def _table(items: list[BinGrades]) -> list[str]:

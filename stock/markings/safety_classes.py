@@ -124,11 +124,21 @@ class SafetyClass:
         """
         return covers(self.code, required, part_ac_v, position_ac_v).ok
 
-    def positions(self) -> tuple[str, ...]:
-        """The positions a part of this marking may take: a Y class both, an X class line–line only."""
+    def positions(self, part_ac_v: Decimal | None = None, mains_ac_v: Decimal | None = None) -> tuple[str, ...]:
+        """The positions a part of this marking may take: line–earth with a Y class; line–line when it
+        covers X3, the least X class (so a Y4 part, rated below 150 V AC, only on a lower mains).
+
+        >>> read_safety_class("X2").positions(), read_safety_class("Y4").positions()
+        (('line-line',), ('line-earth',))
+        >>> read_safety_class("Y4").positions(Decimal(125), Decimal(120))
+        ('line-line', 'line-earth')
+        """
+        out = []
+        if covers(self.code, "X3", part_ac_v, mains_ac_v).ok:
+            out.append("line-line")
         if any(c[0] == "Y" for c in self.classes):
-            return ("line-line", "line-earth")
-        return ("line-line",)
+            out.append("line-earth")
+        return tuple(out)
 
 
 def _v(value: Decimal) -> str:
@@ -204,18 +214,23 @@ def covers(part_class: str | None, position_class: str, part_ac_v: Decimal | Non
     return Cover(True, "; ".join(reasons))
 
 
-def positions_text(code: str) -> str:
+def positions_text(code: str, part_ac_v: Decimal | None = None, mains_ac_v: Decimal | None = None) -> str:
     """Where a safety part may go, in words: ``line–line (X2); never line–earth``.
 
     >>> positions_text("X2"), positions_text("X1Y2")
     ('line–line (X2); never line–earth', 'line–line or line–earth (X1Y2)')
+    >>> positions_text("Y4")
+    'line–earth (Y4); line–line only where its AC rating reaches the mains (Y4 does not cover X3: Y4 is rated < 150 V AC, below the 150 V AC an X3 position may run at)'
     """
     reading = read_safety_class(code)
     if reading is None:
         return "nowhere on the mains (no X/Y class)"
-    where = reading.positions()
+    where = reading.positions(part_ac_v, mains_ac_v)
     if where == ("line-line",):
         return f"line–line ({reading.code}); never line–earth"
+    if where == ("line-earth",):
+        why = covers(reading.code, "X3", part_ac_v, mains_ac_v).reason
+        return f"line–earth ({reading.code}); line–line only where its AC rating reaches the mains ({why})"
     return f"line–line or line–earth ({reading.code})"
 
 

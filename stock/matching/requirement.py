@@ -46,7 +46,8 @@ from stock.physics import combining
 from stock.markings.ceramic_codes import assumed_tempco_tolerance, decode_dielectric, read_dielectric
 from stock.decoded import FAMILIES, Dielectric, Marking, Tolerance
 from stock.errors import BadValue
-from stock.markings.safety_classes import MAINS_CAUTION, POSITION_NAMES, SUBCLASSES, covers, read_safety_class
+from stock.markings.safety_classes import (MAINS_CAUTION, POSITION_NAMES, SUBCLASSES, covers, positions_text,
+                                           read_safety_class)
 from stock.physics.grading import APPLICATIONS, POSITIONS, Conditions, grade, worst_case
 from stock.units import format_capacitance, format_tolerance
 
@@ -378,8 +379,12 @@ def _safety_refusal(m: Marking, req: Requirement) -> str | None:
     have = read_safety_class(m.safety_class) if m.safety_class else None
     if have is None:
         return "no X/Y safety class (IEC 60384-14): never across the mains or to earth"
-    if req.mains_position() == "line-earth" and "line-earth" not in have.positions():
+    where = req.mains_position()
+    if where == "line-earth" and "line-earth" not in have.positions():
         return f"{have.code} is an X class: a line–earth position needs a Y class (IEC 60384-14)"
+    part_ac = _ac_ratings(m, req)[0]
+    if where == "line-line" and "line-line" not in have.positions(part_ac, req.working_v):
+        return f"{have.code} may not take a line–line position: {positions_text(have.code, part_ac, req.working_v)}"
     return None
 
 

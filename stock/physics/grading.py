@@ -380,21 +380,28 @@ def worst_case(marking: Marking, conditions: Conditions = Conditions(), *,
     return Budget(c, tolerance, temperature, ageing, dc_bias, tuple(missing), out, over, voltage, tuple(notes))
 
 
-def _safety(marking: Marking, rule: Rule, position: str | None = None) -> tuple[str, str]:
+def _safety(marking: Marking, rule: Rule, position: str | None = None,
+            mains_ac_v: Decimal | None = None) -> tuple[str, str]:
     """The mains check by position (IEC 60384-14, :mod:`stock.markings.safety_classes`)."""
     position = position or (rule.position if rule.position != "any" else None)
     reading = read_safety_class(marking.safety_class) if marking.safety_class else None
     if reading is None:
         return "unfit", "no X/Y safety class (IEC 60384-14) marked: never across the mains or to earth"
-    may = reading.positions()
+    part_ac = marking.voltage_v if marking.voltage_kind == "AC" else None
+    may = reading.positions(part_ac, mains_ac_v)
+    where_text = positions_text(reading.code, part_ac, mains_ac_v)
     if position is None:
-        if may == ("line-line",):
-            return "fit", f"fit {positions_text(reading.code)} (IEC 60384-14)"
-        return "fit", (f"fit {positions_text(reading.code)}: a Y class may also take a line–line (X)"
-                       " position, being tested harder and failing open (IEC 60384-14)")
+        if not may:
+            return "unfit", f"{reading.code} may take no mains position here: {where_text}"
+        if may == ("line-line", "line-earth"):
+            return "fit", (f"fit {where_text}: a Y class may also take a line–line (X) position, being"
+                           " tested harder and failing open (IEC 60384-14)")
+        return "fit", f"fit {where_text} (IEC 60384-14)"
     where = POSITION_NAMES[position]
     if position not in may:
-        return "unfit", f"{reading.code} is an X class only: a {where} position needs a Y class (IEC 60384-14)"
+        if position == "line-earth":
+            return "unfit", f"{reading.code} is an X class only: a {where} position needs a Y class (IEC 60384-14)"
+        return "unfit", f"{reading.code} may not take a {where} position: {where_text}"
     return "fit", f"{reading.code} may take a {where} position (IEC 60384-14)"
 
 
@@ -496,7 +503,7 @@ def _judge(marking: Marking, rule: Rule, budget: Budget,
     doubts: list[str] = []
     c = budget.conditions
     if rule.safety:
-        out.append(_safety(marking, rule, c.position))
+        out.append(_safety(marking, rule, c.position, c.working_v))
     if budget.over_temperature:
         out.append(("unfit", budget.over_temperature))
     if budget.out_of_range:

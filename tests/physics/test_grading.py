@@ -486,3 +486,13 @@ def test_the_build_position_decides_whether_an_x_part_may_serve(safety, position
 
     m = decode(f"{safety} 0.1uF 275VAC")
     assert grade(m, "mains", Conditions(position=position)).word == word
+
+
+# IEC 60384-14 (S30): Y4 is rated below 150 V AC; X3, the least X class, is assumed on mains of at
+# least 150 V AC when no voltage is given: a Y4 part takes line–earth, line–line only on a lower mains
+def test_a_y4_part_may_take_line_to_line_only_on_a_mains_its_rating_reaches():
+    y4 = Marking("Y4 1n 125VAC", D(1000), pct_tol("20"), D(125), "AC", PP, safety_class="Y4")
+    assert grade(y4, "mains", Conditions(position="line-line")).word == "unfit"
+    assert grade(y4, "mains", Conditions(working_v=D(120), position="line-line")).word == "fit"
+    g = grade(y4, "mains")
+    assert g.word == "fit" and "fit line–earth (Y4); line–line only where its AC rating reaches the mains" in g.reasons[0]
