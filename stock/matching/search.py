@@ -372,6 +372,37 @@ class _PairSearch:
                 f"{format_capacitance(b.marking.capacitance_pf)} ({b.bin_key})")
 
 
+def _pair_tempco(kind: str, c1: Decimal, d1: Any, c2: Decimal, d2: Any, req: Requirement,
+                 reasons: list[str]) -> tuple[Decimal | None, Verdict | None]:
+    """The pair's net tempco, and a refusal when it misses the window (reasons appended to).
+
+    An unmarked tolerance on α takes the one assumed everywhere (never 0), and the reason says so.
+    """
+    a1 = d1.tempco_ppm_per_k if d1 else None
+    a2 = d2.tempco_ppm_per_k if d2 else None
+    net = combining.pair_tempco(kind, c1, a1, c2, a2) if a1 is not None and a2 is not None else None  # type: ignore[arg-type]
+    window = req.tempco_window()
+    if window is None:
+        return net, None
+    if net is None:
+        return None, Verdict(False, ("a part has no linear tempco",), "tempco")
+    t1, t2 = tempco_tolerance(d1), tempco_tolerance(d2)
+    spread = combining.pair_tempco_spread(kind, c1, t1, c2, t2)  # type: ignore[arg-type]
+    assumed = [f"{d.code} ±{fmt(t)} ppm/K assumed ({assumed_tempco_tolerance(d.tempco_ppm_per_k)[1]})"
+               for d, t in ((d1, t1), (d2, t2)) if d.tempco_tol_ppm_per_k is None]
+    if assumed:
+        reasons.append("tolerance on α not marked: " + "; ".join(dict.fromkeys(assumed)))
+    if net - spread < window[0] or net + spread > window[1]:
+        return net, Verdict(False, (f"net tempco {fmt(net)}±{fmt(spread)} ppm/K outside {window_text(window)}",)
+                            + tuple(reasons[-1:] if assumed else ()), "tempco")
+    weights = (f"{fmt(c1)}·{fmt(a1)} + {fmt(c2)}·{fmt(a2)}" if kind == "parallel"
+               else f"{fmt(c2)}·{fmt(a1)} + {fmt(c1)}·{fmt(a2)}")
+    mix = f"{d1.code} with {d2.code}: " if d1.code != d2.code else ""
+    reasons.append(f"{mix}net tempco ({weights}) / {fmt(c1 + c2)} = {fmt(net)}±{fmt(spread)} ppm/K, "
+                   f"within {window_text(window)}")
+    return net, None
+
+
 def check_pair(kind: str, a: Stocked, b: Stocked, req: Requirement, *,
                verdict: Any = None) -> Combination | Verdict:
     """Check a pair exactly against every constraint; a :class:`Combination` if it meets them all.
@@ -413,27 +444,9 @@ def check_pair(kind: str, a: Stocked, b: Stocked, req: Requirement, *,
         return Verdict(False, (f"{format_capacitance(value)} is not {format_capacitance(req.capacitance_pf)}",),
                        "value")
     d1, d2 = a.marking.dielectric, b.marking.dielectric
-    a1 = d1.tempco_ppm_per_k if d1 else None
-    a2 = d2.tempco_ppm_per_k if d2 else None
-    net = combining.pair_tempco(kind, c1, a1, c2, a2) if a1 is not None and a2 is not None else None  # type: ignore[arg-type]
-    window = req.tempco_window()
-    if window is not None:
-        if net is None:
-            return Verdict(False, ("a part has no linear tempco",), "tempco")
-        t1, t2 = tempco_tolerance(d1), tempco_tolerance(d2)
-        spread = combining.pair_tempco_spread(kind, c1, t1, c2, t2)  # type: ignore[arg-type]
-        assumed = [f"{d.code} ±{fmt(t)} ppm/K assumed ({assumed_tempco_tolerance(d.tempco_ppm_per_k)[1]})"
-                   for d, t in ((d1, t1), (d2, t2)) if d.tempco_tol_ppm_per_k is None]
-        if assumed:
-            reasons.append("tolerance on α not marked: " + "; ".join(dict.fromkeys(assumed)))
-        if net - spread < window[0] or net + spread > window[1]:
-            return Verdict(False, (f"net tempco {fmt(net)}±{fmt(spread)} ppm/K outside {window_text(window)}",)
-                           + tuple(reasons[-1:] if assumed else ()), "tempco")
-        weights = (f"{fmt(c1)}·{fmt(a1)} + {fmt(c2)}·{fmt(a2)}" if kind == "parallel"
-                   else f"{fmt(c2)}·{fmt(a1)} + {fmt(c1)}·{fmt(a2)}")
-        mix = f"{d1.code} with {d2.code}: " if d1.code != d2.code else ""
-        reasons.append(f"{mix}net tempco ({weights}) / {fmt(c1 + c2)} = {fmt(net)}±{fmt(spread)} ppm/K, "
-                       f"within {window_text(window)}")
+    net, failed = _pair_tempco(kind, c1, d1, c2, d2, req, reasons)
+    if failed is not None:
+        return failed
     v1 = v2 = req.working_v
     if req.working_v is not None and kind == "series":
         v1, v2 = combining.series_voltage_split(req.working_v, c1, c2)  # type: ignore[arg-type]

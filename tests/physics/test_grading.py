@@ -275,9 +275,10 @@ _markings = st.builds(
     polarity=st.sampled_from([None, "positive-marked"]),
 )
 _conditions = st.builds(
-    lambda lo, span, v, y: Conditions(D(lo), D(lo + span), v, D(y)),
+    lambda lo, span, v, y, where: Conditions(D(lo), D(lo + span), v, D(y), where),
     st.integers(-55, 60), st.integers(0, 100),
-    st.one_of(st.none(), st.sampled_from([D(5), D(12), D(230)])), st.integers(0, 30))
+    st.one_of(st.none(), st.sampled_from([D(5), D(12), D(230)])), st.integers(0, 30),
+    st.sampled_from([None, "line-line", "line-earth"]))
 
 
 @settings(max_examples=300, deadline=None)
