@@ -497,3 +497,13 @@ def test_a_y4_part_may_take_line_to_line_only_on_a_mains_its_rating_reaches():
     assert grade(y4, "mains", Conditions(working_v=D(120), position="line-line")).word == "fit"
     g = grade(y4, "mains")
     assert g.word == "fit" and "fit line–earth (Y4); line–line only where its AC rating reaches the mains" in g.reasons[0]
+
+
+def test_an_aluminium_electrolytic_never_grades_fit_for_timing_even_at_its_best():
+    # common practice, no published source: usable for timing only where accuracy hardly matters,
+    # so the table caps it at marginal whatever its budget; a tantalum is the trade's timing part
+    best = Marking("100µF 5% 25V", D(100_000_000), pct_tol("5"), D(25), "DC", ALU, polarity="negative-marked")
+    g = grade(best, "timing", Conditions(D(20), D(30)))
+    assert g.word in ("marginal", "unfit")
+    assert any("aluminium electrolytic is at best marginal for timing" in r for r in g.reasons)
+    assert grade(TANT_10U, "timing", Conditions(D(20), D(30))).word == "fit"
