@@ -204,7 +204,7 @@ def test_bins_are_chosen_fit_first_then_exact_then_fewest(need, specs, expected)
     pytest.param(line(safety_class="X1"), part("104 X2", 100000, safety="X2"),
                  "does not cover X1", None, id="x2-does-not-cover-x1"),
     pytest.param(line(safety_class="X1Y2"), part("104 X1", 100000, safety="X1"),
-                 "does not cover X1Y2", None, id="x1-alone-does-not-cover-x1y2"),
+                 "X1 does not cover Y2", None, id="x1-alone-does-not-cover-x1y2-names-y2"),
     pytest.param(line(safety_class="Y2"), part("104 X1Y2", 100000, safety="X1Y2"),
                  None, "X1Y2 for Y2", id="dual-x1y2-covers-y2"),
     pytest.param(line(pf=100000), part("47n", 47000), "not 100 nF", None,
