@@ -69,8 +69,9 @@ def _show_text(d: dict[str, Any]) -> str:
     if decoded.get("polarity"):
         lines.append(f"  {'polarity':<13}{decoded['polarity']}: fit it the right way round")
     if d.get("safety_class"):
-        lines.append("  caution: a mains safety part; replace only with a part of the same or a"
-                     " higher class, and follow local codes and licensed practice")
+        from stock.markings.safety_classes import MAINS_CAUTION
+
+        lines.append(f"  caution: {MAINS_CAUTION}")
     on_hand = "not counted" if d["on_hand"] is None else d["on_hand"]
     lines.append(f"  {'on hand':<13}{on_hand}   available {d['available']}   reserved {d['reserved']}")
     if d.get("settled"):

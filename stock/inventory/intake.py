@@ -31,7 +31,6 @@ from typing import Any
 
 from stock.decoded import Marking
 from stock.store.flag_kinds import QUARANTINE_FIXES
-from stock.errors import BadSheet
 from stock.inventory.row_reading import (MARKING_FIELDS, MAX_COUNT, PART_COLUMNS, READING_FIELDS, RowReader,
                                bin_key, cell_text, decode_cached, normalise, package_facts,
                                part_columns, read_quantity)

@@ -673,7 +673,7 @@ DEFER_CAUTION = "Defer to the equipment's service information and to local codes
 def cautions(m: Marking) -> tuple[str, ...]:
     """The safety cautions a person handling this part should read (mains, polarity, stored charge).
 
-    >>> cautions(decode("X2 0.1uF 275VAC"))[0].startswith("Mains safety capacitor")
+    >>> cautions(decode("X2 0.1uF 275VAC"))[0].startswith("mains work can kill")
     True
     """
     out = []

@@ -26,7 +26,12 @@ from stock.decoded import FAMILIES, Alternative, Dielectric, Flag
 
 @dataclass(frozen=True)
 class FamilyFigures:
-    """Typical figures of a family: α ± tolerance (ppm/K) and/or a change window over a range."""
+    """Typical figures of a family: α ± tolerance (ppm/K) and/or a change window over a range.
+
+    ``linear`` says whether the window may be scaled down to a narrower range (a roughly linear
+    curve) or holds whole (the cold end of an electrolytic). The one table of these figures: the
+    grading physics (:mod:`stock.physics.stability`) reads them from here.
+    """
 
     tempco: Decimal | None
     tempco_tol: Decimal | None
@@ -35,41 +40,60 @@ class FamilyFigures:
     change_minus_pct: Decimal | None
     change_plus_pct: Decimal | None
     source: str
+    linear: bool = True
 
 
 def _d(text: str | None) -> Decimal | None:
     return None if text is None else Decimal(text)
 
 
-def _figures(tempco, tol, low, high, minus, plus, source) -> FamilyFigures:  # noqa: ANN001
-    return FamilyFigures(_d(tempco), _d(tol), _d(low), _d(high), _d(minus), _d(plus), source)
+def _figures(tempco, tol, low, high, minus, plus, source, linear=True) -> FamilyFigures:  # noqa: ANN001
+    return FamilyFigures(_d(tempco), _d(tol), _d(low), _d(high), _d(minus), _d(plus), source, linear)
 
 
-# family -> typical figures: (α, ±α, low °C, high °C, −ΔC %, +ΔC %, source).
+# family -> typical figures: (α, ±α, low °C, high °C, −ΔC %, +ΔC %, source). Keys of the shared
+# reference (capacitor-codes.md §6c, §8a): S32 film makers' comparison table, S33 polystyrene
+# article, S34 silver-mica overview, S68 film text, S70 polystyrene white paper. Where sources
+# disagree the figure spans them all (a worst case), and the comment says so.
 FAMILY_FIGURES: dict[str, FamilyFigures] = {
     "ceramic": _figures(None, None, None, None, None, None, "no class given"),
-    "polystyrene": _figures("-125", "50", "-40", "85", None, None,
-                            "α −125 ppm/K (polystyrene article); max +85 °C (maker's white paper); "
-                            "±50 ppm/K from memory (−100…−200)"),
+    # S33 −125 ppm/K; memory −100…−200: −150 ± 50 spans both. Max +85 °C: S70; −40 °C from memory
+    "polystyrene": _figures("-150", "50", "-40", "85", None, None,
+                            "α −125 ppm/K (S33) and −100…−200 (memory): −150 ± 50 spans both; max +85 °C (S70)"),
+    # S32 ΔC ±2.5 % over −55…+105 °C; linear, negative (S68); α −200 ± 100 from memory (−100…−300)
     "polypropylene": _figures("-200", "100", "-55", "105", "2.5", "2.5",
-                              "WIMA film table (ΔC ±2.5 % over −55…+105 °C); α from memory (−100…−300)"),
+                              "ΔC ±2.5 % over −55…+105 °C (S32); linear, negative (S68); α from memory"),
+    # S32 ΔC ±5 %; α +400 ppm/K from memory, positive and only roughly linear
     "polyester": _figures("400", "200", "-55", "125", "5", "5",
-                          "WIMA film table (ΔC ±5 %); α +400 ppm/K from memory, non-linear"),
+                          "ΔC ±5 % over −55…+125 °C (S32); α +400 ± 200 ppm/K from memory"),
     "polyethylene-naphthalate": _figures("200", "100", "-55", "125", "5", "5",
-                                         "WIMA film table (ΔC ±5 %); α from memory"),
+                                         "ΔC ±5 % (S32); α +200 ± 100 ppm/K from memory"),
     "polyphenylene-sulfide": _figures("0", "100", "-55", "140", "1.5", "1.5",
-                                      "WIMA film table (ΔC ±1.5 % over −55…+140 °C); α from memory"),
-    "polycarbonate": _figures("50", "100", "-55", "125", None, None, "from memory (small, flat)"),
-    "ptfe": _figures(None, None, "-55", "200", "3", "1", "film text (ΔC +1/−3 % over range); range from memory"),
-    "mica": _figures("50", "25", "-55", "125", None, None, "silver mica overview (+35…+75 ppm/K)"),
-    "glass": _figures("140", "25", "-55", "125", None, None, "from memory"),
-    "paper": _figures(None, None, "-40", "85", "10", "10", "from memory (paper/oil, ±10 % over range)"),
-    "tantalum": _figures(None, None, "-55", "125", "10", "10", "WIMA comparison (ΔC ±10 % over −55…+125 °C)"),
-    "tantalum-polymer": _figures(None, None, "-55", "105", "20", "20", "from memory (±10…20 %)"),
+                                      "ΔC ±1.5 % over −55…+140 °C (S32); α 0 ± 100 ppm/K from memory"),
+    # memory: "small, ±50…+100 ppm/K, flat": +50 ± 100 spans −50…+150
+    "polycarbonate": _figures("50", "100", "-55", "125", None, None,
+                              "from memory (small and flat, about −50…+100 ppm/K): +50 ± 100"),
+    # S68 +1/−3 % over the range; the range is from memory: some parts are rated to +200 °C, but the
+    # window is known only to +125 °C, so the rated range stops there
+    "ptfe": _figures(None, None, "-55", "125", "3", "1",
+                     "ΔC +1/−3 % over range (S68); range −55…+125 °C from memory"),
+    # S34 +35…+75 ppm/K typical; the old military characteristic E allows −20…+100 ppm/K (from
+    # memory of MIL-PRF-39001 Table I, reference §6): +40 ± 60 spans it
+    "mica": _figures("40", "60", "-55", "125", None, None,
+                     "typical +35…+75 ppm/K (S34); characteristic E −20…+100 ppm/K (from memory): +40 ± 60"),
+    "glass": _figures("140", "25", "-55", "125", None, None, "from memory (+140 ± 25 ppm/K)"),
+    "paper": _figures(None, None, "-40", "85", "10", "10",
+                      "common practice, no published source (paper/oil about ±10 % over range)", linear=False),
+    "tantalum": _figures(None, None, "-55", "125", "10", "10",
+                         "ΔC ±10 % over −55…+125 °C, roughly linear (S32)"),
+    "tantalum-polymer": _figures(None, None, "-55", "105", "20", "20", "from memory (±10…20 %: the wider)"),
     "aluminium-electrolytic": _figures(None, None, "-40", "105", "20", "10",
-                                       "from memory (−10…−20 % at −40 °C, +5…+10 % at +105 °C)"),
-    "bipolar-electrolytic": _figures(None, None, "-40", "85", "20", "10", "from memory (as aluminium)"),
-    "double-layer": _figures(None, None, "-25", "70", "30", "20", "from memory (large, non-linear)"),
+                                       "from memory (−10…−20 % at −40 °C, +5…+10 % at +105 °C)", linear=False),
+    "bipolar-electrolytic": _figures(None, None, "-40", "85", "20", "10", "from memory (as aluminium)",
+                                     linear=False),
+    # memory: large and non-linear, capacitance falls in the cold; the wider of two recollections
+    "double-layer": _figures(None, None, "-25", "70", "30", "20",
+                             "from memory (about −20…−30 % cold, +10…+20 % hot: the wider)", linear=False),
 }
 
 # Names and abbreviations (lower case, spaces and hyphens removed) -> family. Common practice

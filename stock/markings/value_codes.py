@@ -227,6 +227,8 @@ def _rkm_candidates(body: str, letter: str | None) -> list[ValueCandidate]:
         return []       # lower-case f alone is not the farad letter
     if match[2] == "M" and not fraction:
         return []       # "473M": a trailing capital M is the ±20 % tolerance letter, not milli
+    if match[2] == "F" and not fraction and _THREE_DIGIT.fullmatch(whole):
+        return []       # "101F": the code 101 with the ±1 % letter F (IEC 60062), not 101 farads
     form = "r-decimal" if unit == "r" else "letter-and-digit"
     source = "R as the decimal point in pF" if unit == "r" else "IEC 60062 letter-and-digit code"
     return [ValueCandidate(pf, form, f"{body}: {source}", letter)]
@@ -252,6 +254,8 @@ def _unit_candidates(token: str, flags: list[Flag]) -> list[ValueCandidate]:
                 ValueCandidate(milli, "with-unit", f"{token}: mF = millifarad (SI)")]
     if key in ("f",) and unit == "f":
         return []
+    if unit == "F" and _THREE_DIGIT.fullmatch(match[1]):
+        return []       # "101F": the code 101 with the ±1 % letter F (IEC 60062), not 101 farads
     return [ValueCandidate(_scaled(number, UNIT_EXPONENT[key]), "with-unit", f"{token}: value with unit")]
 
 
