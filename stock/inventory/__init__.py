@@ -1,12 +1,17 @@
 """Bins from the shop's sheets into the store, and what the store then knows of them.
 
 In import order (each module imports only those before it): ``row_reading`` (a sheet row to a
-marking and part columns), ``source_records`` (raw rows kept compactly), ``stored_markings``
-(each distinct reading stored once, bins pointing at it), ``bins`` (queries), ``readings`` (the readings a person can choose),
-``stored_grades`` (grades kept per reading), ``stock_checks`` (unknown quantity, below minimum,
-shelf life), ``duplicates`` (the same part in several bins, merging), ``intake_writes`` (what one batch
-writes), ``sheet_intake`` (one sheet's rows, batch by batch), ``intake`` (files into bins, parts,
-ledger and flags), ``stocktake`` (the count sheet read back), ``flag_list`` (flags
+marking and part columns), ``source_records`` (raw rows kept compactly), ``column_content``
+(what a column's cells hold: values, locations, counts, designators), ``stored_markings`` (each
+distinct reading stored once, bins pointing at it), ``bins`` (queries), ``readings`` (the
+readings a person can choose), ``stored_grades`` (grades kept per reading, settled or not, and
+package), ``stock_checks`` (unknown quantity, below minimum, shelf life), ``duplicates`` (the
+same part in several bins, merging), ``intake_writes`` (what one batch writes), ``sheet_intake``
+(one sheet's rows, batch by batch), ``remembered_mappings`` (a sheet's mapping kept per header
+signature), ``own_exports`` (the inventory export read back by its columns), ``sheet_plan`` (how
+each sheet is read: ``--map`` rules, mapping by header, memory and content, sheets skipped or
+refused), ``intake`` (sheets into bins, parts, ledger and flags), ``stocktake`` (the count sheet
+read back), ``flag_list`` (flags
 as a person reads them), ``settling`` (a person's decision recorded), ``circuit_drift`` (the
 drift of a named bin in a circuit).
 """

@@ -24,13 +24,12 @@ from __future__ import annotations
 
 import hashlib
 import json
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
 from stock.store.flag_kinds import QUARANTINE_FIXES
-from stock.errors import BadSheet
 from stock.inventory.row_reading import (MARKING_FIELDS, MAX_COUNT, READING_FIELDS, bin_key,
                                          cell_text, decode_cached, normalise, read_quantity)
 from stock.inventory.sheet_intake import BATCH, SheetIntake
@@ -60,6 +59,8 @@ class SheetReport:
     mapping: tuple[str, ...] = ()
     notes: tuple[str, ...] = ()
     import_id: int | None = None
+    skipped: str | None = None
+
 
     def to_json(self) -> dict[str, Any]:
         return {
@@ -68,6 +69,7 @@ class SheetReport:
             "new_bins": self.new_bins, "updated_bins": self.updated_bins,
             "count_movements": self.count_movements, "flags_raised": self.flags_raised,
             "same_file": self.same_file, "mapping": list(self.mapping), "notes": list(self.notes),
+            "skipped": self.skipped,
         }
 
 
@@ -95,14 +97,6 @@ def file_sha256(path: Path) -> str:
     return digest.hexdigest()
 
 
-def _check_readable(raw_sheet: Any, header_map: Any, path: Path) -> None:
-    if not any(f in header_map.field_to_index for f in READING_FIELDS):
-        found = ", ".join(repr(cell_text(h)) for h in raw_sheet.headers if cell_text(h)) or "none"
-        raise BadSheet(str(path), f"no column carries a value or marking (headers found: {found})",
-                       sheet=raw_sheet.sheet, row=raw_sheet.header_row,
-                       hint="a column such as 'Marking', 'Value' or 'Colours', or --map marking=HEADER")
-
-
 def _sheet_notes(raw_sheet: Any) -> tuple[str, ...]:
     """What the reader found worth telling while reading (rows below a long blank run not read ...)."""
     return tuple(getattr(raw_sheet, "notes", None) or ())
@@ -120,29 +114,38 @@ def _start_import(store: Store, path: Path, sha: str, raw_sheet: Any, mapping: t
 
 
 def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
-                overrides: dict[str, str] | None = None, dry_run: bool = False,
-                progress: Callable[[int], None] | None = None) -> ImportReport:
+                overrides: dict[str, str] | Sequence[Any] | None = None, dry_run: bool = False,
+                progress: Callable[[int], None] | None = None, force: bool = False,
+                keep_mapping: bool = False, forget_mapping: bool = False,
+                check_map: bool = True) -> ImportReport:
     """Import one CSV or XLSX file (every sheet, or ``sheet``) in one transaction.
 
     Args:
         store: the open store.
         path: the file.
         sheet: import only this sheet of a workbook.
-        overrides: ``{field: header}`` from ``--map`` to correct the automatic header mapping.
+        overrides: ``--map`` rules (:class:`~stock.inventory.sheet_plan.MapRule`), or a plain
+            ``{field: header}`` that applies to every sheet having the header.
         dry_run: do everything, then roll back; the report says what would have changed.
         progress: called with the number of rows done so far, every thousand rows or so.
+        force: import a sheet that looks like a BOM all the same.
+        keep_mapping: keep each sheet's mapping for its headers (a ``--map`` is kept anyway).
+        forget_mapping: drop the mapping kept for each sheet's headers before reading it.
+        check_map: refuse a ``--map`` rule that no sheet of this file has (the CLI checks
+            across all the files of one command instead).
 
     Returns:
-        An :class:`ImportReport` with one :class:`SheetReport` per sheet.
+        An :class:`ImportReport` with one :class:`SheetReport` per sheet (skipped sheets too).
 
     Raises:
-        BadSheet: the file cannot be read, or no column carries a value or marking. The store is
-            unchanged.
+        BadSheet: the file cannot be read, no sheet has a column that holds values, or a sheet
+            looks like a BOM. The store is unchanged.
     """
-    from importers.headers import map_headers
     from importers.sheet import read_sheets
+    from stock.inventory.sheet_plan import unmatched_error, unmatched_rules
 
     path = Path(path)
+    rules = _as_rules(overrides)
     sheets = read_sheets(path, sheet)
     sha = file_sha256(path)
     reports: list[SheetReport] = []
@@ -152,37 +155,26 @@ def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
         conn.execute(f"PRAGMA cache_size = -{IMPORT_CACHE_KIB}")  # this connection only
     try:
         with store.writing():
+            if check_map:
+                left = unmatched_rules(rules, [(path, s.sheet, s.headers) for s in sheets])
+                if left:
+                    raise unmatched_error(left[0], [(path, s.sheet, s.headers) for s in sheets])
             ids = {t: store.one(f"SELECT COALESCE(MAX(id), 0) AS n FROM {t}")["n"]
                    for t in ("bins", "source_rows")}
             file_imports: list[int] = []
             changed = False
+            skipped: list[Any] = []
             for raw_sheet in sheets:
-                header_map = map_headers(raw_sheet.headers, vocabulary="bins",
-                                         overrides=overrides or {})
-                _check_readable(raw_sheet, header_map, path)
-                mapping = tuple(header_map.describe())
-                before = store.one(
-                    "SELECT rows FROM imports WHERE sha256 = ? AND sheet IS ? ORDER BY id DESC LIMIT 1",
-                    (sha, raw_sheet.sheet))
-                if before is not None:
-                    reports.append(SheetReport(str(path), raw_sheet.sheet, rows=before["rows"],
-                                               unchanged=before["rows"], same_file=True,
-                                               mapping=mapping))
+                plan = _plan(store, path, raw_sheet, rules, force, keep_mapping, forget_mapping)
+                if plan.skip is not None:
+                    skipped.append(plan)
+                    reports.append(SheetReport(str(path), raw_sheet.sheet, skipped=plan.skip))
                     continue
-                import_id = _start_import(store, path, sha, raw_sheet, mapping)
-                file_imports.append(import_id)
-                intake = SheetIntake(store, path, raw_sheet, header_map, import_id, file_imports,
-                                     ids, progress)
-                intake.run()
-                c = intake.counts
-                store.db.conn.execute(
-                    "UPDATE imports SET rows = ?, stored = ?, quarantined = ?, flagged = ?,"
-                    " unchanged = ? WHERE id = ?",
-                    (c.rows, c.stored, c.quarantined, c.flagged, c.unchanged, import_id))
-                changed = changed or intake.changed_any
-                reports.append(SheetReport(str(path), raw_sheet.sheet, mapping=mapping,
-                                           notes=_sheet_notes(raw_sheet),
-                                           import_id=None if dry_run else import_id, **c.as_dict()))
+                changed = _import_sheet(store, path, sha, plan, file_imports, ids, progress,
+                                        dry_run, reports) or changed
+            if len(skipped) == len(sheets):
+                from stock.inventory.sheet_plan import refuse_unreadable
+                refuse_unreadable(path, skipped)
             if changed and not dry_run:
                 from stock.inventory.stored_grades import refresh_stored_grades
                 from stock.inventory.stock_checks import raise_stock_flags
@@ -195,6 +187,66 @@ def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
     finally:
         conn.execute(f"PRAGMA cache_size = {cache}")
     return ImportReport(str(path), tuple(reports), dry_run=dry_run)
+
+
+def _as_rules(overrides: dict[str, str] | Sequence[Any] | None) -> tuple[Any, ...]:
+    from stock.inventory.sheet_plan import MapRule
+
+    if not overrides:
+        return ()
+    if isinstance(overrides, dict):
+        return tuple(MapRule(None, k, v) for k, v in overrides.items())
+    return tuple(overrides)
+
+
+def _plan(store: Store, path: Path, raw_sheet: Any, rules: Sequence[Any], force: bool,
+          keep_mapping: bool, forget_mapping: bool) -> Any:
+    """The sheet's plan (mapping by header, memory and content; or why it is skipped)."""
+    from stock.inventory.sheet_plan import plan_sheet
+
+    if forget_mapping:
+        from stock.inventory.remembered_mappings import forget_mapping as forget
+        forget(store, [cell_text(h) for h in raw_sheet.headers])
+    return plan_sheet(store, path, raw_sheet, rules, force=force, keep_mapping=keep_mapping)
+
+
+def _import_sheet(store: Store, path: Path, sha: str, plan: Any, file_imports: list[int],
+                  ids: dict[str, int], progress: Callable[[int], None] | None,
+                  dry_run: bool, reports: list[SheetReport]) -> bool:
+    """Store the rows of one planned sheet and add its report; True when it changed any bin."""
+    raw_sheet, header_map = plan.sheet, plan.header_map
+    mapping = tuple(header_map.describe())
+    notes = _sheet_notes(raw_sheet) + (("read as this store's own inventory export",)
+                                       if plan.exported else ())
+    before = store.one(
+        "SELECT rows FROM imports WHERE sha256 = ? AND sheet IS ? ORDER BY id DESC LIMIT 1",
+        (sha, raw_sheet.sheet))
+    if before is not None:
+        reports.append(SheetReport(str(path), raw_sheet.sheet, rows=before["rows"],
+                                   unchanged=before["rows"], same_file=True, mapping=mapping))
+        return False
+    import_id = _start_import(store, path, sha, raw_sheet, mapping)
+    file_imports.append(import_id)
+    intake = SheetIntake(store, path, raw_sheet, header_map, import_id, file_imports, ids, progress)
+    if plan.exported:
+        from stock.inventory.own_exports import ExportedFacts
+        intake.exported = ExportedFacts([cell_text(h) for h in raw_sheet.headers])
+    intake.run()
+    if intake.settled:
+        from stock.inventory.own_exports import settle_from_export
+        settle_from_export(store, intake.settled, path.name, import_id)
+    if plan.keep:
+        from stock.inventory.remembered_mappings import remember_mapping
+        remember_mapping(store, [cell_text(h) for h in raw_sheet.headers], header_map)
+        notes += ("mapping kept for these headers; the next import uses it (--forget-mapping drops it)",)
+    c = intake.counts
+    store.db.conn.execute(
+        "UPDATE imports SET rows = ?, stored = ?, quarantined = ?, flagged = ?,"
+        " unchanged = ? WHERE id = ?",
+        (c.rows, c.stored, c.quarantined, c.flagged, c.unchanged, import_id))
+    reports.append(SheetReport(str(path), raw_sheet.sheet, mapping=mapping, notes=notes,
+                               import_id=None if dry_run else import_id, **c.as_dict()))
+    return intake.changed_any
 
 
 __all__ = ["BATCH", "MARKING_FIELDS", "MAX_COUNT", "QUARANTINE_FIXES", "READING_FIELDS",

@@ -24,7 +24,8 @@ from typing import Any
 from stock.decoded import Marking
 from stock.inventory.intake_writes import (BinState, Counts, FlagForms, Writer, reasons_json,
                                            stored_bins)
-from stock.inventory.row_reading import RowReader, cell_text, normalise, read_quantity
+from stock.inventory.row_reading import (RowReader, cell_text, normalise, package_facts,
+                                         read_quantity)
 from stock.inventory.source_records import encode_cells
 from stock.inventory.stored_markings import Readings, set_reading
 from stock.store.database import Store, now
@@ -47,8 +48,8 @@ class _Row:
     cabinet: str = ""
     text: str = ""
     marking: Marking | None = None
-    value_text: str = ""
-    claimed: Any = None
+    claims: Any = None
+    settled: bool = False       # the reading is our own export's, to be stored as settled
 
 
 class SheetIntake:
@@ -86,6 +87,8 @@ class SheetIntake:
         self.default_cabinet = raw_sheet.sheet if raw_sheet.sheet else path.stem
         self._cabinet_keys: dict[str, str] = {}
         self._ref = f"import:{import_id}"
+        self.exported = None              # ExportedFacts when the sheet is our own export
+        self.settled: list[tuple[int, Marking]] = []   # new bins whose reading the export settles
         self._where = json.dumps({"sheet": raw_sheet.sheet, "file": path.name})[1:-1]
 
     def run(self) -> None:
@@ -123,13 +126,12 @@ class SheetIntake:
         except ValueError as exc:
             row.problems.append(("bad-quantity", str(exc)))
         f = row.fields = reader.texts(cells)
-        row.text, row.marking, row.value_text, row.claimed = reader.reading(f)
+        row.text, row.marking, row.claims = reader.reading(f)
+        if self.exported is not None:
+            row.marking, row.settled = self.exported.marking(cells, row.marking, row.text)
         m = row.marking
-        if m is None or (m.capacitance_pf is None
-                         and not any(a.capacitance_pf is not None for a in m.alternatives)):
-            row.problems.append(("no-capacitance", f"no capacitance could be read from {row.text!r}"
-                                 if row.text else "no capacitance could be read: the row has no"
-                                 " marking or value"))
+        if m is None or m.capacitance_pf is None:
+            row.problems.append(("no-capacitance", _no_capacitance(row.text, m)))
         if row.problems:
             return row
         row.cabinet = f.get("cabinet") or self.default_cabinet
@@ -139,6 +141,8 @@ class SheetIntake:
                 self._cabinet_keys.clear()
             cabinet_key = self._cabinet_keys[row.cabinet] = normalise(row.cabinet)
         row.key = f"{cabinet_key}/{normalise(f.get('location') or f.get('label') or row.text)}"
+        if f.get("bin_key"):
+            row.key, self._cabinet_keys[row.cabinet] = _stated_key(f["bin_key"], cabinet_key)
         return row
 
     def _quarantine(self, row: _Row, batch: Writer, problems: list[tuple[str, str]]) -> None:
@@ -165,15 +169,22 @@ class SheetIntake:
             return
         given[key] = row.number
         label = row.fields.get("label", "")
-        marking, extra_flags = self.reader.cross_check(key, row.text, row.marking, row.value_text,
-                                                       row.claimed, label)
+        marking, extra_flags = self.reader.cross_check(key, row.text, row.marking, row.claims, label)
+        package, mounting, conflict = package_facts(row.fields.get("package"), row.fields.get("mounting"),
+                                                    marking.package, marking.mounting)
+        if conflict:
+            extra_flags = [*extra_flags, ("conflicting-readings", f"bin {key!r}: {conflict}",
+                                          f"{key}|package-conflict|{package}|{mounting}")]
         if state is None:
-            state = known[key] = self._new_bin(row, label, marking, batch)
+            state = known[key] = self._new_bin(row, label, marking, package, mounting, batch)
+            if row.settled:
+                self.settled.append((state.id, marking))
         else:
-            self._edited_bin(row, state, label, marking, batch)
+            self._edited_bin(row, state, label, marking, package, mounting, batch)
         self._flags_and_source(row, state, marking, extra_flags, batch)
 
-    def _new_bin(self, row: _Row, label: str, marking: Marking, batch: Writer) -> BinState:
+    def _new_bin(self, row: _Row, label: str, marking: Marking, package: str | None,
+                 mounting: str | None, batch: Writer) -> BinState:
         f = row.fields
         bin_id = batch.next_bin_id()
         location = f.get("location") or None
@@ -181,7 +192,7 @@ class SheetIntake:
         reading_id = self.readings.id_for(marking, row.text)
         batch.bin((bin_id, row.key, label or None, location, row.cabinet, f.get("notes"), minimum,
                    f.get("date_code"), row.quantity, self.stamp, self.stamp))
-        batch.part((bin_id, reading_id, None, reading_id, f.get("package"), f.get("mounting")))
+        batch.part((bin_id, reading_id, None, reading_id, package, mounting))
         if row.quantity is not None:
             # A new bin's count arrives as one 'import' movement in the same transaction as the
             # bin row, so on_hand equals the ledger sum from the start.
@@ -193,7 +204,7 @@ class SheetIntake:
                         f.get("date_code"), row.text, None)
 
     def _edited_bin(self, row: _Row, old: BinState, label: str, marking: Marking,
-                    batch: Writer) -> None:
+                    package: str | None, mounting: str | None, batch: Writer) -> None:
         """Bring a stored bin in line with its edited row."""
         f = row.fields
         changed = False
@@ -208,8 +219,8 @@ class SheetIntake:
         if row.text != old.marking:
             # A settled decision outlives re-imports: the bin keeps showing it, the new decoding
             # is kept beside it.
-            set_reading(self.conn, old.id, marking, text=row.text, package=f.get("package"),
-                        mounting=f.get("mounting"), readings=self.readings)
+            set_reading(self.conn, old.id, marking, text=row.text, package=package,
+                        mounting=mounting, readings=self.readings)
             old.marking = row.text
             changed = True
         if row.quantity is not None and row.quantity != old.on_hand:
@@ -238,6 +249,29 @@ class SheetIntake:
                 batch.flag((state.id, source_id, kind, message, details, fingerprint, self.stamp))
         batch.source(self.import_id, self.sheet.sheet, row.number, encode_cells(row.cells, row.extra),
                      "flagged" if flags else "stored", reasons, state.id, source_id=source_id)
+
+
+def _stated_key(stated: str, cabinet_key: str) -> tuple[str, str]:
+    """A bin key given in its own column (our export's ``Bin``): the key and its cabinet part."""
+    key = normalise(stated)
+    if key.startswith(cabinet_key + "/"):
+        return key, cabinet_key
+    return key, key.partition("/")[0]
+
+
+def _no_capacitance(text: str, marking: Marking | None) -> str:
+    """Why a row holds no capacitance, naming what its text was read as instead."""
+    if not text:
+        return "no capacitance could be read: the row has no marking or value"
+    if marking is not None:
+        other = [a.reason for a in marking.alternatives if a.capacitance_pf is not None]
+        if marking.voltage_v is not None and other:
+            from stock.units import format_voltage
+            return (f"no capacitance could be read from {text!r}: it reads as a voltage code"
+                    f" ({format_voltage(marking.voltage_v, marking.voltage_kind)}), not a value"
+                    f" (at a stretch {other[0].split(': ', 1)[-1]}); give the capacitance with its"
+                    " unit, e.g. 1nF")
+    return f"no capacitance could be read from {text!r}"
 
 
 def _minimum(reader: RowReader, cells: tuple[Any, ...]) -> int | None:

@@ -14,7 +14,8 @@ Tables (all STRICT, so a bin code "007" stays text and "lots" never lands in a n
   raw (a compact array of cells), with its status.
 - ``flags``: what needs a human, with a fingerprint so a settled flag never returns.
 - ``plans``, ``plan_lines``, ``reservations``: kits planned from a BOM and the parts they hold.
-- ``marking_grades``: each reading's grade per application at the default conditions, with the
+- ``marking_grades``: each reading's grade per application at the default conditions, per
+  whether the reading was settled (measured) and per the bin's package (case size), with the
   table version; ``grades``: a view of them per bin.
 
 Writers use :meth:`Store.writing` (``BEGIN IMMEDIATE``): two processes never interleave a
@@ -174,6 +175,20 @@ def m002_bin_stock(db: Database) -> None:
         SELECT r.bin_id, SUM(r.qty) AS held FROM reservations r
         JOIN plans p ON p.id = r.plan_id WHERE p.status = 'reserved' GROUP BY r.bin_id
     ) h ON h.bin_id = b.id;
+    """)
+
+
+@migrations()
+def m003_remembered_mappings(db: Database) -> None:
+    """Header mappings a user gave once, kept per header signature and used on the next import."""
+    _run_script(db, """
+    CREATE TABLE remembered_mappings (
+        signature TEXT PRIMARY KEY,
+        vocabulary TEXT NOT NULL,
+        headers_json TEXT NOT NULL,
+        mapping_json TEXT NOT NULL,
+        saved_at TEXT NOT NULL
+    ) STRICT;
     """)
 
 
@@ -413,9 +428,9 @@ def open_store(path: str | Path, *, create: bool = True) -> Store:
 
 
 # Later migrations live in modules of their own, registered here in order.
-from stock.store.readings_migration import m003_markings_once, marking_digest  # noqa: E402
+from stock.store.readings_migration import m004_markings_once, marking_digest  # noqa: E402
 
-migrations()(m003_markings_once)
+migrations()(m004_markings_once)
 
 
 __all__ = ["LEDGER_KINDS", "MAX_ON_HAND", "Store", "marking_digest", "migrations", "now", "open_store"]

@@ -58,11 +58,13 @@ def _markings_schema() -> str:
     CREATE INDEX bin_parts_shown ON bin_parts(shown_id);
     CREATE TABLE marking_grades (
         marking_id INTEGER NOT NULL REFERENCES markings(id),
+        measured INTEGER NOT NULL DEFAULT 0 CHECK (measured IN (0, 1)),
+        case_size TEXT NOT NULL DEFAULT '',
         application TEXT NOT NULL,
         grade TEXT NOT NULL CHECK (grade IN ('fit', 'marginal', 'unfit', 'unknown')),
         reasons_json TEXT NOT NULL DEFAULT '[]',
         table_version TEXT NOT NULL,
-        PRIMARY KEY (marking_id, application)
+        PRIMARY KEY (marking_id, measured, case_size, application)
     ) STRICT, WITHOUT ROWID;
     CREATE VIEW parts AS
         SELECT p.bin_id, d.text AS marking, {shown}, p.package, p.mounting,
@@ -71,7 +73,8 @@ def _markings_schema() -> str:
         FROM bin_parts p JOIN markings d ON d.id = p.marking_id JOIN markings s ON s.id = p.shown_id;
     CREATE VIEW grades AS
         SELECT p.bin_id, g.application, g.grade, g.reasons_json, g.table_version
-        FROM bin_parts p JOIN marking_grades g ON g.marking_id = p.shown_id;
+        FROM bin_parts p JOIN marking_grades g ON g.marking_id = p.shown_id
+            AND g.measured = (p.settled_id IS NOT NULL) AND g.case_size = COALESCE(p.package, '');
     CREATE TRIGGER parts_insert INSTEAD OF INSERT ON parts BEGIN
         INSERT INTO markings (text, marking_json, {names})
             VALUES (NEW.marking, NEW.decoded_json, {decoded_cols});
@@ -99,9 +102,10 @@ def _markings_schema() -> str:
     """
 
 
-def m003_markings_once(db: Database) -> None:
+def m004_markings_once(db: Database) -> None:
     """Each distinct reading stored once (``markings``), bins pointing at it (``bin_parts``), its
-    grades kept once per reading (``marking_grades``); ``parts`` and ``grades`` become views of the
+    grades kept once per reading, settled or not, and package (``marking_grades``: a settled
+    reading drops the unmarked-tolerance doubt, the case size feeds the DC-bias model); ``parts`` and ``grades`` become views of the
     same shape as the old tables, so every reader keeps its SQL. Source rows may now hold a compact
     array of cells under the import's header (``imports.headers_json``); old rows keep their
     objects. Source rows get an index by bin, and their status index shrinks to the quarantined.
@@ -147,8 +151,9 @@ def m003_markings_once(db: Database) -> None:
             links.append((bin_id, marking_id, settled_id, settled_id or marking_id, package, mounting))
         conn.executemany("INSERT INTO bin_parts (bin_id, marking_id, settled_id, shown_id, package,"
                          " mounting) VALUES (?, ?, ?, ?, ?, ?)", links)
-    conn.execute("INSERT OR IGNORE INTO marking_grades (marking_id, application, grade, reasons_json,"
-                 " table_version) SELECT p.shown_id, g.application, g.grade, g.reasons_json,"
+    conn.execute("INSERT OR IGNORE INTO marking_grades (marking_id, measured, case_size, application,"
+                 " grade, reasons_json, table_version) SELECT p.shown_id, p.settled_id IS NOT NULL,"
+                 " COALESCE(p.package, ''), g.application, g.grade, g.reasons_json,"
                  " g.table_version FROM old_grades g JOIN bin_parts p ON p.bin_id = g.bin_id")
     conn.execute("DROP TABLE old_grades")
     conn.execute("DROP TABLE old_parts")
@@ -160,4 +165,4 @@ def m003_markings_once(db: Database) -> None:
                  " WHERE status = 'quarantined'")
 
 
-__all__ = ["m003_markings_once", "marking_digest"]
+__all__ = ["m004_markings_once", "marking_digest"]
