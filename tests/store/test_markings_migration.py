@@ -102,3 +102,34 @@ def test_the_migrated_store_takes_the_same_file_and_an_edited_one(tmp_path):
         assert store.one("SELECT COUNT(*) AS n FROM grades g JOIN bins b ON b.id = g.bin_id"
                          " WHERE b.location = 'A7'")["n"] > 0
         assert check_store(store).ok
+
+
+def test_both_third_migrations_apply_in_order_on_an_old_store(tmp_path):
+    db = _copy(tmp_path)
+    with open_store(db) as store:
+        names = [r["name"] for r in store.rows("SELECT name FROM _sqlite_migrations ORDER BY id")]
+        assert names.index("m003_remembered_mappings") < names.index("m004_markings_once")
+        assert store.one("SELECT COUNT(*) AS n FROM remembered_mappings")["n"] == 0
+
+
+def test_a_store_that_already_remembers_mappings_gets_the_readings_tables(tmp_path):
+    # a store the schema before readings-once wrote once it remembered mappings (its m003 applied)
+    db = _copy(tmp_path)
+    conn = sqlite3.connect(db)
+    conn.executescript("""
+        CREATE TABLE remembered_mappings (signature TEXT PRIMARY KEY, vocabulary TEXT NOT NULL,
+            headers_json TEXT NOT NULL, mapping_json TEXT NOT NULL, saved_at TEXT NOT NULL) STRICT;
+        INSERT INTO remembered_mappings VALUES ('sig', 'bins', '["Where","Print"]',
+            '{"location":"Where","marking":"Print"}', '2026-01-01T00:00:00+00:00');
+        INSERT INTO _sqlite_migrations (migration_set, name, applied_at)
+            VALUES ('stock', 'm003_remembered_mappings', '2026-01-01');
+    """)
+    conn.commit()
+    conn.close()
+    with open_store(db) as store:
+        assert store.one("SELECT COUNT(*) AS n FROM remembered_mappings")["n"] == 1
+        kinds = {r["name"]: r["type"] for r in store.rows("SELECT name, type FROM sqlite_master")}
+        assert kinds["parts"] == "view" and kinds["markings"] == "table"
+        assert store.one("SELECT COUNT(*) AS n FROM bin_parts")["n"] == len(
+            _old_rows(FIXTURES / "store-before-markings.db", "SELECT bin_id FROM parts"))
+        assert check_store(store).ok
