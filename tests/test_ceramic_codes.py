@@ -39,13 +39,24 @@ def test_class1_code_gives_figure_times_multiplier_and_its_tolerance(code, tempc
     assert (d.family, d.klass, d.tempco_ppm_per_k, d.tempco_tol_ppm_per_k) == ("ceramic", 1, tempco, tol)
 
 
-def test_every_class1_combination_decodes_as_the_product_of_its_tables():
-    # EIA-198 rule (§1): α = figure × multiplier, ± tolerance letter. Computed here independently.
-    for letter, digit, tol in itertools.product(CLASS1_FIGURE, CLASS1_MULTIPLIER, CLASS1_TOLERANCE):
+# EIA-198 Class 1 tables typed from the published tables (docs/sources.md: [EIA-198] as reproduced
+# by [parameters-page], [latvian-codes], [barnes-2004]), not read from the module.
+EIA_CLASS1_FIGURE = {"C": D("0.0"), "B": D("0.3"), "L": D("0.8"), "A": D("0.9"), "M": D("1.0"),
+                     "P": D("1.5"), "R": D("2.2"), "S": D("3.3"), "T": D("4.7"), "V": D("5.6"),
+                     "U": D("7.5")}
+EIA_CLASS1_MULTIPLIER = {"0": -1, "1": -10, "2": -100, "3": -1000, "6": 10, "7": 100, "8": 1000}
+EIA_CLASS1_TOLERANCE = {"G": D(30), "H": D(60), "J": D(120), "K": D(250), "L": D(500), "M": D(1000),
+                        "N": D(2500)}
+
+
+def test_every_class1_combination_decodes_as_figure_times_multiplier_with_its_tolerance():
+    # EIA-198 rule: α = figure × multiplier, ± the tolerance letter; all 539 combinations.
+    assert (set(CLASS1_FIGURE), set(CLASS1_MULTIPLIER), set(CLASS1_TOLERANCE)) == \
+        (set(EIA_CLASS1_FIGURE), set(EIA_CLASS1_MULTIPLIER), set(EIA_CLASS1_TOLERANCE))
+    for letter, digit, tol in itertools.product(EIA_CLASS1_FIGURE, EIA_CLASS1_MULTIPLIER, EIA_CLASS1_TOLERANCE):
         d = decode_dielectric(letter + digit + tol)
-        assert d.tempco_ppm_per_k == CLASS1_FIGURE[letter] * CLASS1_MULTIPLIER[digit]
-        assert d.tempco_tol_ppm_per_k == CLASS1_TOLERANCE[tol]
-    assert len(CLASS1_FIGURE) * len(CLASS1_MULTIPLIER) * len(CLASS1_TOLERANCE) == 539
+        assert d.tempco_ppm_per_k == EIA_CLASS1_FIGURE[letter] * EIA_CLASS1_MULTIPLIER[digit], d.code
+        assert d.tempco_tol_ppm_per_k == EIA_CLASS1_TOLERANCE[tol], d.code
 
 
 # Reference §1b: digits 4, 5, 9 differ between sources (S1/S2/S3 vs S7).
@@ -82,11 +93,23 @@ def test_class2_code_gives_range_and_change_window(code, low, high, minus, plus)
         (2, low, high, minus, plus)
 
 
+# EIA-198 Class 2/3 tables typed from the published tables (docs/sources.md: [parameters-page],
+# [latvian-codes], [app-report-class2], [dielectrics-reference]), not read from the module.
+EIA_CLASS2_LOW = {"X": D(-55), "Y": D(-30), "Z": D(10)}
+EIA_CLASS2_HIGH = {"2": D(45), "4": D(65), "5": D(85), "6": D(105), "7": D(125), "8": D(150), "9": D(200)}
+EIA_CLASS2_CHANGE = {"A": (D(1), D(1)), "B": (D("1.5"), D("1.5")), "C": (D("2.2"), D("2.2")),
+                     "D": (D("3.3"), D("3.3")), "E": (D("4.7"), D("4.7")), "F": (D("7.5"), D("7.5")),
+                     "P": (D(10), D(10)), "R": (D(15), D(15)), "L": (D(40), D(15)), "S": (D(22), D(22)),
+                     "T": (D(33), D(22)), "U": (D(56), D(22)), "V": (D(82), D(22))}
+
+
 def test_every_class2_combination_decodes_from_its_three_tables():
-    for low, high, change in itertools.product(CLASS2_LOW, CLASS2_HIGH, CLASS2_CHANGE):
+    assert (set(CLASS2_LOW), set(CLASS2_HIGH), set(CLASS2_CHANGE)) == \
+        (set(EIA_CLASS2_LOW), set(EIA_CLASS2_HIGH), set(EIA_CLASS2_CHANGE))
+    for low, high, change in itertools.product(EIA_CLASS2_LOW, EIA_CLASS2_HIGH, EIA_CLASS2_CHANGE):
         d = decode_dielectric(low + high + change)
-        assert (d.temp_min_c, d.temp_max_c) == (CLASS2_LOW[low], CLASS2_HIGH[high])
-        assert (d.change_minus_pct, d.change_plus_pct) == CLASS2_CHANGE[change]
+        assert (d.temp_min_c, d.temp_max_c) == (EIA_CLASS2_LOW[low], EIA_CLASS2_HIGH[high]), d.code
+        assert (d.change_minus_pct, d.change_plus_pct) == EIA_CLASS2_CHANGE[change], d.code
 
 
 def test_s_is_plus_minus_22_with_the_20_percent_reading_kept():
