@@ -19,6 +19,7 @@ from stock.errors import BadValue
 from stock.grading import Conditions, grade
 from stock.search import Requirement, build_requirement, find, parse_tempco_window
 from stock.store import Store, open_store
+from tests.stored_rows import store_bin
 
 D = Decimal
 
@@ -46,26 +47,8 @@ def part(text: str, pf: str, *, tol: str | None = None, volts: str | None = None
 
 
 def add_bin(store: Store, key: str, m: Marking, on_hand: int | None, location: str | None = None) -> int:
-    """Insert one bin and its part directly (no importer), flat columns taken from the marking."""
-    def f(v):
-        return None if v is None else float(v)
-    tol, diel = m.tolerance, m.dielectric
-    with store.writing() as db:
-        cur = db.conn.execute(
-            "INSERT INTO bins (bin_key, location, on_hand, created_at, updated_at) VALUES (?,?,?,?,?)",
-            (key, location or key, on_hand, "2026-12-01T00:00:00+00:00", "2026-12-01T00:00:00+00:00"))
-        bin_id = cur.lastrowid
-        db.conn.execute(
-            "INSERT INTO parts (bin_id, marking, capacitance_pf, tol_minus, tol_plus, tol_unit, voltage_v,"
-            " voltage_kind, dielectric_code, family, class, tempco_ppm_per_k, tempco_tol_ppm_per_k,"
-            " temp_min_c, temp_max_c, safety_class, decoded_json) VALUES (?,?,?,?,?,?,?,?,?,?,?,?,?,?,?,?,?)",
-            (bin_id, m.text, f(m.capacitance_pf), f(tol.minus) if tol else None, f(tol.plus) if tol else None,
-             tol.unit if tol else None, f(m.voltage_v), m.voltage_kind,
-             diel.code if diel else None, diel.family if diel else None, diel.klass if diel else None,
-             f(diel.tempco_ppm_per_k) if diel else None, f(diel.tempco_tol_ppm_per_k) if diel else None,
-             f(diel.temp_min_c) if diel else None, f(diel.temp_max_c) if diel else None,
-             m.safety_class, json.dumps(m.to_json())))
-    return bin_id
+    """One bin and its part, stored through the importer's column mapping."""
+    return store_bin(store, key, m, on_hand, location=location or key)
 
 
 def reserve(store: Store, bin_id: int, qty: int, status: str = "reserved") -> None:
@@ -414,25 +397,15 @@ def _in_window(alpha_lo: Decimal, alpha_hi: Decimal, r: Requirement) -> bool:
     return r.tempco_min is None or (alpha_lo >= r.tempco_min and alpha_hi <= r.tempco_max)
 
 
-@pytest.fixture(scope="module")
-def scratch():
-    """One in-memory store for the property test, emptied before each example."""
-    s = open_store(":memory:")
-    yield s
-    s.close()
-
-
-def _empty(store: Store) -> None:
-    with store.writing() as db:
-        for table in ("reservations", "plan_lines", "plans", "parts", "bins"):
-            db.conn.execute(f"DELETE FROM {table}")
-
-
 @settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(parts=st.lists(stored_part, min_size=1, max_size=14), wanted=requirement, data=st.data())
-def test_every_result_meets_every_constraint_when_rechecked(scratch, parts, wanted, data):
-    store = scratch
-    _empty(store)
+def test_every_result_meets_every_constraint_when_rechecked(parts, wanted, data):
+    # a fresh store per example: the ledger is append-only, so a shared one cannot be emptied
+    with open_store(":memory:") as store:
+        _check_every_result(store, parts, wanted, data)
+
+
+def _check_every_result(store: Store, parts, wanted, data) -> None:
     stock: dict[str, tuple[Marking, int]] = {}
     for i, p in enumerate(parts):
         m = part(f"p{i}", p["pf"], tol=p["tol"], volts=p["volts"], code=p["code"], safety=p["safety"])
