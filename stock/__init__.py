@@ -34,8 +34,8 @@ Public names: ``decode`` (from ``markings``), ``open_store`` (from ``store``) an
 """
 
 from stock.decoded import Marking
-from stock.markings import decode
-from stock.store import open_store
+from stock.markings.decoder import decode
+from stock.store.database import open_store
 
 __all__ = ["Marking", "__version__", "decode", "open_store"]
 __version__ = "0.1.0"

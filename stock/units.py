@@ -115,7 +115,7 @@ def parse_capacitance(text: str, what: str = "--value") -> Decimal:
     >>> parse_capacitance("147p")  # typed by a user, a lower-case p is the unit, not the letter P
     Decimal('147')
     """
-    from stock.value_codes import read_value   # value_codes formats with this module
+    from stock.markings.value_codes import read_value   # value_codes formats with this module
 
     cleaned = _clean(str(text))
     if re.fullmatch(r"\d+(?:\.\d+)?p", cleaned):
@@ -183,7 +183,7 @@ def parse_voltage(text: str, what: str = "--voltage") -> Decimal:
     >>> parse_voltage("1kV"), parse_voltage("6V3"), parse_voltage("2A"), parse_voltage("63")
     (Decimal('1000'), Decimal('6.3'), Decimal('100'), Decimal('63'))
     """
-    from stock.voltage_codes import read_voltage, voltage_code_value
+    from stock.markings.voltage_codes import read_voltage, voltage_code_value
 
     cleaned = _clean(str(text))
     reading = read_voltage(cleaned)

@@ -13,7 +13,7 @@ import os
 import pytest
 from hypothesis import HealthCheck, settings
 
-from stock.store import Store, open_store
+from stock.store.database import Store, open_store
 
 settings.register_profile("ci", derandomize=True, database=None, deadline=None, print_blob=True,
                           suppress_health_check=[HealthCheck.too_slow])

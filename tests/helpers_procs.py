@@ -100,8 +100,8 @@ def import_worker(db: str, folder: str, name: str, seconds: float, go: str, log:
     kit workers plan for, so kits never reserve what an import recounts.
     """
     from stock.errors import StockError
-    from stock.intake import import_file
-    from stock.store import open_store
+    from stock.inventory.intake import import_file
+    from stock.store.database import open_store
 
     rng = random.Random(name)
     store = open_store(db)
@@ -136,9 +136,9 @@ def kit_worker(db: str, bom: str, name: str, seconds: float, go: str, log: str) 
     successful pull is logged with its plan id.
     """
     from stock.errors import StockError
-    from stock.kit import KitOptions, plan_kit
-    from stock.kit_plans import drop_plan, pull_plan, undo_pull
-    from stock.store import open_store
+    from stock.kitting.planner import KitOptions, plan_kit
+    from stock.kitting.stored_plans import drop_plan, pull_plan, undo_pull
+    from stock.store.database import open_store
 
     rng = random.Random(name)
     store = open_store(db)

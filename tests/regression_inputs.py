@@ -1,7 +1,7 @@
 """Inputs that once broke something, kept so they never break it again.
 
 Each entry says what failed, where, and what the right outcome is. The hostile-input suites
-(tests/test_fuzz_*.py, tests/test_hostile_files.py) run every entry through the real code path.
+(tests/system/test_fuzz_*.py, tests/system/test_hostile_files.py) run every entry through the real code path.
 Source: hostile inputs are common practice in fuzzing, no published source; each entry here was
 found by this project's own fuzz tests.
 """

@@ -1,7 +1,7 @@
 """Bins written into a test store the way the importer writes them.
 
 Tests that need a part with exactly stated facts (a hand-built :class:`~stock.decoded.Marking`)
-store it through the importer's one column mapping, :func:`stock.row_reading.part_columns`, so a
+store it through the importer's one column mapping, :func:`stock.inventory.row_reading.part_columns`, so a
 change to that mapping reaches these tests too; the count arrives as one ``import`` movement in
 the ledger, as a new bin's count does at import.
 """
@@ -11,8 +11,8 @@ from __future__ import annotations
 import json
 
 from stock.decoded import Marking
-from stock.row_reading import PART_COLUMNS, part_columns
-from stock.store import Store, now
+from stock.inventory.row_reading import PART_COLUMNS, part_columns
+from stock.store.database import Store, now
 
 _INSERT_PART = (f"INSERT INTO parts (bin_id, marking, {', '.join(PART_COLUMNS)}, decoded_json)"
                 f" VALUES ({', '.join('?' * (len(PART_COLUMNS) + 3))})")

@@ -70,7 +70,7 @@ def test_every_readme_console_block_shows_real_output(tmp_path):
 
 
 def test_the_readme_application_table_matches_the_grading_table():
-    from stock.applications import DEFAULT_TABLE
+    from stock.physics.applications import DEFAULT_TABLE
 
     text = README.read_text(encoding="utf-8")
     for name, row in DEFAULT_TABLE.items():

@@ -97,8 +97,8 @@ def register(app: typer.Typer) -> None:
         ctx: typer.Context,
         as_json: Annotated[bool, typer.Option("--json", help="Print the bins as JSON.")] = False,
     ) -> None:
-        from stock.bins import list_bins
-        from stock.store import open_store
+        from stock.inventory.bins import list_bins
+        from stock.store.database import open_store
         with open_store(state(ctx).db_path, create=False) as store:
             rows = list_bins(store)
         if as_json:
@@ -116,8 +116,8 @@ def register(app: typer.Typer) -> None:
         bin_ref: Annotated[str, typer.Argument(metavar="BIN", help="Bin id, key, location or label.")],
         as_json: Annotated[bool, typer.Option("--json", help="Print the bin as JSON.")] = False,
     ) -> None:
-        from stock.bins import bin_detail
-        from stock.store import open_store
+        from stock.inventory.bins import bin_detail
+        from stock.store.database import open_store
         with open_store(state(ctx).db_path, create=False) as store:
             detail = bin_detail(store, bin_ref)
         if as_json:
@@ -130,8 +130,8 @@ def register(app: typer.Typer) -> None:
         ctx: typer.Context,
         as_json: Annotated[bool, typer.Option("--json", help="Print the rows as JSON.")] = False,
     ) -> None:
-        from stock.bins import quarantined_rows
-        from stock.store import open_store
+        from stock.inventory.bins import quarantined_rows
+        from stock.store.database import open_store
         with open_store(state(ctx).db_path, create=False) as store:
             rows = quarantined_rows(store)
         if as_json:

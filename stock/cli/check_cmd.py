@@ -7,8 +7,8 @@ from typing import Annotated
 
 import typer
 
-from stock.check import check_store
-from stock.store import open_store
+from stock.store.integrity import check_store
+from stock.store.database import open_store
 
 
 def register(app: typer.Typer) -> None:

@@ -26,10 +26,10 @@ def decode(
     Example: stock decode "104K 2A X7R" "4n7 J 100V" --json
     """
     if colours:
-        from stock.colour_codes import decode_colours as decoder   # the colour decoder loads only when asked
+        from stock.markings.colours import decode_colours as decoder   # the colour decoder loads only when asked
     else:
-        from stock.markings import decode as decoder
-    from stock.markings import cautions, summary
+        from stock.markings.decoder import decode as decoder
+    from stock.markings.decoder import cautions, summary
 
     for text in texts:
         marking = decoder(text)

@@ -9,7 +9,7 @@ from typing import Annotated
 
 import typer
 
-from stock.store import open_store
+from stock.store.database import open_store
 
 export_app = typer.Typer(help="Write spreadsheets: what to order, what is on hand, a stock-take sheet.",
                          no_args_is_help=True)
@@ -42,7 +42,7 @@ def purchasing(
 
     Example: stock export purchasing order.xlsx --plan 3 --below-minimum
     """
-    from stock.exports import export_purchasing
+    from stock.sheets_out.exports import export_purchasing
     from stock.units import parse_percent
 
     spare_pct = parse_percent(spare, "--spare")
@@ -63,7 +63,7 @@ def inventory(
 
     Example: stock export inventory shelves.xlsx
     """
-    from stock.exports import export_inventory
+    from stock.sheets_out.exports import export_inventory
 
     with _store(ctx) as store:
         rows = export_inventory(store, out)
@@ -81,7 +81,7 @@ def count(
     Example: stock export count take.xlsx   (fill it in, then: stock import take.xlsx)
     """
     from stock.errors import BadValue
-    from stock.stocktake import export_count_sheet
+    from stock.inventory.stocktake import export_count_sheet
 
     if out.suffix.lower() != ".xlsx":
         raise BadValue("output file", str(out), "a name ending in .xlsx (the sheet carries validation)")

@@ -22,7 +22,7 @@ Examples:
 
 
 def _format_result(result) -> str:  # noqa: ANN001  (a stock.search.FindResult)
-    from stock.requirement import fmt
+    from stock.matching.requirement import fmt
     from stock.units import format_capacitance
 
     req = result.requirement
@@ -77,8 +77,8 @@ def register(app: typer.Typer) -> None:
         limit: Annotated[int, typer.Option("--limit", help="At most this many singles and pairs.")] = 10,
         as_json: Annotated[bool, typer.Option("--json", help="Print the answer as JSON.")] = False,
     ) -> None:
-        from stock.search import build_requirement, find
-        from stock.store import open_store
+        from stock.matching.search import build_requirement, find
+        from stock.store.database import open_store
 
         req = build_requirement(value=value, tol=tol, tempco=tempco, max_tempco=max_tempco, volts=volts,
                                 use=use, allow_marginal=allow_marginal, temp=temp, family=family,

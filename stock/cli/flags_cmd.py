@@ -76,8 +76,8 @@ def register(app: typer.Typer) -> None:
                                                help="Do not run the stock and duplicate checks first.")] = False,
         as_json: Annotated[bool, typer.Option("--json", help="One JSON document on stdout.")] = False,
     ) -> None:
-        from stock.review import list_flags
-        from stock.store import open_store
+        from stock.inventory.settling import list_flags
+        from stock.store.database import open_store
 
         with open_store(state(ctx).db_path, create=False) as store:
             found = list_flags(store, kind=kind, status="settled" if settled else "open",
@@ -105,9 +105,9 @@ def register(app: typer.Typer) -> None:
         reopen: Annotated[bool, typer.Option("--reopen", help="Undo the bin's decisions.")] = False,
         as_json: Annotated[bool, typer.Option("--json", help="One JSON document on stdout.")] = False,
     ) -> None:
-        from stock import review
+        from stock.inventory import settling as review
         from stock.errors import BadValue
-        from stock.store import open_store
+        from stock.store.database import open_store
 
         with open_store(state(ctx).db_path, create=False) as store:
             if reopen:
@@ -142,8 +142,8 @@ def register(app: typer.Typer) -> None:
         by: Annotated[Optional[str], typer.Option("--by", help="Who decided (default: $USER).")] = None,
         as_json: Annotated[bool, typer.Option("--json", help="One JSON document on stdout.")] = False,
     ) -> None:
-        from stock.duplicates import merge as do_merge
-        from stock.store import open_store
+        from stock.inventory.duplicates import merge as do_merge
+        from stock.store.database import open_store
 
         with open_store(state(ctx).db_path, create=False) as store:
             done = do_merge(store, from_ref, into_ref, force=force, note=note, by=by)

@@ -9,13 +9,13 @@ from typing import Annotated, Optional
 import typer
 
 from stock.decoded import Marking
-from stock.drift import (
+from stock.physics.drift import (
     TankDrift, TimerDrift, circuit_drift, format_frequency, parse_frequency, parse_inductance, parse_kelvin, parse_period,
 )
-from stock.bin_grades import BinGrades, grade_bins
-from stock.grading import APPLICATIONS, MAINS_CAUTION, REFERENCE_C, Budget, conditions_from_text, pm
-from stock.applications import load_rules
-from stock.store import open_store
+from stock.inventory.stored_grades import BinGrades, grade_bins
+from stock.physics.grading import APPLICATIONS, MAINS_CAUTION, REFERENCE_C, Budget, conditions_from_text, pm
+from stock.physics.applications import load_rules
+from stock.store.database import open_store
 from stock.units import format_capacitance, format_number, format_tolerance, format_voltage
 
 

@@ -48,9 +48,9 @@ def register(app: typer.Typer) -> None:
         from rich.console import Console
         from rich.progress import BarColumn, Progress, SpinnerColumn, TextColumn, TimeElapsedColumn
 
-        from stock.intake import import_file
-        from stock.stocktake import apply_count_sheet, is_count_sheet, preview_count_sheet
-        from stock.store import open_store
+        from stock.inventory.intake import import_file
+        from stock.inventory.stocktake import apply_count_sheet, is_count_sheet, preview_count_sheet
+        from stock.store.database import open_store
 
         overrides = _overrides(mapping or [])
         err = Console(stderr=True)

@@ -32,7 +32,7 @@ def _echo_json(data: object) -> None:
 
 
 def _store(ctx: typer.Context):  # noqa: ANN202  (a stock.store.Store)
-    from stock.store import open_store
+    from stock.store.database import open_store
 
     return open_store(state(ctx).db_path, create=False)
 
@@ -50,9 +50,9 @@ def plan_command(
     mapping: Annotated[list[str] | None, typer.Option("--map", help="FIELD=HEADER: which column holds a field (repeatable).")] = None,
     as_json: Annotated[bool, typer.Option("--json", help="Print the plan as JSON.")] = False,
 ) -> None:
-    from stock.bom import parse_mappings
-    from stock.kit import kit_options, plan_kit
-    from stock.pick_list import plan_text
+    from stock.kitting.bom import parse_mappings
+    from stock.kitting.planner import kit_options, plan_kit
+    from stock.kitting.pick_list import plan_text
 
     options = kit_options(boards, temp=temp, spare=spare, combine=combine, allow=allow or ())
     with _store(ctx) as store:
@@ -70,8 +70,8 @@ def show_command(
     plan: Annotated[str | None, typer.Argument(help="The plan number (omit to list every plan).")] = None,
     as_json: Annotated[bool, typer.Option("--json", help="Print the plan as JSON.")] = False,
 ) -> None:
-    from stock.kit_plans import list_plans, load_plan
-    from stock.pick_list import plan_text
+    from stock.kitting.stored_plans import list_plans, load_plan
+    from stock.kitting.pick_list import plan_text
 
     with _store(ctx) as store:
         if plan is None:
@@ -98,7 +98,7 @@ def picklist_command(
     xlsx: Annotated[Path | None, typer.Option("--xlsx", help="Also write the pick list to this XLSX file.")] = None,
     as_json: Annotated[bool, typer.Option("--json", help="Print the pick list as JSON.")] = False,
 ) -> None:
-    from stock.pick_list import pick_list, pick_list_text, write_pick_list_xlsx
+    from stock.kitting.pick_list import pick_list, pick_list_text, write_pick_list_xlsx
 
     with _store(ctx) as store:
         picks = pick_list(store, plan)
@@ -110,7 +110,7 @@ def picklist_command(
 
 
 def _action(ctx: typer.Context, name: str, plan: str, as_json: bool) -> None:
-    from stock import kit_plans
+    from stock.kitting import stored_plans as kit_plans
 
     function = {"pull": kit_plans.pull_plan, "undo": kit_plans.undo_pull, "drop": kit_plans.drop_plan}[name]
     with _store(ctx) as store:

@@ -20,7 +20,7 @@ from decimal import Decimal
 from pathlib import Path
 from typing import Any, Iterator
 
-from stock.preferred_values import series
+from stock.markings.preferred_values import series
 
 HEADERS = ("Cabinet", "Location", "Marking", "Qty", "Notes")
 CABINETS = ("Harrow bench", "Back room", "Drawer wall", "Shelf 3")
@@ -180,7 +180,7 @@ def fill_store(store: Any, n: int, seed: int = 5, *, distinct: int = 300,
     columns made by the importer's own column function), with its capacitance moved to a log-uniform
     value so a value window returns rows in proportion to its width.
     """
-    from stock.row_reading import PART_COLUMNS, decode_cached, part_columns
+    from stock.inventory.row_reading import PART_COLUMNS, decode_cached, part_columns
 
     rng = random.Random(seed)
     forms = []

@@ -32,8 +32,8 @@ def _fresh(path: Path) -> Path:
 
 def import_once(sheet: Path, db: Path) -> Any:
     """Open a fresh store, import the sheet, close (the close includes the WAL checkpoint)."""
-    from stock.intake import import_file
-    from stock.store import open_store
+    from stock.inventory.intake import import_file
+    from stock.store.database import open_store
 
     store = open_store(_fresh(db))
     try:
@@ -67,7 +67,7 @@ def read_only_once(sheet: Path) -> int:
 def storage_floor(imported: Path, db: Path, repeats: int) -> float:
     """Median seconds to write, bare, exactly the rows an import stored (every table, one
     transaction, plain executemany into the real schema): what SQLite itself needs for them."""
-    from stock.store import open_store
+    from stock.store.database import open_store
 
     source = sqlite3.connect(imported)
     tables = {t: source.execute(f"SELECT * FROM {t}").fetchall() for t in TABLES}

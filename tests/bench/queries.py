@@ -31,7 +31,7 @@ FIND_LO_PF, FIND_HI_PF = 1.0, 1e10   # 1 pF … 10 mF: the span of capacitors a 
 
 
 def _fresh_store(path: Path) -> Any:
-    from stock.store import open_store
+    from stock.store.database import open_store
 
     for suffix in ("", "-wal", "-shm"):
         Path(f"{path}{suffix}").unlink(missing_ok=True)
@@ -45,7 +45,7 @@ def find(n: int, work: Path, queries: int = 200) -> dict[str, Any]:
     Each requirement asks for one value with no tolerance, so the window is the search's
     "same value" ±1 %; at 1 000 000 log-uniform bins over 1 pF … 10 mF that is ~870 rows a query.
     """
-    from stock.search import Requirement, candidates
+    from stock.matching.search import Requirement, candidates
 
     store = _fresh_store(work / f"find-{n}.db")
     build = time.perf_counter()
@@ -78,7 +78,7 @@ def find(n: int, work: Path, queries: int = 200) -> dict[str, Any]:
 def pair_requirements(count: int, seed: int = 2) -> list[Any]:
     """Pair searches like a repairer's: a value with a tolerance, a tempco window, or both and a
     working voltage (the mix of tests/bench/find_pairs.py)."""
-    from stock.search import build_requirement
+    from stock.matching.search import build_requirement
 
     rng = random.Random(seed)
     out = []
@@ -97,7 +97,7 @@ def pair_requirements(count: int, seed: int = 2) -> list[Any]:
 def pairs(sizes: tuple[int, ...], work: Path, searches: int = 100) -> list[dict[str, Any]]:
     """Median time of ``searches`` :func:`stock.search.find` calls with ``combine=True`` per store
     size, and the growth factor from the previous size (with the n log n expectation beside it)."""
-    from stock.search import find as search
+    from stock.matching.search import find as search
 
     results = []
     previous: tuple[int, float] | None = None

@@ -16,11 +16,11 @@ from decimal import Decimal
 
 import pytest
 
-from stock.ceramic_codes import decode_dielectric, read_dielectric
-from stock.colour_codes import figures, multiplier_readings, tempco_readings, tolerance_readings
-from stock.safety_classes import SUBCLASSES, read_safety_class
-from stock.tolerance_codes import read_tolerance_letter
-from stock.value_codes import read_value, three_digit_value
+from stock.markings.ceramic_codes import decode_dielectric, read_dielectric
+from stock.markings.colour_codes import figures, multiplier_readings, tempco_readings, tolerance_readings
+from stock.markings.safety_classes import SUBCLASSES, read_safety_class
+from stock.markings.tolerance_codes import read_tolerance_letter
+from stock.markings.value_codes import read_value, three_digit_value
 
 D = Decimal
 

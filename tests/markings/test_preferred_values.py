@@ -12,7 +12,7 @@ from decimal import Decimal
 import eseries
 import pytest
 
-from stock.preferred_values import (SERIES_NAMES, in_series, lowest_series, nearest, series,
+from stock.markings.preferred_values import (SERIES_NAMES, in_series, lowest_series, nearest, series,
                                     series_for_tolerance)
 
 D = Decimal

@@ -1,0 +1,402 @@
+"""Reading one sheet row: cell text, counts, bin identity, the marking it states, its raw record.
+
+:mod:`stock.intake` stores rows; this module says what a row *means*. A :class:`RowReader` is made
+once per sheet from its header mapping and answers, per row, the text of each mapped field, the
+marking text to decode (marking, dielectric, tolerance, voltage ... columns joined in the order a
+part is printed), its decoding (colour bands read as such), whether an explicit value column or the
+bin label disagrees with it, and the row as raw JSON for ``source_rows``.
+
+Sheets repeat their markings a lot (a shop holds the same 104 in many bins), so decodings are
+remembered per distinct reading and the part columns per decoded marking: a 100 000-row sheet with
+3 000 different markings decodes 3 000 times.
+
+Quantity rules (common practice in stock-keeping, no published source): whole numbers only; a
+blank cell means "not counted", never zero; a negative or non-numeric count is refused.
+
+>>> bin_key("Cabinet  1", " A2 ")
+'cabinet 1/a2'
+"""
+
+from __future__ import annotations
+
+import json
+import re
+from dataclasses import replace
+from datetime import date, datetime
+from decimal import Decimal
+from functools import lru_cache
+from json.encoder import encode_basestring  # what json.dumps(..., ensure_ascii=False) uses for text
+from math import isfinite
+from typing import Any
+
+from stock.decoded import Alternative, Flag, Marking
+from stock.errors import BadValue
+
+# Fields of the "bins" vocabulary whose text joins the marking, in the order it is written.
+MARKING_FIELDS = ("marking", "colours", "dielectric", "tolerance", "voltage", "safety_class",
+                  "polarity", "rated_temp")
+# Fields that can carry the part's reading; a sheet with none of them cannot be imported.
+READING_FIELDS = ("marking", "value", "colours")
+MAX_COUNT = 2**53  # larger is a typing slip, and no longer exact as a JSON number
+READINGS_REMEMBERED = 65536  # distinct readings kept per sheet (memory stays bounded)
+
+# The flat parts columns, in the order of :func:`part_columns`.
+PART_COLUMNS = ("capacitance_pf", "tol_minus", "tol_plus", "tol_unit", "tol_code", "voltage_v",
+                "voltage_kind", "dielectric_code", "family", "class", "tempco_ppm_per_k",
+                "tempco_tol_ppm_per_k", "temp_min_c", "temp_max_c", "change_minus_pct",
+                "change_plus_pct", "safety_class", "polarity", "rated_temp_c")
+
+
+def normalise(text: str) -> str:
+    """Bin-key form of a name: trimmed, white space made single, lower case."""
+    return " ".join(str(text).split()).casefold()
+
+
+def bin_key(cabinet: str, location: str) -> str:
+    """The identity of a bin: ``"<cabinet>/<location>"`` normalised (see :mod:`stock.intake`)."""
+    return f"{normalise(cabinet)}/{normalise(location)}"
+
+
+@lru_cache(maxsize=65536)
+def decode_cached(text: str) -> Marking:
+    """:func:`stock.markings.decode` remembered per text: sheets repeat their markings a lot."""
+    from stock.markings.decoder import decode
+    return decode(text)
+
+
+def cell_text(value: Any) -> str:
+    """A cell as the text a person would read: 104.0 is "104", 2.2e-05 is "0.000022".
+
+    >>> cell_text(104.0), cell_text(2.2e-05), cell_text("  4n7 "), cell_text(None)
+    ('104', '0.000022', '4n7', '')
+    """
+    if value is None:
+        return ""
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, float):
+        if value.is_integer():
+            return str(int(value))
+        return format(Decimal(repr(value)), "f")
+    if isinstance(value, (datetime, date)):
+        return value.isoformat()
+    return " ".join(str(value).split())
+
+
+_NUMBER = re.compile(r"^[+-]?(\d+(\.\d*)?|\.\d+)$")
+
+
+def read_quantity(value: Any) -> int | None:
+    """A count cell as a whole number; None for a blank. Raises ValueError with the reason.
+
+    >>> read_quantity(10.0), read_quantity(" 25 "), read_quantity(None)
+    (10, 25, None)
+    """
+    if type(value) is str and len(value) < 16 and value.isascii() and value.isdigit():
+        return int(value)  # the usual cell ("25"), read without the general path below
+    if value is None or (isinstance(value, str) and not value.strip()):
+        return None
+    if isinstance(value, bool):
+        raise ValueError(f"quantity {cell_text(value)!r} is not a number")
+    if isinstance(value, int):
+        number = value
+    elif isinstance(value, float):
+        if not value.is_integer():
+            raise ValueError(f"quantity {cell_text(value)!r} is not a whole number")
+        number = int(value)
+    else:
+        text = str(value).strip()
+        if not _NUMBER.match(text):
+            raise ValueError(f"quantity {text!r} is not a number")
+        exact = Decimal(text)
+        if exact != exact.to_integral_value():
+            raise ValueError(f"quantity {text!r} is not a whole number")
+        number = int(exact)
+    if number < 0:
+        raise ValueError(f"quantity {cell_text(value)!r} is negative")
+    if number > MAX_COUNT:
+        raise ValueError(f"quantity {cell_text(value)!r} is too large to be a count")
+    return number
+
+
+def part_columns(m: Marking) -> tuple[Any, ...]:
+    """The flat parts columns of a marking, in the order of :data:`PART_COLUMNS`."""
+    tol, diel = m.tolerance, m.dielectric
+
+    def f(v: Decimal | None) -> float | None:
+        return None if v is None else float(v)
+
+    return (
+        f(m.capacitance_pf),
+        f(tol.minus) if tol else None, f(tol.plus) if tol else None,
+        tol.unit if tol else None, tol.code if tol else None,
+        f(m.voltage_v), m.voltage_kind,
+        diel.code if diel else None, diel.family if diel else None, diel.klass if diel else None,
+        f(diel.tempco_ppm_per_k) if diel else None, f(diel.tempco_tol_ppm_per_k) if diel else None,
+        f(diel.temp_min_c) if diel else None, f(diel.temp_max_c) if diel else None,
+        f(diel.change_minus_pct) if diel else None, f(diel.change_plus_pct) if diel else None,
+        m.safety_class, m.polarity, f(m.rated_temp_c),
+    )
+
+
+# A polarity column often says only whether the part is polarised, not which lead is marked:
+# such words add nothing to the marking (the decoder assumes the family's usual mark and says so).
+_POLARITY_WORDS = {w: "" for w in ("yes", "y", "true", "x", "1", "no", "n", "false", "0",
+                                   "polarised", "polarized", "polar", "non-polar", "np")}
+
+
+@lru_cache(maxsize=4096)
+def _decode_colours_cached(text: str) -> Marking:
+    from stock.markings.colours import decode_colours
+    return decode_colours(text)
+
+
+def _colours_unused(colours: str) -> tuple[Flag, ...]:
+    return (Flag("unparsed", f"the colours {colours!r} were not used: the printed marking gave"
+                 " the value"),)
+
+
+def with_unit(text: str, unit: str | None) -> str:
+    """A bare number from a column whose header names a unit gets that unit ("100" + "pF").
+
+    >>> with_unit("100", "µF"), with_unit("4n7", "pF")
+    ('100uF', '4n7')
+    """
+    if unit and _NUMBER.match(text):
+        return f"{text}{unit.replace('µ', 'u').replace('μ', 'u')}"  # ASCII: every decoder reads "uF"
+    return text
+
+
+def same_value(a: Decimal, b: Decimal) -> bool:
+    """Two capacitances equal to within rounding (one part in 10⁹)."""
+    return abs(a - b) <= abs(b) * Decimal("1e-9")
+
+
+_VALUE_TOKEN = re.compile(r"\d[\d.,]*\s*(?:[pnuµμ]\s*F?|F)\b|\d+[pnuµμR]\d+", re.IGNORECASE)
+
+
+@lru_cache(maxsize=4096)
+def agreed_by_claim(marking: Marking, where: str, raw: str) -> Marking:
+    """Drop the value doubts that a label or value column agreeing with the reading settles.
+
+    A ``100`` code (10 pF, or 100 pF printed literally) in a drawer labelled ``10p`` is no longer
+    in doubt about its value: the ``ambiguous-code`` and ``unit-assumed`` flags that name one of
+    the other values go. The alternatives stay, with the agreement noted, so nothing is hidden;
+    doubts about anything else (a voltage, a dielectric) are kept.
+
+    >>> from stock.markings.decoder import decode
+    >>> m = agreed_by_claim(decode("100"), "the label", "10p")
+    >>> m.flag_kinds(), m.alternatives[-1].reason
+    (set(), 'the label says 10p, agreeing with the reading chosen')
+    """
+    from stock.units import format_capacitance
+
+    nominal = marking.capacitance_pf
+    others = {format_capacitance(a.capacitance_pf) for a in marking.alternatives
+              if a.capacitance_pf is not None and nominal is not None
+              and not same_value(a.capacitance_pf, nominal)}
+    if not others:
+        return marking
+    kept = tuple(f for f in marking.flags
+                 if f.kind not in ("ambiguous-code", "unit-assumed")
+                 or not any(o in f.message for o in others))
+    if len(kept) == len(marking.flags):
+        return marking
+    note = Alternative(reason=f"{where} says {raw}, agreeing with the reading chosen", capacitance_pf=nominal)
+    return replace(marking, flags=kept, alternatives=marking.alternatives + (note,))
+
+
+def label_value(label: str) -> tuple[str, Decimal] | None:
+    """A capacitance written in a bin label ("10nF", "Box 4n7 C0G"), if it states one.
+
+    >>> label_value("Box 4n7 C0G")
+    ('4n7', Decimal('4700'))
+    """
+    from stock.units import parse_capacitance
+    for match in _VALUE_TOKEN.finditer(label):
+        token = match.group(0).replace(" ", "")
+        try:
+            return token, parse_capacitance(token, what="label")
+        except (BadValue, ValueError):
+            continue
+    return None
+
+
+def _json_value(value: Any) -> str | None:
+    """A cell as JSON exactly as ``json.dumps(..., default=str, ensure_ascii=False)`` writes it,
+    for the common cell types; None for the rest (the caller then uses json.dumps itself)."""
+    t = type(value)
+    if t is str:
+        return encode_basestring(value)
+    if t is int:
+        return int.__repr__(value)
+    if t is float and isfinite(value):
+        return float.__repr__(value)
+    return None
+
+
+class RowReader:
+    """What the rows of one sheet say, given its header mapping.
+
+    Args:
+        header_map: the sheet's :class:`importers.headers.HeaderMap`.
+        headers: the sheet's header texts (unique), in column order.
+    """
+
+    def __init__(self, header_map: Any, headers: list[str]):
+        self.units: dict[str, str] = dict(getattr(header_map, "units", None) or {})
+        self.index: dict[str, int] = dict(header_map.field_to_index)
+        self.headers = headers
+        self._header_keys = [encode_basestring(h) + ": " for h in headers]
+        self._text_fields = [(n, i) for n, i in self.index.items() if n not in ("quantity", "minimum")]
+        self._reading_fields = tuple(n for n in (*MARKING_FIELDS, "value") if n in self.index)
+        self._readings: dict[tuple[str | None, ...], tuple[str, Marking | None, str, Decimal | None]] = {}
+
+    def texts(self, cells: tuple[Any, ...]) -> dict[str, str]:
+        """The non-blank text of each mapped field of a row (the hot path: one pass, no lookups)."""
+        out: dict[str, str] = {}
+        for name, i in self._text_fields:
+            v = cells[i] if i < len(cells) else None
+            if v is None:
+                continue
+            if type(v) is str:
+                t = v.strip()
+                if "  " in t or "\n" in t or "\t" in t:
+                    t = " ".join(t.split())
+            else:
+                t = cell_text(v)
+            if t:
+                out[name] = t
+        return out
+
+    def raw_cell(self, cells: tuple[Any, ...], name: str) -> Any:
+        i = self.index.get(name)
+        return None if i is None or i >= len(cells) else cells[i]
+
+    def reading(self, f: dict[str, str]) -> tuple[str, Marking | None, str, Decimal | None]:
+        """(marking text, its decoding or None, the explicit value text or "", that value in pF).
+
+        Remembered per distinct combination of the reading fields' texts, so the decoding of a
+        repeated marking is one and the same object (the store turns it into columns once).
+        """
+        key = tuple(f.get(n) for n in self._reading_fields)
+        found = self._readings.get(key)
+        if found is None:
+            text, colours, value_text = self.marking_text(f)
+            text, marking = self.decode(text, colours)
+            claimed = decode_cached(value_text).capacitance_pf if value_text else None
+            found = (text, marking, value_text, claimed)
+            if len(self._readings) < READINGS_REMEMBERED:
+                self._readings[key] = found
+        return found
+
+    def marking_text(self, f: dict[str, str]) -> tuple[str, str, str]:
+        """(marking text to decode, the colours column's text or "", the explicit value or "")."""
+        pieces = []
+        for name in MARKING_FIELDS:
+            text = f.get(name)
+            if not text or name == "colours":
+                continue
+            if name == "voltage":
+                text = with_unit(text, self.units.get(name) or "V")
+            elif name == "tolerance":
+                text = with_unit(text, self.units.get(name) or "%")
+            elif name == "rated_temp":
+                text = with_unit(text, "°C")
+            elif name == "polarity":
+                text = _POLARITY_WORDS.get(text.casefold(), text)
+                if not text:
+                    continue
+            elif name == "marking":
+                text = with_unit(text, self.units.get(name))
+            pieces.append(text)
+        value = f.get("value", "")
+        if value:
+            value = with_unit(value, self.units.get("value"))
+        colours = f.get("colours", "")
+        if value and "marking" not in f and not colours:
+            return " ".join([value, *pieces]), "", ""  # the value column is the marking
+        return " ".join(pieces), colours, value
+
+    @staticmethod
+    def decode(text: str, colours: str) -> tuple[str, Marking | None]:
+        """Decode a row's text; a colours column is read as colour bands, the rest fills in."""
+        if not colours:
+            return text, decode_cached(text) if text else None
+        full = f"{text} {colours}".strip() if text else colours
+        rest = decode_cached(text) if text else None
+        if rest is not None and rest.capacitance_pf is not None:
+            return full, rest.with_flags(*_colours_unused(colours))
+        bands = _decode_colours_cached(colours)
+        if rest is None:
+            return full, bands
+        merged = replace(
+            bands, text=full,
+            tolerance=bands.tolerance or rest.tolerance,
+            voltage_v=bands.voltage_v or rest.voltage_v,
+            voltage_kind=bands.voltage_kind or rest.voltage_kind,
+            dielectric=bands.dielectric or rest.dielectric,
+            safety_class=bands.safety_class or rest.safety_class,
+            polarity=bands.polarity or rest.polarity,
+            rated_temp_c=bands.rated_temp_c or rest.rated_temp_c,
+            flags=bands.flags + tuple(x for x in rest.flags if x.kind not in ("unreadable",)),
+            unparsed=bands.unparsed + rest.unparsed)
+        return full, merged
+
+    @staticmethod
+    def cross_check(key: str, text: str, marking: Marking, value_text: str, claimed: Decimal | None,
+                    label: str) -> tuple[Marking, list[tuple[str, str, str]]]:
+        """Compare the marking's reading with an explicit value and a label; keep the marking's.
+
+        Returns the marking (with an alternative and a ``label-conflict`` flag per disagreement)
+        and the (kind, message, fingerprint) of each disagreement.
+        """
+        found: list[tuple[str, str, str]] = []
+        nominal = marking.capacitance_pf
+        if nominal is None:
+            return marking, found
+        claims: list[tuple[str, str, Decimal]] = []
+        if claimed is not None:
+            claims.append(("the value column", value_text, claimed))
+        if label:
+            said = label_value(label)
+            if said is not None:
+                claims.append(("the label", said[0], said[1]))
+        for where, raw, other in claims:
+            if same_value(other, nominal):
+                marking = agreed_by_claim(marking, where, raw)
+                continue
+            from stock.units import format_capacitance
+            message = (f"{where} says {format_capacitance(other)} ({raw!r}), the marking {text!r}"
+                       f" says {format_capacitance(nominal)}; kept the marking's reading")
+            marking = replace(marking, alternatives=marking.alternatives + (
+                Alternative(reason=f"{where} says {raw}", capacitance_pf=other),),
+                flags=marking.flags + (Flag("label-conflict", message),))
+            found.append(("label-conflict", message, f"{key}|label-conflict|{text}|{raw}"))
+        return marking, found
+
+    def raw_json(self, cells: tuple[Any, ...], extra: tuple[tuple[str, Any], ...] = ()) -> str:
+        """The row's non-blank cells as a JSON object by header (cells right of the header too).
+
+        Written piece by piece for text and number cells, byte for byte what
+        ``json.dumps(raw, default=str, ensure_ascii=False)`` writes, at a fraction of its cost.
+        """
+        if not extra:
+            pieces = []
+            for head, c in zip(self._header_keys, cells):
+                if c is None or c == "":
+                    continue
+                encoded = _json_value(c)
+                if encoded is None:
+                    break
+                pieces.append(head + encoded)
+            else:
+                return "{" + ", ".join(pieces) + "}"
+        raw = {h: c for h, c in zip(self.headers, cells) if c is not None and c != ""}
+        raw.update(extra)  # nothing read is lost
+        return json.dumps(raw, default=str, ensure_ascii=False)
+
+
+__all__ = ["MARKING_FIELDS", "MAX_COUNT", "PART_COLUMNS", "READING_FIELDS", "RowReader", "bin_key",
+           "cell_text", "decode_cached", "label_value", "normalise", "part_columns", "read_quantity",
+           "same_value", "with_unit"]

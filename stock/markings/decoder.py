@@ -1,0 +1,523 @@
+"""Decode the free text printed on a capacitor or typed on a bin label into a :class:`Marking`.
+
+The text is split into tokens; each token is tried against the code tables (value codes, tolerance
+letters, voltage codes, ceramic codes, family names, safety classes, rated temperature, polarity).
+A token with more than one reading keeps the others as alternatives, and every doubt becomes a
+flag. Nothing raises: text longer than :data:`MAX_MARKING_CHARS`, control characters and foreign
+characters give an ``unreadable`` flag; tokens nobody understands are kept verbatim in
+``unparsed``.
+
+Flag kinds raised here: ``unreadable``, ``unparsed``, ``unit-assumed``, ``ambiguous-code``,
+``tolerance-by-value``, ``disputed-code``, ``spelling-corrected``, ``conflicting-readings``,
+``polarity-assumed``, ``voltage-kind-assumed``.
+
+>>> m = decode("104K 2A X7R")
+>>> m.capacitance_pf, m.tolerance.plus, m.voltage_v, m.voltage_kind, m.dielectric.code
+(Decimal('100000'), Decimal('10'), Decimal('100'), 'DC', 'X7R')
+>>> summary(m)
+'100 nF ±10 %  100 V DC  X7R (−55…+125 °C, ±15 %)'
+>>> decode("X2 0.1uF 275VAC").safety_class, decode("10uF 16V tantalum +").polarity
+('X2', 'positive-marked')
+
+Text made only of colours goes to the colour decoder (:mod:`stock.colour_codes`):
+
+>>> format_capacitance(decode("yellow violet brown").capacitance_pf)
+'470 pF'
+"""
+
+from __future__ import annotations
+
+import re
+import unicodedata
+from dataclasses import dataclass, field
+from decimal import Decimal
+from functools import lru_cache
+
+from stock.markings.ceramic_codes import read_dielectric
+from stock.markings.colour_codes import looks_like_colours
+from stock.markings.colours import decode_colours
+from stock.decoded import Alternative, Dielectric, Flag, Marking, Tolerance
+from stock.markings.families import PHRASE_WORDS, read_family
+from stock.markings.safety_classes import CAUTION, read_safety_class
+from stock.markings.tolerance_codes import read_explicit_tolerance, read_tolerance_letter
+from stock.units import (format_capacitance, format_number, format_temperature, format_temperature_range,
+                         format_tolerance, format_voltage)
+from stock.markings.value_codes import ValueReading, read_value
+from stock.markings.voltage_codes import DISPUTED_VOLTAGE_CODES, read_voltage, voltage_code_value
+
+# Longest text decoded. Real markings are under 40 characters; a cell holding more is a note or
+# a paste accident, and refusing it keeps decoding fast on hostile sheets.
+MAX_MARKING_CHARS = 200
+
+# The family's usual polarity mark when the text shows none (common practice, no published source).
+USUAL_POLARITY = {
+    "aluminium-electrolytic": ("negative-marked", "aluminium electrolytics usually mark the negative lead"),
+    "tantalum": ("positive-marked", "tantalums usually mark the positive lead"),
+    "tantalum-polymer": ("positive-marked", "polymer tantalums usually mark the positive lead"),
+}
+_POLARISED = frozenset({"aluminium-electrolytic", "tantalum", "tantalum-polymer", "double-layer"})
+
+_ALLOWED_EXTRA = frozenset("±°…")
+_DECIMAL_COMMA = re.compile(r"(?<=\d),(?=\d)")
+_SPACED_PLUS_MINUS = re.compile(r"±\s+")
+_SPACED_PERCENT = re.compile(r"(?<=\d)\s+(?=%)")
+_ASYMMETRIC = re.compile(r"\+\s*(\d+(?:\.\d+)?)\s*/?\s*-\s*(\d+(?:\.\d+)?)\s*%"
+                         r"|-\s*(\d+(?:\.\d+)?)\s*/?\s*\+\s*(\d+(?:\.\d+)?)\s*%")
+_PPM_PER = re.compile(r"\s*ppm\s*/\s*[°º]?\s*[ck]\b", re.IGNORECASE)
+_SIGNED = re.compile(r"[+-]?\d+(?:±\d+)?")
+_DEGREES = re.compile(r"\s*[°º]\s*C\b", re.IGNORECASE)
+_DUAL_SAFETY = re.compile(r"\b([XY][1-4])\s*[/+&]?\s*([XY][1-4])\b", re.IGNORECASE)
+_SPLIT = re.compile(r"[\s,;|()\[\]{}/<>]+")
+_NUMBER = re.compile(r"\d+(?:\.\d*)?|\.\d+")
+_TEMPERATURE = re.compile(r"\+?(\d{2,3})(°)?C")
+_CATEGORY = re.compile(r"(-\d{2,3})\s*(?:/|\.\.\.?|…|~|to)\s*\+?(\d{2,3})\s*(?:°\s*)?C\b", re.IGNORECASE)
+_UNIT_WORDS = frozenset({"pf", "nf", "uf", "mf", "mfd", "mmfd", "mmf", "uuf", "ufd", "p", "n", "u",
+                         "v", "vdc", "vac", "kv", "kvdc", "kvac", "wv", "wvdc", "v~", "vrms", "%",
+                         "°c", "c"})
+_KIND_WORDS = frozenset({"ac", "dc", "~"})
+_POLARITY_TOKENS = {"+": "positive-marked", "(+)": "positive-marked", "+ve": "positive-marked",
+                    "-": "negative-marked", "(-)": "negative-marked", "-ve": "negative-marked"}
+_COMMON_RATED_TEMPS = frozenset({70, 85, 105, 125, 130, 135, 150, 175, 200})
+_STRIP = "'\"*:_=!?#"
+# EIA chip sizes printed on reels and typed in sheets: a size, never a value (common practice).
+_CASE_SIZES = frozenset({"01005", "0201", "0402", "0603", "0805", "1206", "1210", "1806", "1808", "1812",
+                         "2010", "2220", "2225", "2512"})
+
+
+@dataclass
+class _Facts:
+    """What the tokens have said so far (mutable while decoding; frozen into a Marking at the end)."""
+
+    values: list[tuple[str, ValueReading]] = field(default_factory=list)
+    tolerance: Tolerance | None = None
+    tolerance_flags: tuple[Flag, ...] = ()
+    tolerance_alternatives: tuple[Alternative, ...] = ()
+    letters: list[str] = field(default_factory=list)
+    voltages: list[tuple[str, Decimal, str | None]] = field(default_factory=list)
+    voltage_codes: list[tuple[str, Decimal]] = field(default_factory=list)
+    dielectrics: list[tuple[str, Dielectric, tuple[Alternative, ...], tuple[Flag, ...]]] = \
+        field(default_factory=list)
+    safety: list[str] = field(default_factory=list)
+    polarity: str | None = None
+    temperatures: list[tuple[str, Decimal, bool]] = field(default_factory=list)
+    unparsed: list[str] = field(default_factory=list)
+    alternatives: list[Alternative] = field(default_factory=list)
+    flags: list[Flag] = field(default_factory=list)
+
+
+def _clean(text: str) -> tuple[str, list[Flag]]:
+    """NFKC-normalise, spell µ as u and minus as hyphen, drop control and foreign characters."""
+    flags: list[Flag] = []
+    if text.isascii() and text.isprintable():
+        return text, flags   # the common case: nothing to normalise
+    text = unicodedata.normalize("NFKC", text)
+    text = text.replace("\u03bc", "u").replace("\u00b5", "u")
+    for dash in "\u2212\u2013\u2014\u2010\u2011":
+        text = text.replace(dash, "-")
+    controls = sorted({c for c in text if unicodedata.category(c)[0] == "C" and c not in "\t\n\r"})
+    foreign = sorted({c for c in text if ord(c) > 126 and c not in _ALLOWED_EXTRA
+                      and unicodedata.category(c)[0] != "C"})
+    if controls:
+        names = ", ".join(f"U+{ord(c):04X}" for c in controls[:5])
+        flags.append(Flag("unreadable", f"control characters removed ({names})"))
+    if foreign:
+        shown = "".join(foreign[:10])
+        flags.append(Flag("unreadable", f"characters no marking uses were removed: {shown!r}"))
+    if controls or foreign:
+        bad = set(controls) | set(foreign)
+        text = "".join(" " if c in bad else c for c in text)
+    return text, flags
+
+
+def _tokens(text: str) -> list[str]:
+    text = _DECIMAL_COMMA.sub(".", text)
+    text = _SPACED_PLUS_MINUS.sub("±", text)
+    text = _SPACED_PERCENT.sub("", text)
+    text = _ASYMMETRIC.sub(lambda m: f"+{m[1]}-{m[2]}%" if m[1] else f"+{m[4]}-{m[3]}%", text)
+    text = _PPM_PER.sub("ppm", text)
+    text = _DEGREES.sub("°C", text)
+    text = _CATEGORY.sub(lambda m: f"+{m[2]}°C", text)   # category range: the rated (upper) temperature
+    text = _DUAL_SAFETY.sub(lambda m: m[1] + m[2] if m[1][0].upper() != m[2][0].upper() else m[0], text)
+    raw = []
+    for token in _SPLIT.split(text):
+        token = token.strip(_STRIP).rstrip(".")
+        if token.startswith(".") and not token[1:2].isdigit():
+            token = token.lstrip(".")
+        if token:
+            raw.append(token)
+    return _merge(raw)
+
+
+def _merge(raw: list[str]) -> list[str]:
+    """Join a number and the unit printed after a space (``.047 MFD``, ``1 kV``, ``85 °C``) and phrases."""
+    merged: list[str] = []
+    i = 0
+    while i < len(raw):
+        token = raw[i]
+        nxt = raw[i + 1] if i + 1 < len(raw) else None
+        if nxt is not None and _NUMBER.fullmatch(token) and nxt.lower() in _UNIT_WORDS:
+            token, i = token + nxt, i + 1
+            nxt = raw[i + 1] if i + 1 < len(raw) else None
+        if nxt is not None and nxt.lower() == "ppm" and _SIGNED.fullmatch(token):
+            token, i = token + nxt, i + 1
+            nxt = raw[i + 1] if i + 1 < len(raw) else None
+        if nxt is not None and nxt.lower() in _KIND_WORDS and read_voltage(token) is not None:
+            token, i = token + nxt, i + 1
+        if token.lower() in PHRASE_WORDS:
+            for j in range(min(len(raw), i + 4), i + 1, -1):
+                phrase = " ".join(raw[i:j])
+                if all(w.lower() in PHRASE_WORDS for w in raw[i:j]) and read_family(phrase):
+                    token, i = phrase, j - 1
+                    break
+        merged.append(token)
+        i += 1
+    return merged
+
+
+def _context_family(tokens: list[str]) -> str | None:
+    for token in tokens:
+        reading = read_family(token)
+        if reading is not None and reading.dielectric.family != "ceramic":
+            return reading.dielectric.family
+    return None
+
+
+def _classify(token: str, facts: _Facts, family: str | None) -> None:
+    upper = token.upper()
+    safety = read_safety_class(token)
+    if safety is not None:
+        facts.safety.append(safety.code)
+        return
+    dielectric = read_dielectric(token)
+    if dielectric is not None:
+        facts.dielectrics.append((token, dielectric.dielectric, dielectric.alternatives, dielectric.flags))
+        return
+    fam = read_family(token)
+    if fam is not None:
+        facts.dielectrics.append((token, fam.dielectric, fam.alternatives, fam.flags))
+        return
+    voltage = read_voltage(token)
+    if voltage is not None:
+        facts.voltages.append((token, voltage[0], voltage[1]))
+        return
+    temperature = _TEMPERATURE.fullmatch(upper)
+    if temperature and (temperature[2] or int(temperature[1]) in _COMMON_RATED_TEMPS):
+        facts.temperatures.append((token, Decimal(temperature[1]), bool(temperature[2])))
+        return
+    tolerance = read_explicit_tolerance(token)
+    if tolerance is not None:
+        facts.tolerance = facts.tolerance or tolerance
+        return
+    if token.lower() in _POLARITY_TOKENS:
+        facts.polarity = facts.polarity or _POLARITY_TOKENS[token.lower()]
+        return
+    code = voltage_code_value(upper)
+    if code is not None:
+        facts.voltage_codes.append((token, code))
+        return
+    if token in _CASE_SIZES:
+        facts.unparsed.append(token)
+        facts.flags.append(Flag("unparsed", f"{token}: an EIA chip size, not a value"))
+        return
+    value = read_value(token, family=family)
+    if value is not None:
+        facts.values.append((token, value))
+        return
+    if len(token) == 1 and token.isalpha() and read_tolerance_letter(token, None) is not None:
+        facts.letters.append(upper)
+        return
+    facts.unparsed.append(token)
+
+
+_FORM_RANK = {"with-unit": 0, "letter-and-digit": 1, "r-decimal": 1, "three-digit": 2, "literal-pF": 2,
+              "unit-less": 3}
+
+
+def _settle_value(facts: _Facts, family: str | None) -> tuple[Decimal | None, str | None]:
+    """Choose the value among the value tokens (and ambiguous voltage-code tokens); return it and its letter."""
+    voltage_known = bool(facts.voltages)
+    if not facts.values and facts.voltage_codes and voltage_known:
+        # A voltage is printed in full, so a two-character "voltage code" is more likely a value.
+        for token, volts in facts.voltage_codes:
+            value = read_value(token, family=family)
+            if value is not None:
+                facts.values.append((token, value))
+                facts.alternatives.append(Alternative(reason=f"{token}: voltage code {format_voltage(volts, 'DC')}",
+                                                      voltage_v=volts))
+                if value.chosen.form == "with-unit":
+                    continue    # "1F 5.5V": a value with its unit beside a printed voltage is no code
+                facts.flags.append(Flag("ambiguous-code", f"{token}: read as a value, since the voltage is "
+                                                          f"printed in full; as a voltage code it is "
+                                                          f"{format_voltage(volts, None)}"))
+        facts.voltage_codes = [(t, v) for t, v in facts.voltage_codes
+                               if not any(t == vt for vt, _ in facts.values)]
+    elif not facts.values and facts.voltage_codes:
+        for token, volts in facts.voltage_codes:
+            value = read_value(token, family=family)
+            if value is not None and value.chosen.tolerance_letter:
+                c = value.chosen
+                facts.alternatives.append(Alternative(reason=f"{token}: {format_capacitance(c.capacitance_pf)} "
+                                                      f"with tolerance letter {c.tolerance_letter}",
+                                                      capacitance_pf=c.capacitance_pf))
+                facts.flags.append(Flag("ambiguous-code", f"{token}: read as voltage code "
+                                                          f"{format_voltage(volts, 'DC')}; it could also be "
+                                                          f"{format_capacitance(c.capacitance_pf)} with "
+                                                          f"tolerance letter {c.tolerance_letter}"))
+    if not facts.values:
+        return None, None
+    ranked = sorted(facts.values, key=lambda tv: _FORM_RANK.get(tv[1].chosen.form, 4))
+    token, reading = ranked[0]
+    chosen = reading.chosen
+    facts.flags.extend(reading.flags)
+    for other in reading.others:
+        tolerance = None
+        if other.tolerance_letter:
+            tr = read_tolerance_letter(other.tolerance_letter, other.capacitance_pf)
+            tolerance = tr.tolerance if tr else None
+        facts.alternatives.append(Alternative(reason=other.reason, capacitance_pf=other.capacitance_pf,
+                                              tolerance=tolerance))
+    for other_token, other_reading in ranked[1:]:
+        pf = other_reading.chosen.capacitance_pf
+        if pf != chosen.capacitance_pf:
+            facts.alternatives.append(Alternative(reason=f"{other_token}: another value on the same marking",
+                                                  capacitance_pf=pf))
+            facts.flags.append(Flag("conflicting-readings", f"{token} and {other_token} give different values "
+                                                            f"({format_capacitance(chosen.capacitance_pf)} and "
+                                                            f"{format_capacitance(pf)}); read as "
+                                                            f"{format_capacitance(chosen.capacitance_pf)}"))
+    return chosen.capacitance_pf, chosen.tolerance_letter
+
+
+def _settle_tolerance(facts: _Facts, pf: Decimal | None, letter: str | None) -> Tolerance | None:
+    letters = ([letter] if letter else []) + facts.letters
+    if facts.tolerance is not None:
+        for extra in letters:
+            said = read_tolerance_letter(extra, pf)
+            if said is not None and (said.tolerance.minus, said.tolerance.plus, said.tolerance.unit) == \
+                    (facts.tolerance.minus, facts.tolerance.plus, facts.tolerance.unit):
+                continue
+            facts.flags.append(Flag("conflicting-readings", f"tolerance letter {extra} set aside for the "
+                                                            f"written tolerance {format_tolerance(facts.tolerance)}"))
+        return facts.tolerance
+    if not letters:
+        return None
+    reading = read_tolerance_letter(letters[0], pf)
+    if reading is None:
+        facts.unparsed.append(letters[0])
+        return None
+    facts.alternatives.extend(reading.alternatives)
+    facts.flags.extend(reading.flags)
+    for extra in letters[1:]:
+        facts.unparsed.append(extra)
+    return reading.tolerance
+
+
+def _settle_voltage(facts: _Facts, safety: str | None) -> tuple[Decimal | None, str | None]:
+    if facts.voltages:
+        token, volts, kind = facts.voltages[0]
+        for other, v, _ in facts.voltages[1:]:
+            facts.alternatives.append(Alternative(reason=f"{other}: a second voltage on the marking", voltage_v=v))
+        for other, v in facts.voltage_codes:
+            if v != volts:
+                facts.unparsed.append(other)
+        if kind is None:
+            if safety:
+                kind = "AC"
+                facts.flags.append(Flag("voltage-kind-assumed", f"{token}: read as AC, the rating of a "
+                                                                f"{safety} safety capacitor"))
+            else:
+                kind = "DC"   # IEC 60384: a rated voltage is DC unless marked AC
+        return volts, kind
+    if facts.voltage_codes:
+        token, volts = facts.voltage_codes[0]
+        facts.unparsed.extend(t for t, _ in facts.voltage_codes[1:])
+        if token.upper() in DISPUTED_VOLTAGE_CODES:
+            facts.flags.append(Flag("disputed-code", f"{token}: {DISPUTED_VOLTAGE_CODES[token.upper()][1]}; "
+                                                     f"read as {format_voltage(volts, 'DC')}"))
+        return volts, "DC"
+    return None, None
+
+
+def _disagree(a: Dielectric, b: Dielectric) -> bool:
+    """Whether two dielectric readings of one marking contradict each other (a family word agrees
+    with any code of its family; two codes must agree on class and tempco)."""
+    if a.family != b.family:
+        return True
+    if a.klass is None or b.klass is None:
+        return False
+    return a.klass != b.klass or a.tempco_ppm_per_k != b.tempco_ppm_per_k or (
+        a.klass == 2 and (a.change_minus_pct, a.change_plus_pct) != (b.change_minus_pct, b.change_plus_pct))
+
+
+def _settle_dielectric(facts: _Facts) -> Dielectric | None:
+    if not facts.dielectrics:
+        return None
+    # A code (ceramic class, old name) says more than a family word; "ceramic" alone says least.
+    ranked = sorted(facts.dielectrics, key=lambda d: (d[1].klass is None, d[1].code == "ceramic"))
+    token, chosen, alternatives, flags = ranked[0]
+    facts.alternatives.extend(alternatives)
+    facts.flags.extend(flags)
+    for other_token, other, _, _ in ranked[1:]:
+        if _disagree(chosen, other):
+            facts.alternatives.append(Alternative(reason=f"{other_token}: another dielectric on the marking",
+                                                  dielectric=other))
+            facts.flags.append(Flag("conflicting-readings", f"{token} and {other_token} name different "
+                                                            f"dielectrics; read as {chosen.code}"))
+    return chosen
+
+
+def _settle_temperature(facts: _Facts) -> Decimal | None:
+    if not facts.temperatures:
+        return None
+    token, celsius, certain = facts.temperatures[0]
+    if not certain and not facts.values:
+        value = read_value(token)
+        if value is not None:
+            facts.alternatives.append(Alternative(reason=f"{token}: three-digit code with tolerance letter",
+                                                  capacitance_pf=value.chosen.capacitance_pf))
+            facts.flags.append(Flag("ambiguous-code", f"{token}: read as rated temperature {celsius} °C; "
+                                                      "it could also be a value code with a tolerance letter"))
+    facts.unparsed.extend(t for t, _, _ in facts.temperatures[1:])
+    return celsius
+
+
+def _decode(text: str) -> Marking:
+    if len(text) > MAX_MARKING_CHARS:
+        return Marking(text=text[:MAX_MARKING_CHARS], flags=(Flag(
+            "unreadable", f"marking is {len(text)} characters long; at most {MAX_MARKING_CHARS} are decoded"),))
+    cleaned, flags = _clean(text)
+    tokens = _tokens(cleaned)
+    if not tokens:
+        why = "nothing is left once those are removed" if flags else "the marking is empty"
+        return Marking(text=text, flags=tuple(flags) + (Flag("unreadable", why),))
+    facts = _Facts(flags=list(flags))
+    family = _context_family(tokens)
+    for token in tokens:
+        _classify(token, facts, family)
+    pf, letter = _settle_value(facts, family)
+    tolerance = _settle_tolerance(facts, pf, letter)
+    safety = "".join(sorted(set(facts.safety))) if facts.safety else None
+    if safety is not None and len(facts.safety) > 1:
+        safety = read_safety_class(safety).code if read_safety_class(safety) else facts.safety[0]
+    volts, kind = _settle_voltage(facts, safety)
+    dielectric = _settle_dielectric(facts)
+    rated = _settle_temperature(facts)
+    polarity = facts.polarity
+    fam = dielectric.family if dielectric else None
+    if polarity is None and fam in USUAL_POLARITY:
+        polarity, why = USUAL_POLARITY[fam]
+        facts.flags.append(Flag("polarity-assumed", f"no polarity mark in the text; {why} — check the part"))
+    if facts.unparsed:
+        facts.flags.append(Flag("unparsed", "not understood: " + " ".join(facts.unparsed)))
+    if all(v is None for v in (pf, tolerance, volts, dielectric, safety, polarity, rated)):
+        facts.flags.append(Flag("unreadable", "nothing in the marking could be read"))
+    return Marking(text=text, capacitance_pf=pf, tolerance=tolerance, voltage_v=volts, voltage_kind=kind,
+                   dielectric=dielectric, safety_class=safety, polarity=polarity, rated_temp_c=rated,
+                   alternatives=tuple(facts.alternatives), flags=tuple(facts.flags),
+                   unparsed=tuple(facts.unparsed))
+
+
+@lru_cache(maxsize=8192)
+def _decode_cached(text: str) -> Marking:
+    try:
+        if looks_like_colours(text):  # every word a colour: the colour code, not the printed codes
+            return decode_colours(text)
+        return _decode(text)
+    except Exception as exc:  # noqa: BLE001 - a decoder fault must not stop an import of many rows
+        return Marking(text=text[:MAX_MARKING_CHARS],
+                       flags=(Flag("unreadable", f"the decoder failed on this text ({type(exc).__name__})"),))
+
+
+def decode(text: str) -> Marking:
+    """Decode one marking. Never raises; doubts are flags, other readings are alternatives.
+
+    Args:
+        text: the marking as printed or typed, e.g. ``4n7 J 100V`` or ``2200uF 25V 105C``.
+
+    Returns:
+        The decoded :class:`~stock.decoded.Marking`.
+
+    >>> m = decode("4n7 J 100V"); format_capacitance(m.capacitance_pf), format_tolerance(m.tolerance)
+    ('4.7 nF', '±5 %')
+    >>> sorted(decode("100").flag_kinds())
+    ['ambiguous-code']
+    >>> decode("\\x00\\x07").flag_kinds() == {"unreadable"}
+    True
+    """
+    if not isinstance(text, str):
+        text = "" if text is None else str(text)
+    return _decode_cached(text)
+
+
+def describe_dielectric(d: Dielectric) -> str:
+    """A dielectric in a few words: ``X7R (−55…+125 °C, ±15 %)``, ``C0G (0 ±30 ppm/K)``.
+
+    >>> describe_dielectric(decode("N750").dielectric)
+    'N750 (−750 ppm/K)'
+    """
+    parts = []
+    if d.tempco_ppm_per_k is not None:
+        tempco = format_number(d.tempco_ppm_per_k)
+        if d.tempco_ppm_per_k > 0:
+            tempco = "+" + tempco
+        if d.tempco_tol_ppm_per_k is not None:
+            tempco += f" ±{format_number(d.tempco_tol_ppm_per_k)}"
+        parts.append(tempco + " ppm/K")
+    if d.klass != 1 and d.temp_min_c is not None and d.temp_max_c is not None:
+        parts.append(format_temperature_range(d.temp_min_c, d.temp_max_c))
+    if d.change_minus_pct is not None and d.change_plus_pct is not None:
+        parts.append(format_tolerance(Tolerance(d.change_minus_pct, d.change_plus_pct, "%")))
+    if d.klass is None and d.family != d.code:
+        parts.insert(0, d.family)
+    return f"{d.code} ({', '.join(parts)})" if parts else d.code
+
+
+def summary(m: Marking) -> str:
+    """One line in engineering units: ``100 nF ±10 %  100 V DC  X7R (−55…+125 °C, ±15 %)``.
+
+    >>> summary(decode("2200uF 25V 105C"))
+    '2200 µF  25 V DC  105 °C rated'
+    >>> summary(decode("47uF 63V elko"))
+    '47 µF  63 V DC  aluminium-electrolytic (−40…+105 °C, +10/−20 %)  negative-marked'
+    """
+    parts = []
+    if m.capacitance_pf is not None:
+        value = format_capacitance(m.capacitance_pf)
+        if m.tolerance is not None:
+            value += " " + format_tolerance(m.tolerance)
+        parts.append(value)
+    elif m.tolerance is not None:
+        parts.append(format_tolerance(m.tolerance))
+    if m.voltage_v is not None:
+        parts.append(format_voltage(m.voltage_v, m.voltage_kind))
+    if m.dielectric is not None:
+        parts.append(describe_dielectric(m.dielectric))
+    if m.safety_class:
+        parts.append(f"safety class {m.safety_class}")
+    if m.rated_temp_c is not None:
+        parts.append(f"{format_temperature(m.rated_temp_c, signed=False)} rated")
+    if m.polarity:
+        parts.append(m.polarity)
+    return "  ".join(parts) if parts else "(nothing decoded)"
+
+
+def cautions(m: Marking) -> tuple[str, ...]:
+    """The safety cautions a person handling this part should read (mains, polarity, stored charge).
+
+    >>> cautions(decode("X2 0.1uF 275VAC"))[0].startswith("Mains safety capacitor")
+    True
+    """
+    out = []
+    if m.safety_class:
+        out.append(CAUTION)
+    family = m.dielectric.family if m.dielectric else None
+    if family in _POLARISED or m.polarity:
+        out.append("Polarised part: fit it the right way round and never above its rated voltage; "
+                   "reversed or overvolted it can vent or burst.")
+    if m.voltage_v is not None and (m.voltage_v >= 250 or m.voltage_kind == "AC"):
+        out.append("High-voltage part: it can hold a dangerous charge after power is removed; discharge "
+                   "it through a suitable resistor and check with a meter before touching.")
+    return tuple(out)
+
+
+__all__ = ["MAX_MARKING_CHARS", "USUAL_POLARITY", "cautions", "decode", "describe_dielectric", "summary"]

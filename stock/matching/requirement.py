@@ -1,0 +1,532 @@
+"""What a position needs, and whether one stored part meets it.
+
+A :class:`Requirement` says what the circuit needs (value and tolerance, tempco window, working
+voltage, application, safety class, family, quantity). The checks here judge one part against it;
+:mod:`stock.search` finds the parts and pairs that pass.
+
+What "meets" means, constraint by constraint:
+
+- **Value.** With a tolerance (``tol_pct``), the *delivered* value must stay inside the requirement
+  whatever the part does within its own marked tolerance: the part's band
+  ``[C·(1 − minus %), C·(1 + plus %)]`` must lie inside ``[T·(1 − tol), T·(1 + tol)]``. A part with no
+  marked tolerance cannot promise that and is left out. Without a tolerance, the nominal value must be
+  within :data:`NOMINAL_MATCH_PCT` of the target (closer than any two E96 neighbours, so a single part
+  must carry the value asked for, while a pair may land 1 % off).
+- **Tempco window.** The part's whole band ``α ± tol`` must lie in the window; a part whose tolerance
+  on α is not marked (old names such as N750) is judged on its nominal α, and says so. A part with no
+  linear tempco (Class 2 ceramics, electrolytics) never meets a window.
+- **Voltage.** The rated voltage must reach the working voltage (for a series pair, each part's share,
+  V₁ = V·C₂/(C₁ + C₂)), within the derating rules of :func:`stock.grading.worst_case`; "marginal"
+  derating passes only with ``allow_marginal``.
+- **Application.** The grade (:func:`stock.grading.grade`) must be "fit" ("marginal" too with
+  ``allow_marginal``).
+- **Safety.** A mains position or a named class never accepts a part without an X/Y class. A class
+  substitutes for another when its IEC 60384-14 impulse test is at least as severe for the same or a
+  stricter position: X1 for X2/X3; a Y class for an X one (a Y part is tested for line-to-earth, the
+  stricter position); Y1 for every Y; Y2 for Y3/Y4 (see :data:`SAFETY_SUBSTITUTES`).
+- **Quantity.** Available = on hand less reservations of plans not yet pulled or dropped, and it must
+  cover the quantity; a pair takes ``qty`` of each part, or ``2 × qty`` from one bin used twice.
+
+>>> parse_tempco_window("-750±120")
+(Decimal('-870'), Decimal('-630'))
+"""
+
+from __future__ import annotations
+
+import re
+from dataclasses import dataclass, replace
+from decimal import Decimal, InvalidOperation
+from functools import cached_property, lru_cache
+from typing import Any
+
+from stock.physics import combining
+from stock.markings.ceramic_codes import decode_dielectric, read_dielectric
+from stock.decoded import FAMILIES, Dielectric, Marking, Tolerance
+from stock.errors import BadValue
+from stock.physics.grading import APPLICATIONS, Conditions, grade, worst_case
+from stock.units import format_capacitance, format_tolerance
+
+NOMINAL_MATCH_PCT = Decimal(1)  # common practice, no published source: "the same value" within 1 %
+DEFAULT_BUY_TOL_PCT = Decimal(10)  # E12, when the requirement names no tolerance
+_HUNDRED = Decimal(100)
+
+# IEC 60384-14 subclasses, each with the ones it may replace (impulse test at least as severe, same or
+# stricter position: Y1 8 kV, Y2 5 kV, X1 4 kV, X2 and Y4 2.5 kV, X3 and Y3 none; figures from the
+# reference tables of the standard's subclasses).
+SAFETY_SUBSTITUTES: dict[str, frozenset[str]] = {
+    "X1": frozenset({"X1", "X2", "X3"}),
+    "X2": frozenset({"X2", "X3"}),
+    "X3": frozenset({"X3"}),
+    "Y1": frozenset({"Y1", "Y2", "Y3", "Y4", "X1", "X2", "X3"}),
+    "Y2": frozenset({"Y2", "Y3", "Y4", "X1", "X2", "X3"}),
+    "Y3": frozenset({"Y3", "X3"}),
+    "Y4": frozenset({"Y4", "X2", "X3"}),
+}
+SAFETY_CAUTION = ("Mains position: use only X/Y safety-rated parts of the class the position needs, "
+                  "discharge before handling, and defer to local codes and licensed practice.")
+
+_WINDOW = re.compile(r"^\s*([+\-−]?\d+(?:\.\d+)?)\s*(?:±|\+/-|\+-)\s*(\d+(?:\.\d+)?)\s*(?:ppm(?:/K)?)?\s*$",
+                     re.IGNORECASE)
+_RANGE = re.compile(r"^\s*([+\-−]?\d+(?:\.\d+)?)\s*(?:\.\.|…)\s*([+\-−]?\d+(?:\.\d+)?)\s*$")
+_SAFETY = re.compile(r"([XY])\s*([1-4])", re.IGNORECASE)
+
+
+def _dec(text: str) -> Decimal:
+    return Decimal(text.replace("−", "-"))
+
+
+def fmt(value: Decimal, places: int = 2) -> str:
+    """A Decimal as plain digits, at most ``places`` decimals, no exponent, true minus sign.
+
+    >>> fmt(Decimal("1E+2")), fmt(Decimal("-300.0")), fmt(Decimal("-0.001"))
+    ('100', '−300', '0')
+    """
+    try:
+        q = value.quantize(Decimal(1).scaleb(-places)).normalize()
+    except InvalidOperation:        # too many digits to quantize (1e300 V): show it as it is
+        q = value.normalize()
+    if q.is_zero():
+        return "0"
+    return format(q, "f").replace("-", "−")
+
+
+def _signed(value: Decimal) -> str:
+    return ("+" if value > 0 else "") + fmt(value)
+
+
+def parse_tempco_window(text: str) -> tuple[Decimal, Decimal]:
+    """A tempco window in ppm/K from ``0±30``, ``-750±120``, ``-100..100`` or a Class 1 code.
+
+    A code (``C0G``, ``U2J``, ``NP0``, ``N750``) means its own nominal ± tolerance; an old industry
+    name that states no tolerance (N750) takes the tolerance of the EIA-198 code it is usually sold
+    as (U2J, ±120 ppm/K).
+
+    Raises:
+        BadValue: the text is neither a window nor a code with a linear tempco.
+
+    >>> parse_tempco_window("0±30")
+    (Decimal('-30'), Decimal('30'))
+    >>> parse_tempco_window("-100..50")
+    (Decimal('-100'), Decimal('50'))
+    >>> parse_tempco_window("N750")
+    (Decimal('-870'), Decimal('-630'))
+    """
+    expected = "a window such as 0±30, -750±120 or -100..100 (ppm/K), or a Class 1 code such as C0G"
+    raw = text
+    m = _WINDOW.match(text)
+    if m:
+        mid, half = _dec(m.group(1)), _dec(m.group(2))
+        return mid - half, mid + half
+    m = _RANGE.match(text)
+    if m:
+        lo, hi = _dec(m.group(1)), _dec(m.group(2))
+        if lo > hi:
+            raise BadValue("--tempco", raw, "a window whose low end is below its high end")
+        return lo, hi
+    reading = read_dielectric(text.strip())
+    diel = reading.dielectric if reading else None
+    if diel is None or diel.tempco_ppm_per_k is None:
+        raise BadValue("--tempco", raw, expected)
+    tol = diel.tempco_tol_ppm_per_k
+    if tol is None:  # an old name: take the tolerance of the EIA code it is usually sold as
+        tol = next((a.dielectric.tempco_tol_ppm_per_k for a in reading.alternatives
+                    if a.dielectric is not None and a.dielectric.tempco_ppm_per_k == diel.tempco_ppm_per_k
+                    and a.dielectric.tempco_tol_ppm_per_k is not None), None)
+    if tol is None:
+        raise BadValue("--tempco", raw, f"a window such as {fmt(diel.tempco_ppm_per_k)}±60: "
+                                        f"{text.strip()} names a tempco but no tolerance on it")
+    return diel.tempco_ppm_per_k - tol, diel.tempco_ppm_per_k + tol
+
+
+def safety_classes(text: str | None) -> frozenset[str]:
+    """The IEC 60384-14 subclasses a marking's safety text names: "X1Y2" -> {"X1", "Y2"}.
+
+    >>> sorted(safety_classes("X1 Y2"))
+    ['X1', 'Y2']
+    """
+    if not text:
+        return frozenset()
+    return frozenset(f"{a.upper()}{b}" for a, b in _SAFETY.findall(text))
+
+
+def safety_covers(part_classes: frozenset[str], needed: str) -> bool:
+    """Whether a part's classes include one that may stand in the needed position.
+
+    >>> safety_covers(frozenset({"Y2"}), "X2"), safety_covers(frozenset({"X2"}), "Y2")
+    (True, False)
+    """
+    return any(needed in SAFETY_SUBSTITUTES.get(c, frozenset()) for c in part_classes)
+
+
+MAX_WORKING_V = Decimal(1_000_000)   # past 1 MV a working voltage is a typing slip (common practice)
+
+
+@dataclass(frozen=True)
+class Requirement:
+    """What a position in a circuit needs (see the module docstring for what each field demands)."""
+
+    capacitance_pf: Decimal
+    tol_pct: Decimal | None = None
+    tempco_min: Decimal | None = None
+    tempco_max: Decimal | None = None
+    max_abs_tempco: Decimal | None = None
+    working_v: Decimal | None = None
+    application: str | None = None
+    allow_marginal: bool = False
+    conditions: Conditions = Conditions()
+    family: str | None = None
+    dielectric_code: str | None = None
+    safety_class: str | None = None
+    qty: int = 1
+
+    def __post_init__(self) -> None:
+        if self.capacitance_pf <= 0:
+            raise BadValue("--value", str(self.capacitance_pf), "a capacitance above zero")
+        if self.tol_pct is not None and not Decimal(0) < self.tol_pct < _HUNDRED:
+            raise BadValue("--tol", str(self.tol_pct), "a tolerance between 0 and 100 %")
+        if not 1 <= self.qty <= 2**53:   # past 2**53 a count is a typing slip (and overflows SQLite)
+            raise BadValue("--qty", str(self.qty), "a quantity of 1 or more")
+        if self.working_v is not None and not abs(self.working_v) <= MAX_WORKING_V:
+            raise BadValue("--volts", str(self.working_v), f"a working voltage up to {MAX_WORKING_V:,} V")
+        if self.application is not None and self.application not in APPLICATIONS:
+            raise BadValue("--use", self.application, "one of " + ", ".join(APPLICATIONS))
+        if self.family is not None and self.family not in FAMILIES:
+            raise BadValue("--family", self.family, "one of " + ", ".join(FAMILIES))
+        if self.safety_class is not None and self.safety_class not in SAFETY_SUBSTITUTES:
+            raise BadValue("--safety", self.safety_class, "one of " + ", ".join(SAFETY_SUBSTITUTES))
+        if (self.tempco_min is not None and self.tempco_max is not None
+                and self.tempco_min > self.tempco_max):
+            raise BadValue("--tempco", f"{self.tempco_min}..{self.tempco_max}",
+                           "a window whose low end is below its high end")
+        if self.max_abs_tempco is not None and self.max_abs_tempco < 0:
+            raise BadValue("--max-tempco", str(self.max_abs_tempco), "a magnitude of 0 ppm/K or more")
+        if self.dielectric_code is not None and self.dielectric() is None:
+            raise BadValue("--tempco", self.dielectric_code, "a dielectric code such as C0G, N750 or X7R")
+
+    # The derived values below are asked for once per candidate part: work them out once per
+    # requirement (a frozen dataclass, so they never go stale; cached_property keeps them beside it).
+    def dielectric(self) -> Dielectric | None:
+        """The decoded dielectric the requirement names, if any."""
+        return self._dielectric
+
+    @cached_property
+    def _dielectric(self) -> Dielectric | None:
+        return decode_dielectric(self.dielectric_code) if self.dielectric_code else None
+
+    def value_window(self) -> tuple[Decimal, Decimal]:
+        """The (low, high) limits the delivered value must stay within, in pF."""
+        return self._value_window
+
+    @cached_property
+    def _value_window(self) -> tuple[Decimal, Decimal]:
+        pct = self.tol_pct if self.tol_pct is not None else NOMINAL_MATCH_PCT
+        return combining.band(self.capacitance_pf, pct, pct)
+
+    def tempco_window(self) -> tuple[Decimal, Decimal] | None:
+        """The (low, high) window on α in ppm/K, from the window and the magnitude limit together."""
+        return self._tempco_window
+
+    @cached_property
+    def _tempco_window(self) -> tuple[Decimal, Decimal] | None:
+        lo, hi = self.tempco_min, self.tempco_max
+        if self.max_abs_tempco is not None:
+            lo = -self.max_abs_tempco if lo is None else max(lo, -self.max_abs_tempco)
+            hi = self.max_abs_tempco if hi is None else min(hi, self.max_abs_tempco)
+        if lo is None and hi is None:
+            return None
+        return (lo if lo is not None else Decimal("-Infinity"), hi if hi is not None else Decimal("Infinity"))
+
+    def needed_safety(self) -> str | None:
+        """The safety subclass a part must cover; a mains position with none named needs at least X3."""
+        if self.safety_class:
+            return self.safety_class
+        return "X3" if self.application == "mains" else None
+
+    def mains_position(self) -> str | None:
+        """The position a named safety class implies: X → line–line, Y → line–earth (IEC 60384-14)."""
+        if not self.safety_class:
+            return None
+        return "line-earth" if "Y" in self.safety_class.upper() else "line-line"
+
+    def is_mains(self) -> bool:
+        return self.application == "mains" or self.safety_class is not None
+
+    def describe(self) -> str:
+        """The requirement in words, for ordering: "150 pF ±5 %, 0±30 ppm/K, ≥ 50 V, fit for tuned"."""
+        words = [format_capacitance(self.capacitance_pf)]
+        if self.tol_pct is not None:
+            words[0] += " " + format_tolerance(Tolerance(self.tol_pct, self.tol_pct, "%"))
+        if self.qty > 1:
+            words[0] = f"{self.qty} × {words[0]}"
+        if self.dielectric_code:
+            words.append(self.dielectric_code)
+        if self.tempco_min is not None and self.tempco_max is not None:
+            mid, half = (self.tempco_min + self.tempco_max) / 2, (self.tempco_max - self.tempco_min) / 2
+            words.append(f"{fmt(mid)}±{fmt(half)} ppm/K")
+        if self.max_abs_tempco is not None:
+            words.append(f"|α| ≤ {fmt(self.max_abs_tempco)} ppm/K")
+        if self.family:
+            words.append(self.family)
+        if self.working_v is not None:
+            words.append(f"≥ {fmt(self.working_v)} V")
+        if self.safety_class:
+            words.append(f"safety class {self.safety_class}")
+        if self.application:
+            word = "fit or marginal" if self.allow_marginal else "fit"
+            words.append(f"{word} for {self.application}")
+        c = self.conditions
+        if (c.temp_min_c, c.temp_max_c) != (Conditions().temp_min_c, Conditions().temp_max_c):
+            words.append(f"{_signed(c.temp_min_c)}…{_signed(c.temp_max_c)} °C")
+        return ", ".join(words)
+
+    def to_json(self) -> dict[str, Any]:
+        def f(v: Decimal | None) -> float | None:
+            return None if v is None else float(v)
+        return {
+            "capacitance_pf": float(self.capacitance_pf), "tol_pct": f(self.tol_pct),
+            "tempco_min": f(self.tempco_min), "tempco_max": f(self.tempco_max),
+            "max_abs_tempco": f(self.max_abs_tempco), "working_v": f(self.working_v),
+            "application": self.application, "allow_marginal": self.allow_marginal,
+            "temp_min_c": f(self.conditions.temp_min_c), "temp_max_c": f(self.conditions.temp_max_c),
+            "family": self.family, "dielectric_code": self.dielectric_code,
+            "safety_class": self.safety_class, "qty": self.qty, "description": self.describe(),
+        }
+
+
+@dataclass(frozen=True)
+class Stocked:
+    """A stored part with its bin and how many of it may be promised."""
+
+    bin_id: int
+    bin_key: str
+    location: str | None
+    on_hand: int | None
+    reserved: int
+    marking: Marking
+
+    @property
+    def available(self) -> int:
+        return max(0, (self.on_hand or 0) - self.reserved)
+
+
+@dataclass(frozen=True)
+class Verdict:
+    """The outcome of checking one part: passed, why (or which constraint failed first), grade."""
+
+    ok: bool
+    reasons: tuple[str, ...]
+    failed: str | None = None       # short name of the first failed constraint, for explanations
+    grade: str | None = None
+
+
+# A pass with nothing to report (no tempco window, no per-part constraint asked for): one shared
+# frozen value, since a plain value search meets it once per candidate row.
+_PASSED = Verdict(True, ())
+
+
+def _same_dielectric(wanted: Dielectric, have: Dielectric | None) -> bool:
+    """Whether a part's dielectric is the one asked for or an equivalent (NP0 for C0G)."""
+    if have is None:
+        return False
+    if have.code == wanted.code:
+        return True
+    if wanted.klass == 1 and have.klass == 1 and wanted.tempco_ppm_per_k is not None:
+        if have.tempco_ppm_per_k != wanted.tempco_ppm_per_k:
+            return False
+        # An old name with no tolerance matches its EIA code; a wider stated tolerance does not.
+        return (have.tempco_tol_ppm_per_k is None or wanted.tempco_tol_ppm_per_k is None
+                or have.tempco_tol_ppm_per_k <= wanted.tempco_tol_ppm_per_k)
+    return False
+
+
+def check_part(m: Marking, req: Requirement, *, working_v: Decimal | None) -> Verdict:
+    """Check everything a part must meet on its own, whatever it is combined with.
+
+    Family, dielectric code, safety class, rated temperature, voltage (``working_v`` is what this part
+    sees) and application grade. Value, tempco window and quantity are checked by the caller, since a
+    pair meets them together.
+    """
+    reasons: list[str] = []
+    diel = m.dielectric
+    if req.family and (diel is None or diel.family != req.family):
+        return Verdict(False, (f"{diel.family if diel else 'family not marked'}, not {req.family}",), "family")
+    wanted = req.dielectric()
+    if wanted is not None:
+        if not _same_dielectric(wanted, diel):
+            return Verdict(False, (f"{diel.code if diel else 'dielectric not marked'}, not {wanted.code}",),
+                           "dielectric")
+        reasons.append(f"{diel.code} serves as {wanted.code}" if diel.code != wanted.code else diel.code)
+    needed = req.needed_safety()
+    if needed:
+        have = safety_classes(m.safety_class)
+        if not safety_covers(have, needed):
+            why = f"class {m.safety_class} does not cover {needed}" if have else "no X/Y safety class"
+            return Verdict(False, (f"{why} (IEC 60384-14)",), "safety")
+        reasons.append(f"safety class {m.safety_class} covers {needed} (IEC 60384-14)")
+    cond = req.conditions
+    if m.rated_temp_c is not None and cond.temp_max_c > m.rated_temp_c:
+        return Verdict(False, (f"rated to {_signed(m.rated_temp_c)} °C, below {_signed(cond.temp_max_c)} °C",),
+                       "temperature")
+    if diel is not None and diel.klass == 2 and diel.temp_min_c is not None and diel.temp_max_c is not None:
+        if cond.temp_min_c < diel.temp_min_c or cond.temp_max_c > diel.temp_max_c:
+            return Verdict(False, (f"{diel.code} covers {_signed(diel.temp_min_c)}…{_signed(diel.temp_max_c)} °C only",),
+                           "temperature")
+    if working_v is not None:
+        if m.voltage_v is None:
+            return Verdict(False, ("rated voltage not marked",), "voltage")
+        check = worst_case(m, replace(cond, working_v=working_v)).voltage
+        if check is None or check.word == "unfit" or (check.word == "marginal" and not req.allow_marginal):
+            why = check.reason if check else f"rated {fmt(m.voltage_v)} V"
+            return Verdict(False, (why,), "voltage")
+        reasons.append(check.reason)
+    word = None
+    if req.application:
+        g = grade(m, req.application, replace(cond, working_v=working_v, position=req.mains_position()))
+        word = g.word
+        if word not in ("fit", "marginal") or (word == "marginal" and not req.allow_marginal):
+            return Verdict(False, tuple(g.reasons[:2]) or (f"{word} for {req.application}",),
+                           "application", word)
+        reasons.append(g.reasons[0] if g.reasons else f"{word} for {req.application}")
+    if not reasons and word is None:
+        return _PASSED
+    return Verdict(True, tuple(reasons), None, word)
+
+
+def tolerance_pct(m: Marking) -> tuple[Decimal, Decimal] | None:
+    """A part's marked tolerance as (minus %, plus %), or None when not marked (or value unknown)."""
+    if m.tolerance is None or m.capacitance_pf is None:
+        return None
+    return m.tolerance.as_percent(m.capacitance_pf)
+
+
+# Part values repeat across bins (E-series): each reason's text is worked out once per value.
+_cap_text = lru_cache(maxsize=8192)(format_capacitance)
+_tol_text = lru_cache(maxsize=1024)(format_tolerance)
+
+
+def check_value(m: Marking, req: Requirement) -> Verdict:
+    """Whether a single part delivers the value: its whole tolerance band inside the requirement."""
+    c = m.capacitance_pf
+    if c is None:
+        return Verdict(False, ("value not decoded",), "value")
+    lo, hi = req.value_window()
+    if req.tol_pct is None:
+        if not lo <= c <= hi:
+            return Verdict(False, (f"{_cap_text(c)} is not {_cap_text(req.capacitance_pf)}",),
+                           "value")
+        return Verdict(True, (f"{_cap_text(c)} nominal",))
+    tol = tolerance_pct(m)
+    if tol is None:
+        return Verdict(False, (f"{_cap_text(c)} with no marked tolerance cannot promise "
+                               f"±{fmt(req.tol_pct)} %",), "tolerance")
+    p_lo, p_hi = combining.band(c, *tol)
+    if p_lo < lo or p_hi > hi:
+        return Verdict(False, (f"{_cap_text(c)} {_tol_text(m.tolerance)} may deliver "
+                               f"{_cap_text(p_lo)}…{_cap_text(p_hi)}, outside "
+                               f"{_cap_text(lo)}…{_cap_text(hi)}",), "tolerance")
+    return Verdict(True, (f"{_cap_text(c)} {_tol_text(m.tolerance)} delivers "
+                          f"{_cap_text(p_lo)}…{_cap_text(p_hi)}, within ±{fmt(req.tol_pct)} %",))
+
+
+def check_tempco(m: Marking, req: Requirement) -> Verdict:
+    """Whether a single part's α band lies in the requirement's tempco window."""
+    window = req.tempco_window()
+    if window is None:
+        return _PASSED
+    diel = m.dielectric
+    if diel is None or diel.tempco_ppm_per_k is None:
+        what = diel.code if diel else "dielectric not marked"
+        return Verdict(False, (f"{what}: no linear tempco",), "tempco")
+    alpha, tol = diel.tempco_ppm_per_k, diel.tempco_tol_ppm_per_k
+    a_lo, a_hi = alpha - (tol or 0), alpha + (tol or 0)
+    if a_lo < window[0] or a_hi > window[1]:
+        return Verdict(False, (f"{diel.code} α {fmt(alpha)}" + (f"±{fmt(tol)}" if tol is not None else "")
+                               + f" ppm/K outside {window_text(window)}",), "tempco")
+    note = "" if tol is not None else " (no tolerance on α marked: nominal judged)"
+    return Verdict(True, (f"α {fmt(alpha)}" + (f"±{fmt(tol)}" if tol is not None else "")
+                          + f" ppm/K within {window_text(window)}{note}",))
+
+
+@lru_cache(maxsize=256)
+def window_text(window: tuple[Decimal, Decimal]) -> str:
+    """A tempco window in words: "−330…−270 ppm/K", "≤ 100 ppm/K"."""
+    lo, hi = window
+    if lo.is_infinite():
+        return f"≤ {fmt(hi)} ppm/K"
+    if hi.is_infinite():
+        return f"≥ {fmt(lo)} ppm/K"
+    return f"{fmt(lo)}…{fmt(hi)} ppm/K"
+
+
+def check_single(part: Stocked, req: Requirement) -> Verdict:
+    """Every constraint a single part must meet, in the order an explanation reports them."""
+    reasons: list[str] = []
+    word = None
+    m = part.marking
+    for check in (check_value, check_tempco):
+        verdict = check(m, req)
+        if not verdict.ok:
+            return verdict
+        reasons.extend(verdict.reasons)
+    verdict = check_part(m, req, working_v=req.working_v)
+    if not verdict.ok:
+        return verdict
+    reasons.extend(verdict.reasons)
+    word = verdict.grade
+    available = part.available
+    if available < req.qty:
+        return Verdict(False, (f"{available} available, {req.qty} needed",), "quantity")
+    reasons.append(f"{available} available" + (f" ({part.reserved} reserved)" if part.reserved else ""))
+    return Verdict(True, tuple(reasons), None, word)
+
+
+def build_requirement(*, value: str, tol: str | None = None, tempco: str | None = None,
+                      max_tempco: str | None = None, volts: str | None = None, use: str | None = None,
+                      allow_marginal: bool = False, temp: str | None = None, family: str | None = None,
+                      safety: str | None = None, qty: int = 1) -> Requirement:
+    """A requirement from the words a user typed (``stock find`` options), each checked.
+
+    ``tempco`` given as a code (C0G, N750) also asks for that dielectric or its equivalent.
+
+    Raises:
+        BadValue: an option that does not read, naming it and what it accepts.
+
+    >>> build_requirement(value="150p", tol="5%", tempco="C0G", volts="50", use="tuned").describe()
+    '150 pF ±5 %, C0G, 0±30 ppm/K, ≥ 50 V, fit for tuned'
+    """
+    from stock.markings.families import decode_family
+    from stock.units import parse_capacitance, parse_percent, parse_temperature_range, parse_voltage
+    window = parse_tempco_window(tempco) if tempco else (None, None)
+    code = None
+    if tempco and not (_WINDOW.match(tempco) or _RANGE.match(tempco)):
+        code = tempco.strip()
+    fam = None
+    if family:
+        diel = decode_family(family) or decode_dielectric(family)
+        fam = diel.family if diel else family.strip().lower()
+    conditions = Conditions()
+    if temp:
+        low, high = parse_temperature_range(temp, "--temp")
+        conditions = replace(conditions, temp_min_c=low, temp_max_c=high)
+    if volts:
+        conditions = replace(conditions, working_v=parse_voltage(volts, "--volts"))
+    max_abs = None
+    if max_tempco:
+        try:
+            max_abs = abs(_dec(max_tempco.strip().removesuffix("ppm/K").removesuffix("ppm").strip()))
+        except InvalidOperation:
+            raise BadValue("--max-tempco", max_tempco, "a magnitude in ppm/K such as 100") from None
+    return Requirement(
+        capacitance_pf=parse_capacitance(value, "--value"),
+        tol_pct=parse_percent(tol, "--tol") if tol else None,
+        tempco_min=window[0], tempco_max=window[1], max_abs_tempco=max_abs,
+        working_v=conditions.working_v, application=use.strip().lower() if use else None,
+        allow_marginal=allow_marginal, conditions=replace(conditions, working_v=None),
+        family=fam, dielectric_code=code,
+        safety_class=safety.strip().upper() if safety else None, qty=qty)
+
+
+__all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION", "SAFETY_SUBSTITUTES",
+           "Requirement", "Stocked", "Verdict", "build_requirement", "check_part", "check_single",
+           "check_tempco", "check_value", "parse_tempco_window", "safety_classes", "safety_covers",
+           "tolerance_pct", "window_text"]

@@ -1,0 +1,523 @@
+"""Find parts on hand for a requirement: single parts first, then parallel and series pairs.
+
+:func:`find` answers a :class:`~stock.requirement.Requirement` (re-exported here) with the single
+parts that meet every constraint (:class:`Match`), optionally the two-part combinations that do
+(:class:`Combination`), and, when nothing does, which constraint ruled out the nearest parts and the
+preferred value (IEC 60063) to buy. What "meets" means is set out in :mod:`stock.requirement`.
+
+Singles: an indexed SQL pre-filter (capacitance window, family, safety class, voltage, tolerance
+and tempco bands, quantity), then every row is checked exactly. Pairs are searched without an O(n²)
+scan (:class:`stock.combining.PairIndex`): the parts are sorted by value, grouped by tempco when a
+window is asked for, and for each anchor part the complement (parallel C₂ = T − C₁, series
+C₂ = C₁·T / (C₁ − T)) is looked up by bisection inside the interval that keeps the pair's value and
+net tempco in bounds. That pass runs in floats with a small margin; every pair it proposes is then
+re-checked exactly (``Decimal``) by :func:`check_pair` before it is returned.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, replace
+from decimal import Decimal
+from typing import Any
+from weakref import WeakKeyDictionary
+
+from stock.physics import combining
+from stock.inventory.bins import part_marking, stored_marking
+from stock.decoded import Marking
+from stock.errors import BadValue
+from stock.markings.preferred_values import nearest, series_for_tolerance
+from stock.matching.requirement import (DEFAULT_BUY_TOL_PCT, NOMINAL_MATCH_PCT, SAFETY_CAUTION, SAFETY_SUBSTITUTES,
+                               Requirement, Stocked, Verdict, build_requirement, check_part,
+                               check_single, check_tempco, check_value, fmt, parse_tempco_window,
+                               safety_classes, safety_covers, tolerance_pct, window_text)
+from stock.store.database import Store
+from stock.units import format_capacitance
+
+_HUNDRED = Decimal(100)
+_GRADE_RANK = {"fit": 0, "marginal": 1, None: 2}
+
+@dataclass(frozen=True)
+class Match:
+    """One bin whose part meets the requirement on its own."""
+
+    bin_id: int
+    bin_key: str
+    location: str | None
+    marking: str
+    capacitance_pf: Decimal
+    available: int
+    grade: str | None               # "fit"/"marginal" for the application; None when none was named
+    reasons: tuple[str, ...]        # why it qualifies
+    decoded: Marking | None = None  # the part's full marking (polarity, class ...) for callers
+    value_error_pct: Decimal = Decimal(0)
+
+    def to_json(self) -> dict[str, Any]:
+        return {"bin": self.bin_key, "location": self.location, "marking": self.marking,
+                "capacitance_pf": float(self.capacitance_pf), "available": self.available,
+                "grade": self.grade, "reasons": list(self.reasons)}
+
+
+@dataclass(frozen=True)
+class PairPart:
+    """One bin's share of a combination: ``count`` parts of ``capacitance_pf`` each."""
+
+    bin_id: int
+    bin_key: str
+    capacitance_pf: Decimal
+    count: int
+
+    def to_json(self) -> dict[str, Any]:
+        return {"bin": self.bin_key, "capacitance_pf": float(self.capacitance_pf), "count": self.count}
+
+
+@dataclass(frozen=True)
+class Combination:
+    """Two parts wired in parallel or series that together meet the requirement.
+
+    ``worst_case_pct`` is the largest deviation of the delivered value from the *requested* value
+    when both parts sit anywhere in their marked tolerances (None when a tolerance is not marked);
+    ``voltage_v`` is the highest voltage the pair stands with neither part over its rating.
+    """
+
+    kind: str
+    parts: tuple[PairPart, ...]
+    capacitance_pf: Decimal
+    tempco_ppm_per_k: Decimal | None
+    worst_case_pct: Decimal | None
+    voltage_v: Decimal | None
+    reasons: tuple[str, ...]
+    grade: str | None = None
+    value_error_pct: Decimal = Decimal(0)
+
+    def to_json(self) -> dict[str, Any]:
+        def f(v: Decimal | None) -> float | None:
+            return None if v is None else float(v)
+        return {"kind": self.kind, "parts": [p.to_json() for p in self.parts],
+                "capacitance_pf": float(self.capacitance_pf),
+                "tempco_ppm_per_k": f(self.tempco_ppm_per_k), "worst_case_pct": f(self.worst_case_pct),
+                "voltage_v": f(self.voltage_v), "grade": self.grade, "reasons": list(self.reasons)}
+
+
+@dataclass(frozen=True)
+class FindResult:
+    """The answer to one requirement."""
+
+    requirement: Requirement
+    matches: tuple[Match, ...]
+    combinations: tuple[Combination, ...]
+    explanation: tuple[str, ...]
+    suggestion: str | None
+    cautions: tuple[str, ...] = ()
+
+    def to_json(self) -> dict[str, Any]:
+        """The ``stock find --json`` shape (stable contract)."""
+        return {"requirement": self.requirement.to_json(),
+                "matches": [m.to_json() for m in self.matches],
+                "combinations": [c.to_json() for c in self.combinations],
+                "explanation": list(self.explanation), "suggestion": self.suggestion,
+                "cautions": list(self.cautions)}
+
+
+_SELECT = (
+    "SELECT b.id AS bin_id, b.bin_key, b.location, b.on_hand, p.decoded_json, p.settled_json,"
+    " p.capacitance_pf, p.tol_minus, p.tol_plus, p.tol_unit, p.tempco_ppm_per_k,"
+    " p.tempco_tol_ppm_per_k, p.voltage_v,"
+    " (SELECT COALESCE(SUM(r.qty), 0) FROM reservations r JOIN plans pl ON pl.id = r.plan_id"
+    "  WHERE r.bin_id = b.id AND pl.status = 'reserved') AS reserved"
+    " FROM parts p JOIN bins b ON b.id = p.bin_id")
+
+
+def _stocked(row: dict[str, Any]) -> Stocked:
+    return Stocked(row["bin_id"], row["bin_key"], row["location"], row["on_hand"], int(row["reserved"]),
+                   part_marking(row))
+
+
+_TIGHT = 1e-9  # relative slack on SQL pre-filters: floats there, exact checks after
+
+
+def _where(req: Requirement, lo: float | None, hi: float | None, *, strict: bool,
+           single: bool) -> tuple[list[str], list[Any]]:
+    """SQL conditions every qualifying part meets (necessary, never sufficient: exact checks follow).
+
+    ``strict`` adds the per-part filters; ``single`` also the ones only a lone part must meet (its
+    whole tolerance band inside the value window, its α band inside the tempco window, its rating).
+    """
+    where, params = ["p.capacitance_pf IS NOT NULL"], []
+    if lo is not None:
+        where.append("p.capacitance_pf >= ?")
+        params.append(lo * (1 - _TIGHT))
+    if hi is not None:
+        where.append("p.capacitance_pf <= ?")
+        params.append(hi * (1 + _TIGHT))
+    if not strict:
+        return where, params
+    if req.family:
+        where.append("p.family = ?")
+        params.append(req.family)
+    if req.needed_safety():
+        where.append("p.safety_class IS NOT NULL")
+    window = req.tempco_window()
+    if window is not None:
+        where.append("p.tempco_ppm_per_k IS NOT NULL")
+    if req.tol_pct is not None:
+        where.append("p.tol_minus IS NOT NULL AND p.tol_plus IS NOT NULL")
+    where.append("COALESCE(b.on_hand, 0) >= ?")
+    params.append(req.qty)
+    if single:
+        if req.tol_pct is not None and lo is not None and hi is not None:
+            where.append("((p.tol_unit = '%' AND p.capacitance_pf * (1 - p.tol_minus / 100.0) >= ?"
+                         " AND p.capacitance_pf * (1 + p.tol_plus / 100.0) <= ?) OR (p.tol_unit = 'pF'"
+                         " AND p.capacitance_pf - p.tol_minus >= ? AND p.capacitance_pf + p.tol_plus <= ?))")
+            band = [lo * (1 - _TIGHT), hi * (1 + _TIGHT)]
+            params.extend(band + band)
+        if window is not None:
+            if window[0].is_finite():
+                where.append("p.tempco_ppm_per_k - COALESCE(p.tempco_tol_ppm_per_k, 0) >= ?")
+                params.append(float(window[0]) - 1e-6)
+            if window[1].is_finite():
+                where.append("p.tempco_ppm_per_k + COALESCE(p.tempco_tol_ppm_per_k, 0) <= ?")
+                params.append(float(window[1]) + 1e-6)
+        if req.working_v is not None:
+            where.append("p.voltage_v >= ?")
+            params.append(float(req.working_v) * (1 - _TIGHT))
+    return where, params
+
+
+def _query(store: Store, req: Requirement, lo: float | None, hi: float | None, *,
+           strict: bool) -> list[dict[str, Any]]:
+    """Whole rows (with the decoded JSON) of the parts in a value range that may qualify alone."""
+    where, params = _where(req, lo, hi, strict=strict, single=True)
+    sql = f"SELECT * FROM ({_SELECT} WHERE {' AND '.join(where)})"
+    if strict:
+        sql += " WHERE COALESCE(on_hand, 0) - reserved >= ?"
+        params.append(req.qty)
+    return store.rows(sql, params)
+
+
+def _value_error(c: Decimal, target: Decimal) -> Decimal:
+    return abs(c - target) * _HUNDRED / target
+
+
+# The columns a single-part search needs, as plain tuples (no dict per row): bin, JSON, reserved.
+_CANDIDATE_SELECT = (
+    "SELECT b.id, b.bin_key, b.location, b.on_hand, p.decoded_json, p.settled_json,"
+    " (SELECT COALESCE(SUM(r.qty), 0) FROM reservations r JOIN plans pl ON pl.id = r.plan_id"
+    "  WHERE r.bin_id = b.id AND pl.status = 'reserved') AS reserved"
+    " FROM parts p JOIN bins b ON b.id = p.bin_id")
+
+
+def candidates(store: Store, req: Requirement) -> list[Match]:
+    """The single parts that meet the requirement, best first (value error, grade, spare, bin).
+
+    The SQL pre-filter takes the capacitance window and the indexed per-part filters; every row is
+    then checked exactly with :func:`check_single`.
+    """
+    lo, hi = req.value_window()
+    where, params = _where(req, float(lo), float(hi), strict=True, single=True)
+    sql = (f"SELECT * FROM ({_CANDIDATE_SELECT} WHERE {' AND '.join(where)})"
+           " WHERE COALESCE(on_hand, 0) - reserved >= ?")
+    target, qty = req.capacitance_pf, req.qty
+    found = []
+    for bin_id, bin_key, location, on_hand, decoded, settled, reserved in store.db.conn.execute(
+            sql, (*params, qty)):
+        part = Stocked(bin_id, bin_key, location, on_hand, int(reserved), stored_marking(decoded, settled))
+        verdict = check_single(part, req)
+        if verdict.ok:
+            c = part.marking.capacitance_pf
+            found.append(Match(bin_id, bin_key, location, part.marking.text, c, part.available,
+                               verdict.grade, verdict.reasons, part.marking, _value_error(c, target)))
+    found.sort(key=lambda m: (m.value_error_pct, _GRADE_RANK[m.grade], -(m.available - qty), m.bin_key))
+    return found
+
+
+# The pair index of each open store, rebuilt when the database changes: PRAGMA data_version moves
+# when another connection commits, total_changes when this one writes. Kit planning asks for many
+# lines in a row, and the index costs a full read of the parts table.
+_POOLS: WeakKeyDictionary[Store, tuple[tuple[int, int], list[tuple[Any, ...]], dict[Any, combining.PairIndex]]]
+_POOLS = WeakKeyDictionary()
+_POOL_SQL = (
+    "SELECT p.capacitance_pf, p.bin_id,"
+    " CASE WHEN p.tol_unit = 'pF' THEN p.tol_minus * 100.0 / p.capacitance_pf ELSE p.tol_minus END,"
+    " CASE WHEN p.tol_unit = 'pF' THEN p.tol_plus * 100.0 / p.capacitance_pf ELSE p.tol_plus END,"
+    " p.tempco_ppm_per_k, COALESCE(p.tempco_tol_ppm_per_k, 0.0), p.voltage_v,"
+    " COALESCE(b.on_hand, 0) - COALESCE(rv.n, 0), p.family, p.safety_class IS NOT NULL"
+    " FROM parts p JOIN bins b ON b.id = p.bin_id LEFT JOIN (SELECT r.bin_id, SUM(r.qty) AS n"
+    "  FROM reservations r JOIN plans pl ON pl.id = r.plan_id WHERE pl.status = 'reserved'"
+    "  GROUP BY r.bin_id) rv ON rv.bin_id = p.bin_id"
+    " WHERE p.capacitance_pf > 0 AND COALESCE(b.on_hand, 0) - COALESCE(rv.n, 0) > 0"
+    " ORDER BY p.capacitance_pf, p.bin_id")
+
+
+def _pool_rows(store: Store) -> tuple[list[tuple[Any, ...]], dict[Any, combining.PairIndex]]:
+    """Every available part's lean columns, by value, cached until the database changes."""
+    conn = store.db.conn
+    version = (conn.execute("PRAGMA data_version").fetchone()[0], conn.total_changes)
+    cached = _POOLS.get(store)
+    if cached is None or cached[0] != version:
+        cached = (version, conn.execute(_POOL_SQL).fetchall(), {})
+        _POOLS[store] = cached
+    return cached[1], cached[2]
+
+
+class _PairSearch:
+    """Pairs for one requirement: a float index first, then exact checks (cached per part and voltage)."""
+
+    def __init__(self, store: Store, req: Requirement):
+        self.req = req
+        self.store = store
+        self.parts: dict[int, Stocked] = {}
+        self.verdicts: dict[tuple[int, Decimal | None], Verdict] = {}
+        self.nearest_rejected: tuple[float, str] | None = None  # (value error %, why), for explanations
+        self.index = self._index()
+
+    def _index(self) -> combining.PairIndex:
+        req = self.req
+        signature = (req.family, req.needed_safety() is not None, req.qty)
+        rows, indexes = _pool_rows(self.store)
+        if signature not in indexes:
+            qty, family, safety = req.qty, req.family, req.needed_safety() is not None
+            indexes[signature] = combining.PairIndex(
+                (c, bin_id, t_minus, t_plus, alpha, alpha_tol, volts, available >= 2 * qty)
+                for c, bin_id, t_minus, t_plus, alpha, alpha_tol, volts, available, fam, has_safety in rows
+                if available >= qty and (family is None or fam == family) and (has_safety or not safety))
+        return indexes[signature]
+
+    def part(self, bin_id: int) -> Stocked:
+        if bin_id not in self.parts:
+            self.parts[bin_id] = _stocked(self.store.one(f"{_SELECT} WHERE b.id = ?", (bin_id,)))
+        return self.parts[bin_id]
+
+    def verdict(self, part: Stocked, working_v: Decimal | None) -> Verdict:
+        key = (part.bin_id, working_v)
+        if key not in self.verdicts:
+            self.verdicts[key] = check_part(part.marking, self.req, working_v=working_v)
+        return self.verdicts[key]
+
+    def search(self, kind: str, limit: int) -> list[Combination]:
+        """Up to ``limit`` pairs of one kind, nearest the target first, each checked exactly."""
+        req = self.req
+        lo, hi = req.value_window()
+        window = req.tempco_window()
+        query = combining.PairQuery(
+            kind=kind, target=float(req.capacitance_pf), lo=float(lo), hi=float(hi),
+            worst_case=req.tol_pct is not None,
+            tempco_lo=float(window[0]) if window else -math.inf,
+            tempco_hi=float(window[1]) if window else math.inf,
+            working_v=float(req.working_v) if req.working_v is not None else None)
+        excluded: set[int] = set()
+        seen: set[tuple[int, int]] = set()
+        found: list[Combination] = []
+        want = limit * 2
+        while True:
+            proposals = self.index.nearest(query, want, per_part=limit, exclude=excluded)
+            for err, k1, k2 in proposals:
+                if len(found) >= limit:
+                    return found
+                if (k1, k2) in seen or k1 in excluded or k2 in excluded:
+                    continue
+                seen.add((k1, k2))
+                combo = check_pair(kind, self.part(k1), self.part(k2), req, verdict=self.verdict)
+                if isinstance(combo, Combination):
+                    found.append(combo)
+                    continue
+                if self.nearest_rejected is None or err < self.nearest_rejected[0]:
+                    self.nearest_rejected = (err, f"nearest pair {self._name(kind, k1, k2)}: "
+                                                  + "; ".join(combo.reasons[:2]))
+                for k in (k1, k2):  # a part that fails on its own at full voltage never pairs
+                    if not self.verdict(self.part(k), None if kind == "series" else req.working_v).ok:
+                        excluded.add(k)
+            if len(found) >= limit or len(proposals) < want or want >= 64 * limit:
+                return found
+            want *= 4
+
+    def _name(self, kind: str, k1: int, k2: int) -> str:
+        a, b = self.part(k1), self.part(k2)
+        joint = " ∥ " if kind == "parallel" else " in series with "
+        return (f"{format_capacitance(a.marking.capacitance_pf)} ({a.bin_key}){joint}"
+                f"{format_capacitance(b.marking.capacitance_pf)} ({b.bin_key})")
+
+
+def check_pair(kind: str, a: Stocked, b: Stocked, req: Requirement, *,
+               verdict: Any = None) -> Combination | Verdict:
+    """Check a pair exactly against every constraint; a :class:`Combination` if it meets them all.
+
+    ``verdict(part, working_v)`` may be given to reuse per-part checks; by default
+    :func:`check_part` runs afresh.
+    """
+    judge = verdict or (lambda part, v: check_part(part.marking, req, working_v=v))
+    c1, c2 = a.marking.capacitance_pf, b.marking.capacitance_pf
+    if c1 is None or c2 is None or c1 <= 0 or c2 <= 0:
+        return Verdict(False, ("value not decoded",), "value")
+    if (c1, a.bin_key) > (c2, b.bin_key):  # smaller part first, in reasons and in the JSON
+        a, b, c1, c2 = b, a, c2, c1
+    same = a.bin_id == b.bin_id
+    if same and a.available < 2 * req.qty:
+        return Verdict(False, (f"bin {a.bin_key} holds {a.available} available, {2 * req.qty} needed",),
+                       "quantity")
+    if not same and (a.available < req.qty or b.available < req.qty):
+        return Verdict(False, ("not enough available",), "quantity")
+    symbol = " ∥ " if kind == "parallel" else " in series with "
+    value = combining.pair_value(kind, c1, c2)  # type: ignore[arg-type]
+    lo, hi = req.value_window()
+    reasons = [f"{format_capacitance(c1)}{symbol}{format_capacitance(c2)} = {format_capacitance(value)}"
+               + (" (C₁ + C₂)" if kind == "parallel" else " (C₁·C₂ / (C₁ + C₂))")]
+    tol1, tol2 = tolerance_pct(a.marking), tolerance_pct(b.marking)
+    worst = None
+    if tol1 is not None and tol2 is not None:
+        p_lo, p_hi = combining.pair_bounds(kind, combining.band(c1, *tol1), combining.band(c2, *tol2))  # type: ignore[arg-type]
+        worst = combining.worst_deviation_pct(req.capacitance_pf, p_lo, p_hi)
+    if req.tol_pct is not None:
+        if tol1 is None or tol2 is None:
+            return Verdict(False, ("a part's tolerance is not marked",), "tolerance")
+        if p_lo < lo or p_hi > hi:
+            return Verdict(False, (f"the pair may deliver {format_capacitance(p_lo)}…{format_capacitance(p_hi)}",),
+                           "tolerance")
+        reasons.append(f"worst case {format_capacitance(p_lo)}…{format_capacitance(p_hi)}, "
+                       f"within ±{fmt(req.tol_pct)} %")
+    elif not lo <= value <= hi:
+        return Verdict(False, (f"{format_capacitance(value)} is not {format_capacitance(req.capacitance_pf)}",),
+                       "value")
+    d1, d2 = a.marking.dielectric, b.marking.dielectric
+    a1 = d1.tempco_ppm_per_k if d1 else None
+    a2 = d2.tempco_ppm_per_k if d2 else None
+    net = combining.pair_tempco(kind, c1, a1, c2, a2) if a1 is not None and a2 is not None else None  # type: ignore[arg-type]
+    window = req.tempco_window()
+    if window is not None:
+        if net is None:
+            return Verdict(False, ("a part has no linear tempco",), "tempco")
+        t1 = (d1.tempco_tol_ppm_per_k or Decimal(0)) if d1 else Decimal(0)
+        t2 = (d2.tempco_tol_ppm_per_k or Decimal(0)) if d2 else Decimal(0)
+        spread = combining.pair_tempco_spread(kind, c1, t1, c2, t2)  # type: ignore[arg-type]
+        if net - spread < window[0] or net + spread > window[1]:
+            return Verdict(False, (f"net tempco {fmt(net)}±{fmt(spread)} ppm/K outside {window_text(window)}",),
+                           "tempco")
+        weights = (f"{fmt(c1)}·{fmt(a1)} + {fmt(c2)}·{fmt(a2)}" if kind == "parallel"
+                   else f"{fmt(c2)}·{fmt(a1)} + {fmt(c1)}·{fmt(a2)}")
+        mix = f"{d1.code} with {d2.code}: " if d1.code != d2.code else ""
+        reasons.append(f"{mix}net tempco ({weights}) / {fmt(c1 + c2)} = {fmt(net)}±{fmt(spread)} ppm/K, "
+                       f"within {window_text(window)}")
+    v1 = v2 = req.working_v
+    if req.working_v is not None and kind == "series":
+        v1, v2 = combining.series_voltage_split(req.working_v, c1, c2)  # type: ignore[arg-type]
+        reasons.append(f"{fmt(req.working_v)} V splits {fmt(v1)} V across {a.bin_key}, "
+                       f"{fmt(v2)} V across {b.bin_key} (V₁ = V·C₂ / (C₁ + C₂))")
+    words = []
+    for part, v in ((a, v1), (b, v2)) if not same else ((a, v1),):
+        checked = judge(part, v)
+        if not checked.ok:
+            return Verdict(False, tuple(f"{part.bin_key}: {r}" for r in checked.reasons), checked.failed,
+                           checked.grade)
+        reasons.extend(f"{part.bin_key}: {r}" for r in checked.reasons)
+        words.append(checked.grade)
+    rating = None
+    if a.marking.voltage_v is not None and b.marking.voltage_v is not None:
+        rating = combining.pair_voltage_rating(kind, c1, a.marking.voltage_v, c2, b.marking.voltage_v)  # type: ignore[arg-type]
+    if same:
+        parts = (PairPart(a.bin_id, a.bin_key, c1, 2 * req.qty),)
+    else:
+        parts = (PairPart(a.bin_id, a.bin_key, c1, req.qty), PairPart(b.bin_id, b.bin_key, c2, req.qty))
+    word = max(words, key=lambda w: _GRADE_RANK[w]) if req.application else None
+    return Combination(kind, parts, value, net, worst, rating, tuple(reasons), word,
+                       _value_error(value, req.capacitance_pf))
+
+
+def _explain(store: Store, req: Requirement, pairs: _PairSearch | None) -> tuple[str, ...]:
+    """Which constraints ruled out the parts nearest in value (grouped by value, then by cause)."""
+    target = req.capacitance_pf
+    rows = _query(store, req, float(target) / 2, float(target) * 2, strict=False)
+    if not rows:
+        return (f"no part between {format_capacitance(target / 2)} and {format_capacitance(target * 2)} "
+                "is in stock",)
+    rows.sort(key=lambda r: (max(r["capacitance_pf"] / float(target), float(target) / r["capacitance_pf"]),
+                             r["bin_key"]))
+    groups: dict[Decimal, list[tuple[Stocked, Verdict]]] = {}
+    for row in rows:
+        part = _stocked(row)
+        c = part.marking.capacitance_pf
+        if c is None:
+            continue
+        if c not in groups and len(groups) >= 3:
+            break
+        groups.setdefault(c, []).append((part, check_single(part, req)))
+    lines = []
+    for c, checked in groups.items():
+        causes: dict[str, list[tuple[Stocked, Verdict]]] = {}
+        for part, verdict in checked:
+            causes.setdefault(verdict.failed or "none", []).append((part, verdict))
+        for cause, members in causes.items():
+            n = len(members)
+            codes = sorted({p.marking.dielectric.code if p.marking.dielectric else "dielectric not marked"
+                            for p, _ in members})
+            what = (f"all {codes[0]}" if len(codes) == 1 and n > 1 else ", ".join(codes))
+            if cause == "none":
+                lines.append(f"{n} part{'s' if n > 1 else ''} at {format_capacitance(c)} ({what}) would do")
+                continue
+            reason = members[0][1].reasons[0] if members[0][1].reasons else cause
+            bins = ", ".join(p.bin_key for p, _ in members[:5]) + (" …" if n > 5 else "")
+            lines.append(f"{n} part{'s' if n > 1 else ''} at {format_capacitance(c)}, {what} "
+                         f"(bin{'s' if n > 1 else ''} {bins}): {reason}")
+    if pairs is not None:
+        if pairs.nearest_rejected is not None:
+            lines.append(pairs.nearest_rejected[1])
+        else:
+            lo, hi = req.value_window()
+            lines.append(f"no two parts on hand make {format_capacitance(lo)}…{format_capacitance(hi)} in "
+                         "parallel or series while meeting the per-part constraints"
+                         + (" and the tempco window" if req.tempco_window() else ""))
+    return tuple(lines)
+
+
+def _suggestion(req: Requirement) -> str:
+    tol = req.tol_pct if req.tol_pct is not None else DEFAULT_BUY_TOL_PCT
+    name = series_for_tolerance(tol)
+    value = nearest(req.capacitance_pf, name)
+    buy = replace(req, capacitance_pf=value)
+    note = "" if value == req.capacitance_pf else f" (the {name} value nearest {format_capacitance(req.capacitance_pf)})"
+    return f"buy {buy.describe()}{note}"
+
+
+def _cautions(req: Requirement, matches: tuple[Match, ...]) -> tuple[str, ...]:
+    out = []
+    if req.is_mains():
+        out.append(SAFETY_CAUTION)
+    if req.working_v is not None and req.working_v > 50:
+        out.append("Above 50 V a capacitor can hold a dangerous charge: discharge it before handling.")
+    if any(m.decoded is not None and m.decoded.polarity for m in matches):
+        out.append("Polarised parts among these: fit them the way the band marks (check the family's convention).")
+    return tuple(out)
+
+
+def find(store: Store, req: Requirement, *, combine: bool = False, limit: int = 10) -> FindResult:
+    """Single parts, and with ``combine`` parallel/series pairs, that meet the requirement.
+
+    When nothing is found, :attr:`FindResult.explanation` says which constraint ruled out the parts
+    nearest in value, and :attr:`FindResult.suggestion` names the preferred (IEC 60063) value to buy.
+
+    Raises:
+        BadValue: ``limit`` is below 1.
+    """
+    if limit < 1:
+        raise BadValue("--limit", str(limit), "a number of results of 1 or more")
+    matches = tuple(candidates(store, req)[:limit])
+    combos: list[Combination] = []
+    search = None
+    if combine:
+        search = _PairSearch(store, req)
+        for kind in combining.PAIR_KINDS:
+            combos.extend(search.search(kind, limit))
+        combos.sort(key=lambda c: (c.value_error_pct, _GRADE_RANK[c.grade], len(c.parts),
+                                   c.kind, tuple(p.bin_key for p in c.parts)))
+    combos = combos[:limit]
+    explanation: tuple[str, ...] = ()
+    suggestion = None
+    if not matches and not combos:
+        explanation = _explain(store, req, search)
+        suggestion = _suggestion(req)
+    return FindResult(req, matches, tuple(combos), explanation, suggestion, _cautions(req, matches))
+
+
+__all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION", "SAFETY_SUBSTITUTES",
+           "Combination", "FindResult", "Match", "PairPart", "Requirement", "Stocked", "Verdict",
+           "build_requirement", "candidates", "check_pair", "check_part", "check_single", "check_tempco",
+           "check_value", "find", "parse_tempco_window", "safety_classes", "safety_covers"]
