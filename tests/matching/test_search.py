@@ -397,15 +397,34 @@ def _in_window(alpha_lo: Decimal, alpha_hi: Decimal, r: Requirement) -> bool:
     return r.tempco_min is None or (alpha_lo >= r.tempco_min and alpha_hi <= r.tempco_max)
 
 
+# The tempco tolerance a part carries when none is marked: an old-name N750 is sold as EIA-198
+# U2J, J = ±120 ppm/K (docs/sources.md: [EIA-198], [parameters-page]). Typed here, not read
+# from the code.
+USUAL_TEMPCO_TOLERANCE = {"N750": D(120)}
+
+
+def _tempco_tolerance(d: Dielectric, unmarked_at_usual: bool) -> Decimal | None:
+    """The ± ppm/K to judge a part by; None when it is not marked and not to be assumed."""
+    if d.tempco_tol_ppm_per_k is not None:
+        return d.tempco_tol_ppm_per_k
+    return USUAL_TEMPCO_TOLERANCE[d.code] if unmarked_at_usual else None
+
+
+@pytest.mark.parametrize("unmarked_at_usual", [
+    pytest.param(False, id="unmarked-judged-on-nominal"),
+    pytest.param(True, id="unmarked-at-usual-tolerance", marks=pytest.mark.xfail(
+        strict=False, reason="pairs count an unmarked tempco tolerance as 0 until the search uses the "
+                             "part's usual tolerance (N750 ±120 ppm/K)")),
+])
 @settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(parts=st.lists(stored_part, min_size=1, max_size=14), wanted=requirement, data=st.data())
-def test_every_result_meets_every_constraint_when_rechecked(parts, wanted, data):
+def test_every_result_meets_every_constraint_when_rechecked(unmarked_at_usual, parts, wanted, data):
     # a fresh store per example: the ledger is append-only, so a shared one cannot be emptied
     with open_store(":memory:") as store:
-        _check_every_result(store, parts, wanted, data)
+        _check_every_result(store, parts, wanted, data, unmarked_at_usual)
 
 
-def _check_every_result(store: Store, parts, wanted, data) -> None:
+def _check_every_result(store: Store, parts, wanted, data, unmarked_at_usual: bool) -> None:
     stock: dict[str, tuple[Marking, int]] = {}
     for i, p in enumerate(parts):
         m = part(f"p{i}", p["pf"], tol=p["tol"], volts=p["volts"], code=p["code"], safety=p["safety"])
@@ -434,8 +453,13 @@ def _check_every_result(store: Store, parts, wanted, data) -> None:
         if window:
             d = m.dielectric
             assert d is not None and d.tempco_ppm_per_k is not None
-            spread = d.tempco_tol_ppm_per_k or 0
-            assert _in_window(d.tempco_ppm_per_k - spread, d.tempco_ppm_per_k + spread, r)
+            # a single part with no marked tolerance on α is judged on its nominal, and says so
+            spread = _tempco_tolerance(d, unmarked_at_usual=False)
+            if spread is None:
+                assert _in_window(d.tempco_ppm_per_k, d.tempco_ppm_per_k, r)
+                assert any("nominal judged" in reason for reason in match.reasons), match.reasons
+            else:
+                assert _in_window(d.tempco_ppm_per_k - spread, d.tempco_ppm_per_k + spread, r)
         assert _part_ok(m, r, r.working_v)
 
     for combo in result.combinations:
@@ -470,6 +494,10 @@ def _check_every_result(store: Store, parts, wanted, data) -> None:
         if window:
             d1, d2 = m1.dielectric, m2.dielectric
             net = (w1 * d1.tempco_ppm_per_k + w2 * d2.tempco_ppm_per_k) / (w1 + w2)
-            spread = (w1 * (d1.tempco_tol_ppm_per_k or 0) + w2 * (d2.tempco_tol_ppm_per_k or 0)) / (w1 + w2)
-            assert _in_window(net - spread, net + spread, r)
+            t1, t2 = _tempco_tolerance(d1, unmarked_at_usual), _tempco_tolerance(d2, unmarked_at_usual)
+            if t1 is not None and t2 is not None:
+                spread = (w1 * t1 + w2 * t2) / (w1 + w2)      # the same weights as the tempco
+                assert _in_window(net - spread, net + spread, r)
+            else:                                        # an unmarked part: its nominal at least
+                assert _in_window(net, net, r)
         assert _part_ok(m1, r, v1) and _part_ok(m2, r, v2)
