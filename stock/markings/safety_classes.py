@@ -24,14 +24,14 @@ from decimal import Decimal
 
 @dataclass(frozen=True)
 class SubclassFacts:
-    """What one subclass is for, per IEC 60384-14 as summarised in the reference (§7)."""
+    """What one subclass is for, per IEC 60384-14 as summarised in the reference ([IEC 60384-14])."""
 
     use: str
     impulse_kv: Decimal | None     # peak impulse test voltage, C ≤ 1 µF; None = no impulse test
     typical_rating: str
 
 
-# IEC 60384-14, via the capacitor-codes reference §7 (impulse figures confirmed by two pages;
+# IEC 60384-14, via docs/sources.md: [IEC 60384-14] (impulse figures confirmed by two pages;
 # the typical ratings and "no test" for X3 are from memory).
 SUBCLASSES: dict[str, SubclassFacts] = {
     "X1": SubclassFacts("line to line, peak pulses > 2.5 kV and ≤ 4 kV", Decimal(4), "up to about 760 V AC"),

@@ -36,7 +36,8 @@ REFERENCE_C = Decimal(25)     # the reference temperature of every tempco and wi
 HOURS_PER_YEAR = Decimal("8766")  # 365.25 days × 24 h
 
 # Class 2 tolerances are stated at a referee time of 1000 h after the last heating (soldering
-# resets the clock): from memory of EIA-521 / IEC 60384-9 ageing annex practice (S38 describes
+# resets the clock): from memory of EIA-521 / IEC 60384-9 ageing annex practice ([ageing-maker-notes]
+# describes
 # the logarithmic law and de-ageing). Ageing before that time is inside the tolerance.
 AGEING_REFERENCE_HOURS = Decimal(1000)
 
@@ -66,34 +67,37 @@ def _d(text: str) -> Decimal:
     return Decimal(text)
 
 
-# Typical temperature figures per family. Sources are the keys of the shared reference's list
-# (capacitor-codes.md §8a): S32 = WIMA film comparison table, S33 polystyrene article, S34 silver
-# mica overview, S68 film capacitor text.
+# Typical temperature figures per family. Sources are the keys's list
+# (docs/sources.md: dielectric pages ([film-dielectrics-table] and others)): [film-dielectrics-table] = a film
+# maker's comparison table, [polystyrene-article] polystyrene article, [silver-mica-overview] silver
+# mica overview, [film-capacitor-text] film capacitor text.
 FAMILY_DRIFT: dict[str, FamilyDrift] = {
-    # S33 gives −125 ppm/K, memory −100…−200: −150 ± 50 covers both; max +85 °C (S70)
+    # [polystyrene-article] gives −125 ppm/K, memory −100…−200: −150 ± 50 covers both; max +85 °C
+    # ([polystyrene-white-paper])
     "polystyrene": FamilyDrift("polystyrene", _d("-40"), _d("85"), _d("-150"), _d("50"),
                                source="S33 (−125 ppm/K) and memory (−100…−200 ppm/K)"),
-    # linear negative (S68); −200 ± 100 ppm/K from memory; S32 says ±2.5 % over −55…+105 °C
+    # linear negative ([film-capacitor-text]); −200 ± 100 ppm/K from memory; [film-dielectrics-table] says
+    # ±2.5 % over −55…+105 °C
     "polypropylene": FamilyDrift("polypropylene", _d("-55"), _d("105"), _d("-200"), _d("100"),
                                  source="S68 (linear, negative); α from memory"),
-    # S32: ±5 % over −55…+125 °C; positive and only roughly linear (memory)
+    # [film-dielectrics-table]: ±5 % over −55…+125 °C; positive and only roughly linear (memory)
     "polyester": FamilyDrift("polyester", _d("-55"), _d("125"), change_minus_pct=_d("5"),
                              change_plus_pct=_d("5"), source="S32 (±5 % over range)"),
-    # S32: ±5 % over −55…+125 °C
+    # [film-dielectrics-table]: ±5 % over −55…+125 °C
     "polyethylene-naphthalate": FamilyDrift("polyethylene-naphthalate", _d("-55"), _d("125"),
                                             change_minus_pct=_d("5"), change_plus_pct=_d("5"),
                                             source="S32 (±5 % over range)"),
-    # S32: ±1.5 % over −55…+140 °C, very flat
+    # [film-dielectrics-table]: ±1.5 % over −55…+140 °C, very flat
     "polyphenylene-sulfide": FamilyDrift("polyphenylene-sulfide", _d("-55"), _d("140"),
                                          change_minus_pct=_d("1.5"), change_plus_pct=_d("1.5"),
                                          source="S32 (±1.5 % over −55…+140 °C)"),
     # from memory: small and flat, 0…+100 ppm/K, taken as 0 ± 100
     "polycarbonate": FamilyDrift("polycarbonate", _d("-55"), _d("125"), _d("0"), _d("100"),
                                  source="from memory (0…+100 ppm/K)"),
-    # S68: +1/−3 % over the range; range −55…+125 °C from memory
+    # [film-capacitor-text]: +1/−3 % over the range; range −55…+125 °C from memory
     "ptfe": FamilyDrift("ptfe", _d("-55"), _d("125"), change_minus_pct=_d("3"),
                         change_plus_pct=_d("1"), source="S68 (+1/−3 % over range)"),
-    # S34: +35…+75 ppm/K, about +50 on average: +55 ± 20 covers the span
+    # [silver-mica-overview]: +35…+75 ppm/K, about +50 on average: +55 ± 20 covers the span
     "mica": FamilyDrift("mica", _d("-55"), _d("125"), _d("55"), _d("20"),
                         source="S34 (+35…+75 ppm/K)"),
     # from memory: glass (CY) +140 ± 25 ppm/K
@@ -103,7 +107,7 @@ FAMILY_DRIFT: dict[str, FamilyDrift] = {
     "paper": FamilyDrift("paper", _d("-40"), _d("85"), change_minus_pct=_d("10"),
                          change_plus_pct=_d("10"), linear=False,
                          source="common practice, no published source"),
-    # S32: ±10 % over −55…+125 °C, roughly linear and positive
+    # [film-dielectrics-table]: ±10 % over −55…+125 °C, roughly linear and positive
     "tantalum": FamilyDrift("tantalum", _d("-55"), _d("125"), change_minus_pct=_d("10"),
                             change_plus_pct=_d("10"), source="S32 (±10 % over −55…+125 °C)"),
     # from memory: similar to MnO2, ±10…20 %; the wider figure taken
@@ -153,7 +157,8 @@ def temperature_figures(dielectric) -> FamilyDrift | None:
 def assumed_tempco_tol(alpha: Decimal) -> Decimal:
     """A tempco tolerance for an α given without one (an old name: NP0, N750, P100).
 
-    Capacitor-codes.md §1d: the old names map to α only. The widest tolerance customary for that α
+    docs/sources.md: [EIA-198] old names ([parameters-page], [latvian-codes]): the old names map to α only.
+    The widest tolerance customary for that α
     in EIA-198 codes is taken. Common practice, no published source.
 
     >>> assumed_tempco_tol(Decimal(0)), assumed_tempco_tol(Decimal(-750)), assumed_tempco_tol(Decimal(-1500))
@@ -163,31 +168,33 @@ def assumed_tempco_tol(alpha: Decimal) -> Decimal:
     return Decimal(60) if size <= 150 else Decimal(120) if size <= 750 else Decimal(250)
 
 
-# Class 2/3 ceramic ageing, % capacitance lost per decade of hours. S35 (RCD FAQ, maxima);
-# disagreements: S36 gives X7R ~2.5 %, X5R 5–7 %; S37 gives X7R 1–3 %. The S35 maxima are used.
+# Class 2/3 ceramic ageing, % capacitance lost per decade of hours. [ageing-faq] (a maker's FAQ, maxima);
+# disagreements: [mlcc-selection-article] gives X7R ~2.5 %, X5R 5–7 %; [ageing-blog] gives X7R 1–3 %. The
+# [ageing-faq] maxima are used.
 AGEING_PER_DECADE_PCT: dict[str, Decimal] = {
-    "X7R": Decimal("2"),    # S35
-    "X5R": Decimal("2.5"),  # S35
-    "Z5U": Decimal("7"),    # S35
-    "Y5V": Decimal("7"),    # S35
+    "X7R": Decimal("2"),    # [ageing-faq]
+    "X5R": Decimal("2.5"),  # [ageing-faq]
+    "Z5U": Decimal("7"),    # [ageing-faq]
+    "Y5V": Decimal("7"),    # [ageing-faq]
 }
 
 # By the EIA-198 change letter, for Class 2 codes not listed above: windows up to ±15 % age like
-# X5R, wider windows like the high-K Z5U/Y5V. From memory of maker ageing tables (S36, S37 ranges).
+# X5R, wider windows like the high-K Z5U/Y5V. From memory of maker ageing tables ([mlcc-selection-article],
+# [ageing-blog] ranges).
 AGEING_BY_CHANGE_LETTER_PCT: dict[str, Decimal] = {
     "A": Decimal("2.5"), "B": Decimal("2.5"), "C": Decimal("2.5"), "D": Decimal("2.5"),
     "E": Decimal("2.5"), "F": Decimal("2.5"), "P": Decimal("2.5"), "R": Decimal("2.5"),
     "L": Decimal("2.5"),
     "S": Decimal("5"),      # ±22 %: between the two groups (from memory)
     "T": Decimal("5"),      # +22/−33 % (from memory)
-    "U": Decimal("7"),      # +22/−56 % (as Z5U, S35)
-    "V": Decimal("7"),      # +22/−82 % (as Y5V, S35)
+    "U": Decimal("7"),      # +22/−56 % (as Z5U, [ageing-faq])
+    "V": Decimal("7"),      # +22/−82 % (as Y5V, [ageing-faq])
 }
 AGEING_UNKNOWN_CLASS2_PCT = Decimal("7")  # a Class 2 part of unknown code: the worst listed rate
 
 
 def ageing_rate_pct(code: str | None, klass: int | None) -> Decimal:
-    """% per decade-hour a ceramic loses with age; 0 for Class 1 (S35: C0G none).
+    """% per decade-hour a ceramic loses with age; 0 for Class 1 ([ageing-faq]: C0G none).
 
     >>> ageing_rate_pct("X7R", 2), ageing_rate_pct("X6S", 2), ageing_rate_pct("C0G", 1)
     (Decimal('2'), Decimal('5'), Decimal('0'))
@@ -224,14 +231,16 @@ def ageing_loss_pct(code: str | None, klass: int | None, years: Decimal) -> Deci
 
 
 # DC-bias loss of Class 2 MLCCs at the full rated voltage, by capacitance. A rough model, from the
-# spread in S41 (≤ 10 nF negligible at 2× margin; 10 µF 0805 loses 50 % at half rated), S42 (0603
-# 4.7 nF 100 V keeps 30–50 % at rated: low authority) and S72 (35–65 % loss at rated, general).
+# spread in [dc-bias-note] (≤ 10 nF negligible at 2× margin; 10 µF 0805 loses 50 % at half rated),
+# [dc-bias-article] (0603
+# 4.7 nF 100 V keeps 30–50 % at rated: low authority) and [effective-capacitance-tool] (35–65 % loss at rated,
+# general).
 # Common practice, no published source for the exact breakpoints. Case size is unknown from a
 # marking, so the figures lean to the small (worse) cases.
 DC_BIAS_LOSS_AT_RATED_PCT: tuple[tuple[Decimal, Decimal], ...] = (
     (Decimal(10_000), Decimal(20)),        # ≤ 10 nF
     (Decimal(1_000_000), Decimal(40)),     # ≤ 1 µF
-    (Decimal("Infinity"), Decimal(65)),    # larger: the top of S72's range
+    (Decimal("Infinity"), Decimal(65)),    # larger: the top of [effective-capacitance-tool]'s range
 )
 # High-K codes (change letters U, V: Z5U, Y5V) lose more: from memory, 70–90 % at rated.
 DC_BIAS_HIGH_K_AT_RATED_PCT = Decimal(80)
@@ -245,7 +254,8 @@ def dc_bias_loss_pct(code: str | None, capacitance_pf: Decimal | None, working_v
     """Approximate % of capacitance a Class 2 MLCC loses at a DC working voltage.
 
     loss = loss_at_rated × min(working / rated, 1). Linear is conservative at low bias against the
-    S41 data point (1206 10 µF keeps 93 % at half rated) and about right for small cases (0805 keeps
+    [dc-bias-note] data point (1206 10 µF keeps 93 % at half rated) and about right for small cases (0805
+    keeps
     50 %). See :data:`DC_BIAS_LIMITS`.
 
     >>> dc_bias_loss_pct("Y5V", Decimal(100000), Decimal(16), Decimal(16))
@@ -272,7 +282,8 @@ class Derating:
     source: str
 
 
-# Voltage derating per family (capacitor-codes.md §8d). Keys are FAMILIES, plus "ceramic-1" and
+# Voltage derating per family (docs/sources.md: derating pages ([tantalum-derating-qa], [polymer-derating-qa],
+# [dc-bias-note])). Keys are FAMILIES, plus "ceramic-1" and
 # "ceramic-2" for the ceramic classes.
 DERATING: dict[str, Derating] = {
     "tantalum": Derating(Decimal("0.5"), "MnO₂ tantalum at ≤ 50 % of rated up to 85 °C",
@@ -293,7 +304,7 @@ _DEFAULT_DERATING = Derating(Decimal("0.8"), "≤ 80 % of rated", "common practi
 
 
 def derating_for(family: str | None, klass: int | None, rated_v: Decimal | None = None) -> Derating:
-    """The derating rule for a family (polymer tantalum depends on the rated voltage: S40).
+    """The derating rule for a family (polymer tantalum depends on the rated voltage: [polymer-derating-qa]).
 
     >>> derating_for("tantalum-polymer", None, Decimal(6)).fraction
     Decimal('0.9')
@@ -301,7 +312,7 @@ def derating_for(family: str | None, klass: int | None, rated_v: Decimal | None 
     Decimal('0.8')
     """
     if family == "tantalum-polymer":
-        # S40: derate 10 % if rated ≤ 10 V, 20 % above, to 105 °C
+        # [polymer-derating-qa]: derate 10 % if rated ≤ 10 V, 20 % above, to 105 °C
         if rated_v is not None and rated_v <= 10:
             return Derating(Decimal("0.9"), "polymer tantalum rated ≤ 10 V at ≤ 90 % of rated", "S40")
         return Derating(Decimal("0.8"), "polymer tantalum rated > 10 V at ≤ 80 % of rated", "S40")
@@ -323,9 +334,9 @@ SHELF_LIFE: dict[str, str] = {
     "bipolar-electrolytic": "after years on the shelf, reform before use; leakage is high at first",
     # from memory: old paper capacitors absorb moisture and leak
     "paper": "old paper parts take up moisture and leak; check leakage at working voltage",
-    # S33: irreversible shift if heated past about 70 °C
+    # [polystyrene-article]: irreversible shift if heated past about 70 °C
     "polystyrene": "polystyrene shifts for good if heated past about 70 °C (soldering too)",
-    # S38: de-aged by heating above the Curie point
+    # [ageing-maker-notes]: de-aged by heating above the Curie point
     "ceramic-2": "soldering heat de-ages a Class 2 part: its value rises, then ages down again",
 }
 

@@ -1,4 +1,4 @@
-"""``python -m tests.bench [--quick] [--only NAMES] [--work DIR]``: run the benchmarks of issue 11.
+"""``python -m tests.bench [--quick] [--only NAMES] [--work DIR]``: run the benchmarks.
 
 Prints one JSON object per line. ``--quick`` uses small sizes (CI smoke run, well under a minute).
 """

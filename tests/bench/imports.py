@@ -1,5 +1,5 @@
 """Import benchmarks: CSV and XLSX end to end through :func:`stock.intake.import_file`, and the
-peak memory of a big import, each against a bare baseline (issue 11).
+peak memory of a big import, each against a bare baseline.
 
 Baselines (as measured in the shared library notes, table B1/B2): ``csv.reader`` plus one sqlite3
 ``executemany`` of the same rows into a table of the same width, in one transaction, WAL with

@@ -1,7 +1,7 @@
-"""`stock decode`: the JSON contract of issue 2 and the human line in engineering units.
+"""`stock decode`: the JSON contract and the human line in engineering units.
 
 Expected values come from IEC 60062 (value and tolerance codes), EIA-198 (X7R) and the voltage-code
-table (2A = 100 V) as reproduced in the capacitor-codes reference.
+table (2A = 100 V) as reproduced in docs/sources.md.
 """
 
 from __future__ import annotations
@@ -29,7 +29,7 @@ def run(*args: str):
 
 
 def check_shape(obj: dict) -> None:
-    """The JSON contract of issue 2, key by key and type by type."""
+    """The JSON contract, key by key and type by type."""
     assert TOP_KEYS <= set(obj)
     assert isinstance(obj["text"], str)
     for key in ("capacitance_pf", "voltage_v", "rated_temp_c"):

@@ -1,7 +1,8 @@
 """EIA-198 Class 1 and Class 2 ceramic codes, the old N/P names, IEC 60384-9 Class 2 letters.
 
-Sources: EIA-198 tables as reproduced in the capacitor-codes reference §1 and §2 (S1, S3, S4, S6,
-S7, S8 worked examples); IEC 60384-9 rows from memory, as the reference says.
+Sources: EIA-198 tables as reproduced in docs/sources.md: [EIA-198] Class 1 and [EIA-198] Class 2
+([parameters-page], [latvian-codes], [app-report-class2], [tolerance-blog],
+[barnes-2004], [newsgroup-c0g] worked examples); IEC 60384-9 rows from memory, as the reference says.
 """
 
 from __future__ import annotations
@@ -16,7 +17,8 @@ from stock.markings.ceramic_codes import (CLASS1_FIGURE, CLASS1_MULTIPLIER, CLAS
 
 D = Decimal
 
-# EIA-198 Class 1 worked examples: C0G (S1), U2J, P3K (S1, S3), R2G, M7H, C0H (S8), P2H (issue 2).
+# EIA-198 Class 1 worked examples: C0G ([parameters-page]), U2J, P3K ([parameters-page], [latvian-codes]),
+# R2G, M7H, C0H ([newsgroup-c0g]), P2H ([parameters-page]).
 CLASS1_CASES = [
     pytest.param("C0G", D(0), D(30), id="C0G-0pm30"),
     pytest.param("U2J", D(-750), D(120), id="U2J-minus750pm120"),
@@ -59,7 +61,8 @@ def test_every_class1_combination_decodes_as_figure_times_multiplier_with_its_to
         assert d.tempco_tol_ppm_per_k == EIA_CLASS1_TOLERANCE[tol], d.code
 
 
-# Reference §1b: digits 4, 5, 9 differ between sources (S1/S2/S3 vs S7).
+# docs/sources.md: [EIA-198] Class 1 multiplier digits: digits 4, 5, 9 differ between sources
+# ([parameters-page]/[forum-c0g]/[latvian-codes] vs [barnes-2004]).
 @pytest.mark.parametrize(("code", "chosen", "other"), [
     pytest.param("M4G", D(-10000), D(1), id="digit-4"),
     pytest.param("M5G", D(1), None, id="digit-5"),
@@ -73,7 +76,8 @@ def test_disputed_class1_digits_decode_with_a_flag(code, chosen, other):
     assert others == ([other] if other is not None else [])
 
 
-# EIA-198 Class 2: X7R (S4, S6), Z5U (S3, S6), Y5V, X5R, X8R (derived from the tables, §2).
+# EIA-198 Class 2: X7R ([app-report-class2], [tolerance-blog]), Z5U ([latvian-codes], [tolerance-blog]), Y5V,
+# X5R, X8R (derived from the tables, [EIA-198] Class 2).
 CLASS2_CASES = [
     pytest.param("X7R", D(-55), D(125), D(15), D(15), id="X7R"),
     pytest.param("Z5U", D(10), D(85), D(56), D(22), id="Z5U"),
@@ -113,14 +117,16 @@ def test_every_class2_combination_decodes_from_its_three_tables():
 
 
 def test_s_is_plus_minus_22_with_the_20_percent_reading_kept():
-    # S2, S3, S4, S6, S9: ±22 %; S5: ±20 %
+    # [forum-c0g], [latvian-codes], [app-report-class2], [tolerance-blog], [dielectric-codes-page]: ±22 %;
+    # [dielectrics-reference]: ±20 %
     reading = read_dielectric("X7S")
     assert reading.dielectric.change_plus_pct == 22
     assert reading.alternatives[0].dielectric.change_plus_pct == 20
     assert "disputed-code" in {f.kind for f in reading.flags}
 
 
-# Old industry names (§1d, S1, S3, S10): nominal α only, tolerance unknown except NP0 = C0G.
+# Old industry names ([EIA-198] old names ([parameters-page], [latvian-codes]), [parameters-page],
+# [latvian-codes], [ceramic-standards-note]): nominal α only, tolerance unknown except NP0 = C0G.
 OLD_NAME_CASES = [
     pytest.param("NP0", D(0), D(30), id="NP0"),
     pytest.param("P100", D(100), None, id="P100"),
@@ -155,7 +161,8 @@ def test_letter_o_spellings_decode_with_a_spelling_flag(spelling, canonical):
     assert [f.kind for f in reading.flags] == ["spelling-corrected"]
 
 
-# IEC 60384-9 Class 2 (from memory, reference §3a; "2R1" ↔ X7R range per S11).
+# IEC 60384-9 Class 2 (from memory, docs/sources.md: [IEC 60384-9] Class 2 codes; "2R1" ↔ X7R range per
+# [mlcc-datasheet-dielectrics]).
 def test_iec_2r1_has_the_x7r_range_and_window():
     d = decode_dielectric("2R1")
     assert (d.temp_min_c, d.temp_max_c, d.change_minus_pct) == (D(-55), D(125), D(15))

@@ -1,6 +1,7 @@
 """The benchmarks of tests/bench run end to end on tiny sizes and print the agreed JSON line shape.
 
-Targets: issue 11 (the line shape ``name, n, seconds, rate, baseline_rate, ratio``); baselines:
+Targets: the README's benchmark section (the line shape ``name, n, seconds, rate, baseline_rate, ratio``);
+baselines:
 the shared library notes' measurements (csv + sqlite3 executemany, openpyxl read-only, bare indexed
 SQL). No timing is asserted here: speed targets live in the benchmark output, never in unit tests.
 Marking values checked below follow IEC 60062 (three-digit and letter-and-digit codes) and
