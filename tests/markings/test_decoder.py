@@ -20,7 +20,7 @@ from stock.markings.decoder import MAX_MARKING_CHARS, cautions, decode, summary
 D = Decimal
 
 # Every example marking of the project's brief, with the reading the tables give (sources per field above).
-ISSUE_EXAMPLES = [
+EXAMPLE_MARKINGS = [
     pytest.param("104K 2A X7R", "100 nF ±10 %  100 V DC  X7R (−55…+125 °C, ±15 %)", id="104K-2A-X7R"),
     pytest.param("4n7 J 100V", "4.7 nF ±5 %  100 V DC", id="4n7-J-100V"),
     pytest.param("47pF NP0", "47 pF  NP0 (0 ±30 ppm/K)", id="47pF-NP0"),
@@ -42,8 +42,8 @@ ISSUE_EXAMPLES = [
 ]
 
 
-@pytest.mark.parametrize(("text", "line"), ISSUE_EXAMPLES)
-def test_issue_examples_decode_to_the_expected_line(text, line):
+@pytest.mark.parametrize(("text", "line"), EXAMPLE_MARKINGS)
+def test_example_markings_decode_to_the_expected_line(text, line):
     assert summary(decode(text)) == line
 
 
