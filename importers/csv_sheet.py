@@ -28,7 +28,7 @@ import io
 from pathlib import Path
 from typing import Any, Iterator
 
-from importers.sheet import RawSheet, clean_cell, shape_sheet
+from importers.raw_sheet import RawSheet, clean_cell, shape_sheet
 from stock.errors import BadSheet
 
 SAMPLE_BYTES = 64 * 1024

@@ -27,7 +27,7 @@ import zlib
 from pathlib import Path
 from typing import Any, Callable, Iterator
 
-from importers.sheet import RawSheet, clean_cell, shape_sheet
+from importers.raw_sheet import RawSheet, clean_cell, shape_sheet
 from stock.errors import BadSheet
 
 EMPTY_RUN_LIMIT = 10_000      # blank rows in a row after which the rest of a sheet is not read
@@ -51,17 +51,7 @@ def read_workbook(path: Path, sheet: str | None = None) -> list[RawSheet]:
             worksheet holds anything.
     """
     file = str(path)
-    _check_archive(path)
-    from openpyxl import load_workbook   # imported late: it costs start-up time (libraries.md A2)
-
-    try:
-        with warnings.catch_warnings():
-            warnings.simplefilter("ignore")   # "no default style", unsupported extensions ...
-            book = load_workbook(path, read_only=True, data_only=True, keep_links=False)
-    except _READ_ERRORS as exc:
-        raise BadSheet(file, f"is not a readable XLSX workbook ({_short(exc)})") from None
-    except Exception as exc:     # openpyxl's own InvalidFileException and the like
-        raise BadSheet(file, f"is not a readable XLSX workbook ({_short(exc)})") from None
+    book = open_workbook(path)
     names = list(book.sheetnames)
     if sheet is not None and sheet not in names:
         book.close()
@@ -95,6 +85,26 @@ def read_workbook(path: Path, sheet: str | None = None) -> list[RawSheet]:
         raise BadSheet(file, "has no sheet with anything in it", hint="a header row, then one row per bin")
     handle.finished()
     return sheets
+
+
+def open_workbook(path: Path) -> Any:
+    """Open a workbook read-only after the archive checks; the one way every reader opens XLSX.
+
+    Raises:
+        BadSheet: an OpenDocument, encrypted, binary or damaged file, or not a workbook at all.
+    """
+    file = str(path)
+    _check_archive(path)
+    from openpyxl import load_workbook   # imported late: it costs start-up time (libraries.md A2)
+
+    try:
+        with warnings.catch_warnings():
+            warnings.simplefilter("ignore")   # "no default style", unsupported extensions ...
+            return load_workbook(path, read_only=True, data_only=True, keep_links=False)
+    except _READ_ERRORS as exc:
+        raise BadSheet(file, f"is not a readable XLSX workbook ({_short(exc)})") from None
+    except Exception as exc:     # openpyxl's own InvalidFileException and the like
+        raise BadSheet(file, f"is not a readable XLSX workbook ({_short(exc)})") from None
 
 
 def _check_archive(path: Path) -> None:

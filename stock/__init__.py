@@ -1,41 +1,46 @@
 """stock: capacitor bins — decode their markings, grade each part for the job, find, kit, export.
 
-Data flows one way: file → ``importers`` → decoder → store → grading / search / kit → exports.
-A lower layer never imports a higher one.
+Sub-packages in layers; a module imports only from its own layer (in the order below) or from a
+lower one, never upwards. An import-linter contract in ``pyproject.toml`` enforces it and the
+test suite runs it (``tests/test_layers.py``).
 
-Values and errors
-    ``errors`` (the errors a user can meet), ``decoded`` (the frozen ``Marking`` every decoder
-    returns), ``units`` (engineering formatting and parsing of typed values).
-Code tables, one module per standard
-    ``value_codes`` (IEC 60062 value codes), ``tolerance_codes`` (IEC 60062 letters),
-    ``voltage_codes`` (EIA voltage codes), ``ceramic_codes`` (EIA-198 Class 1/2, IEC letters),
-    ``families`` (films, mica, electrolytics … by name), ``safety_classes`` (IEC 60384-14),
-    ``colour_codes`` / ``colour_words`` / ``mica_codes`` (colour bands and dots),
-    ``preferred_values`` (IEC 60063).
-Decoding
-    ``markings``: ``decode(text) -> Marking``, never raises.
-Storing
-    ``store`` (schema, migrations, ledger), ``intake`` + ``row_reading`` (rows → bins, parts,
-    flags), ``bins`` (queries), ``check`` (verify a database).
-Physics
-    ``stability`` (dielectric figures), ``applications`` (the application table),
-    ``grading`` (worst-case budget and grades), ``bin_grades`` (grades over the store),
-    ``drift`` (tank and timer drift),
-    ``combining`` (series and parallel pairs).
-The jobs
-    ``requirement`` + ``search`` (find), ``bom`` + ``kit`` (planning) + ``kit_plans`` (stored
-    plans: pull, undo, drop) + ``kit_rules`` + ``pick_list`` (kitting), ``flag_kinds`` (what
-    each flag means) + ``review`` + ``duplicates`` + ``stock_checks`` (flags), ``spreadsheet`` +
-    ``exports`` + ``stocktake`` (spreadsheets out), ``demo`` (the demo shop).
-The command
-    ``cli``: one ``<name>_cmd.py`` per command group.
+====================  ===========================================================================
+layer (top first)     what lives there
+====================  ===========================================================================
+``cli``               the ``stock`` command: one ``<name>_cmd.py`` per command group
+``demo``              the demo shop, run end to end
+``labels``            bin labels (PDF)
+``sheets_out``        spreadsheets written: inventory, purchasing, count sheet
+``kitting``           BOM reading, line rules, the planner, stored plans, pick lists
+``matching``          requirements and the search of the shelf (find)
+``inventory``         bins from sheets: intake, queries, stored grades, flags, settling
+``physics``/``store`` grading physics and the application table / the SQLite store, its schema,
+                      flag kinds and integrity check (the two never import each other)
+``markings``          code tables, one module per standard, and the decoder
+``decoded``, ``units``,  the frozen decoded values, engineering formatting, count cells, errors
+``counts``, ``errors``
+====================  ===========================================================================
 
-Public names: ``decode`` (from ``markings``), ``open_store`` (from ``store``) and ``Marking``.
+``importers/`` (file readers) sits beside ``markings``: it imports only ``stock.errors``.
+
+Public names, loaded on first use so that importing a reader loads no store:
+``decode`` (from ``stock.markings.decoder``), ``open_store`` (from ``stock.store.database``) and
+``Marking`` (from ``stock.decoded``).
 """
 
-from stock.decoded import Marking
-from stock.markings.decoder import decode
-from stock.store.database import open_store
+from __future__ import annotations
+
+from typing import Any
 
 __all__ = ["Marking", "__version__", "decode", "open_store"]
 __version__ = "0.1.0"
+
+_LAZY = {"Marking": "stock.decoded", "decode": "stock.markings.decoder", "open_store": "stock.store.database"}
+
+
+def __getattr__(name: str) -> Any:
+    if name in _LAZY:
+        import importlib
+
+        return getattr(importlib.import_module(_LAZY[name]), name)
+    raise AttributeError(f"module 'stock' has no attribute {name!r}")

@@ -1,21 +1,21 @@
 """The `stock` command: a thin shell over the library, one file per command group.
 
 Each command module exposes ``register(app)`` and is listed in :data:`COMMAND_MODULES`; the
-library does the work, the command formats and prints. :class:`_Boundary` turns every
+library does the work, the command formats and prints. Command modules read the shared options
+through :mod:`stock.cli.context`, never from this module, so nothing imports back up. :class:`_Boundary` turns every
 :class:`~stock.errors.StockError` into one line on stderr and its exit code.
 """
 
 from __future__ import annotations
 
 import importlib
-import os
-from dataclasses import dataclass
 from pathlib import Path
 from typing import Annotated
 
 import typer
 from typer.core import TyperGroup
 
+from stock.cli.context import CliState
 from stock.errors import StockError
 
 # Command modules in the order their commands appear in `stock --help`.
@@ -44,13 +44,6 @@ class _Boundary(TyperGroup):
             raise typer.Exit(code=exc.exit_code) from None
 
 
-@dataclass
-class CliState:
-    """Options shared by every command."""
-
-    db_path: Path
-
-
 app = typer.Typer(
     cls=_Boundary,
     no_args_is_help=True,
@@ -67,14 +60,6 @@ def _global_options(
                                      help="The stock database file (SQLite).")] = Path("stock.db"),
 ) -> None:
     ctx.obj = CliState(db_path=db)
-
-
-def state(ctx: typer.Context) -> CliState:
-    """The shared options of the running command (``--db``)."""
-    root = ctx.find_root()
-    if isinstance(root.obj, CliState):
-        return root.obj
-    return CliState(db_path=Path(os.environ.get("STOCK_DB", "stock.db")))
 
 
 for _name in COMMAND_MODULES:

@@ -7,7 +7,7 @@ from typing import Annotated, Any
 
 import typer
 
-from stock.cli import state
+from stock.cli.context import state
 
 
 def text_table(headers: list[str], rows: list[list[Any]]) -> str:

@@ -21,7 +21,7 @@ def register(app: typer.Typer) -> None:
 
         Example: stock --db shop.db check
         """
-        from stock.cli import state
+        from stock.cli.context import state
 
         with open_store(state(ctx).db_path, create=False) as store:
             report = check_store(store)

@@ -16,7 +16,7 @@ export_app = typer.Typer(help="Write spreadsheets: what to order, what is on han
 
 
 def _store(ctx: typer.Context):
-    from stock.cli import state
+    from stock.cli.context import state
 
     return open_store(state(ctx).db_path, create=False)
 
@@ -81,7 +81,7 @@ def count(
     Example: stock export count take.xlsx   (fill it in, then: stock import take.xlsx)
     """
     from stock.errors import BadValue
-    from stock.inventory.stocktake import export_count_sheet
+    from stock.sheets_out.count_sheet import export_count_sheet
 
     if out.suffix.lower() != ".xlsx":
         raise BadValue("output file", str(out), "a name ending in .xlsx (the sheet carries validation)")

@@ -7,7 +7,7 @@ from typing import Annotated
 
 import typer
 
-from stock.cli import state
+from stock.cli.context import state
 
 FIND_HELP = """Find parts on hand for a requirement: single parts, and with --combine parallel or series pairs.
 

@@ -7,7 +7,7 @@ from typing import Annotated, Optional
 
 import typer
 
-from stock.cli import state
+from stock.cli.context import state
 
 FLAGS_HELP = """List every open flag: the bin, its marking, the readings considered, what would settle it.
 
@@ -76,7 +76,7 @@ def register(app: typer.Typer) -> None:
                                                help="Do not run the stock and duplicate checks first.")] = False,
         as_json: Annotated[bool, typer.Option("--json", help="One JSON document on stdout.")] = False,
     ) -> None:
-        from stock.inventory.settling import list_flags
+        from stock.inventory.flag_list import list_flags
         from stock.store.database import open_store
 
         with open_store(state(ctx).db_path, create=False) as store:
@@ -105,7 +105,8 @@ def register(app: typer.Typer) -> None:
         reopen: Annotated[bool, typer.Option("--reopen", help="Undo the bin's decisions.")] = False,
         as_json: Annotated[bool, typer.Option("--json", help="One JSON document on stdout.")] = False,
     ) -> None:
-        from stock.inventory import settling as review
+        from stock.inventory import settling
+        from stock.inventory.readings import describe_summary
         from stock.errors import BadValue
         from stock.store.database import open_store
 
@@ -113,10 +114,10 @@ def register(app: typer.Typer) -> None:
             if reopen:
                 if any(v is not None for v in (reading, value, marking, count, flag)):
                     raise BadValue("--reopen", "with a decision", "--reopen alone (with --note/--by)")
-                done = review.reopen(store, bin_ref, note=note, by=by)
+                done = settling.reopen(store, bin_ref, note=note, by=by)
             else:
-                done = review.settle(store, bin_ref, reading=reading, value=value, marking=marking,
-                                     count=count, note=note, flag_id=flag, by=by)
+                done = settling.settle(store, bin_ref, reading=reading, value=value, marking=marking,
+                                       count=count, note=note, flag_id=flag, by=by)
         for w in done.warnings:
             typer.echo(f"warning: {w}", err=True)
         if as_json:
@@ -128,7 +129,7 @@ def register(app: typer.Typer) -> None:
             return
         line = f"bin {done.bin_key}: {done.decision}"
         if done.new is not None:
-            line += f"; now reads {done.new['text']!r} as {review.describe_summary(done.new)}"
+            line += f"; now reads {done.new['text']!r} as {describe_summary(done.new)}"
         line += f"; closed flags {', '.join(map(str, done.closed)) or 'none'}"
         typer.echo(line)
 

@@ -9,8 +9,9 @@ from typing import Annotated, Optional
 import typer
 
 from stock.decoded import Marking
+from stock.inventory.circuit_drift import circuit_drift
 from stock.physics.drift import (
-    TankDrift, TimerDrift, circuit_drift, format_frequency, parse_frequency, parse_inductance, parse_kelvin, parse_period,
+    TankDrift, TimerDrift, format_frequency, parse_frequency, parse_inductance, parse_kelvin, parse_period,
 )
 from stock.inventory.stored_grades import BinGrades, grade_bins
 from stock.physics.grading import APPLICATIONS, MAINS_CAUTION, REFERENCE_C, Budget, conditions_from_text, pm
@@ -130,7 +131,7 @@ def register(app: typer.Typer) -> None:
 
         Example: stock grade --temp -10..60 --volts 12;  stock grade --explain A3
         """
-        from stock.cli import state
+        from stock.cli.context import state
 
         conditions = conditions_from_text(temp, volts, years)
         db_path = state(ctx).db_path
@@ -171,8 +172,8 @@ def register(app: typer.Typer) -> None:
 
         Example: stock drift --part '47p N750' --f0 10MHz --tank 150p --delta-t 10
         """
-        from stock.cli import state
-        from stock.units import parse_capacitance
+        from stock.cli.context import state
+        from stock.markings.typed_values import parse_capacitance
 
         result = circuit_drift(
             state(ctx).db_path, part, parse_kelvin(delta_t),

@@ -8,7 +8,7 @@ from typing import Annotated
 
 import typer
 
-from stock.cli import state
+from stock.cli.context import state
 from stock.cli.bins_cmd import text_table
 
 IMPORT_HELP = """Import bin sheets (CSV or XLSX) into the stock database.

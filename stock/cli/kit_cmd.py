@@ -8,7 +8,7 @@ from typing import Annotated
 
 import typer
 
-from stock.cli import state
+from stock.cli.context import state
 
 kit_app = typer.Typer(no_args_is_help=True, help="Kit a build from stock: plan a BOM, pull, undo, drop.")
 
@@ -98,7 +98,8 @@ def picklist_command(
     xlsx: Annotated[Path | None, typer.Option("--xlsx", help="Also write the pick list to this XLSX file.")] = None,
     as_json: Annotated[bool, typer.Option("--json", help="Print the pick list as JSON.")] = False,
 ) -> None:
-    from stock.kitting.pick_list import pick_list, pick_list_text, write_pick_list_xlsx
+    from stock.kitting.pick_list import pick_list, pick_list_text
+    from stock.sheets_out.pick_sheet import write_pick_list_xlsx
 
     with _store(ctx) as store:
         picks = pick_list(store, plan)

@@ -1,1 +1,10 @@
-"""inventory"""
+"""Bins from the shop's sheets into the store, and what the store then knows of them.
+
+In import order (each module imports only those before it): ``row_reading`` (a sheet row to a
+marking and part columns), ``bins`` (queries), ``readings`` (the readings a person can choose),
+``stored_grades`` (grades kept per bin), ``stock_checks`` (unknown quantity, below minimum,
+shelf life), ``duplicates`` (the same part in several bins, merging), ``intake`` (sheets into
+bins, parts, ledger and flags), ``stocktake`` (the count sheet read back), ``flag_list`` (flags
+as a person reads them), ``settling`` (a person's decision recorded), ``circuit_drift`` (the
+drift of a named bin in a circuit).
+"""

@@ -15,6 +15,7 @@ from functools import lru_cache
 from typing import Any
 
 from stock.decoded import Marking, Tolerance
+from stock.store.flag_kinds import QUARANTINE_FIXES
 from stock.store.database import Store
 
 
@@ -99,12 +100,10 @@ _LIST_SQL = """
 SELECT b.id, b.bin_key, b.cabinet, b.location, b.label, b.on_hand, b.minimum,
        p.marking, p.capacitance_pf, p.tol_minus, p.tol_plus, p.tol_unit, p.dielectric_code,
        p.family, p.voltage_v, p.voltage_kind, p.safety_class,
-       COALESCE(r.held, 0) AS reserved, COALESCE(f.open_flags, 0) AS open_flags
+       s.held AS reserved, s.available, COALESCE(f.open_flags, 0) AS open_flags
 FROM bins b
+JOIN bin_stock s ON s.bin_id = b.id
 LEFT JOIN parts p ON p.bin_id = b.id
-LEFT JOIN (SELECT rs.bin_id, SUM(rs.qty) AS held FROM reservations rs
-           JOIN plans pl ON pl.id = rs.plan_id WHERE pl.status = 'reserved'
-           GROUP BY rs.bin_id) r ON r.bin_id = b.id
 LEFT JOIN (SELECT bin_id, COUNT(*) AS open_flags FROM flags WHERE status = 'open'
            GROUP BY bin_id) f ON f.bin_id = b.id
 {where}
@@ -130,7 +129,7 @@ def _summary(r: dict[str, Any]) -> dict[str, Any]:
         "safety_class": r["safety_class"],
         "on_hand": on_hand,
         "reserved": r["reserved"],
-        "available": max(0, (on_hand or 0) - r["reserved"]),
+        "available": r["available"],
         "minimum": r["minimum"],
         "open_flags": r["open_flags"],
     }
@@ -196,7 +195,6 @@ def quarantined_rows(store: Store) -> list[dict[str, Any]]:
     Older imports of the same file are left out: once an edited file is imported again, its
     earlier quarantined rows are history, not work to do.
     """
-    from stock.inventory.intake import QUARANTINE_FIXES
     out = []
     for r in store.rows(
             "SELECT s.row_number, s.sheet, s.raw_json, s.reasons_json, i.file_name, i.path, i.at"

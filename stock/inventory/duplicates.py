@@ -29,7 +29,8 @@ from typing import Any, Literal
 
 from stock.decoded import Marking
 from stock.errors import Refused
-from stock.inventory.settling import close_flags, current_marking, who
+from stock.inventory.readings import current_marking, readings
+from stock.store.flag_records import close_flags, who
 from stock.inventory.stock_checks import FlagRun, sync_flags
 from stock.store.database import Store
 
@@ -172,7 +173,6 @@ def _dec(value: float):
 
 
 def _describe(m: Marking) -> str:
-    from stock.inventory.settling import readings
 
     return readings(m)[0].describe()
 

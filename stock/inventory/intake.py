@@ -30,6 +30,7 @@ from pathlib import Path
 from typing import Any
 
 from stock.decoded import Marking
+from stock.store.flag_kinds import QUARANTINE_FIXES
 from stock.errors import BadSheet
 from stock.inventory.row_reading import (MARKING_FIELDS, MAX_COUNT, PART_COLUMNS, READING_FIELDS, RowReader,
                                bin_key, cell_text, decode_cached, normalise, part_columns,
@@ -43,13 +44,6 @@ PROGRESS_EVERY = 1000
 IMPORT_CACHE_KIB = 65536
 
 # Why a row was quarantined, and what the user can do about it (shown by `stock quarantine`).
-QUARANTINE_FIXES: dict[str, str] = {
-    "bad-quantity": "write the count as a whole number (or leave it blank if not counted), then import again",
-    "no-capacitance": "correct the marking or value (e.g. 104, 4n7, 100pF, brown black red), then import again",
-    "duplicate-row": "give each bin its own location (or merge the two rows into one), then import again",
-}
-
-
 @dataclass(frozen=True)
 class SheetReport:
     """What one sheet of one file did (or would do, in a dry run) to the store."""

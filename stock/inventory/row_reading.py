@@ -30,6 +30,7 @@ from math import isfinite
 from typing import Any
 
 from stock.decoded import Alternative, Flag, Marking
+from stock.counts import MAX_COUNT, read_quantity
 from stock.errors import BadValue
 
 # Fields of the "bins" vocabulary whose text joins the marking, in the order it is written.
@@ -37,7 +38,6 @@ MARKING_FIELDS = ("marking", "colours", "dielectric", "tolerance", "voltage", "s
                   "polarity", "rated_temp")
 # Fields that can carry the part's reading; a sheet with none of them cannot be imported.
 READING_FIELDS = ("marking", "value", "colours")
-MAX_COUNT = 2**53  # larger is a typing slip, and no longer exact as a JSON number
 READINGS_REMEMBERED = 65536  # distinct readings kept per sheet (memory stays bounded)
 
 # The flat parts columns, in the order of :func:`part_columns`.
@@ -84,39 +84,6 @@ def cell_text(value: Any) -> str:
 
 
 _NUMBER = re.compile(r"^[+-]?(\d+(\.\d*)?|\.\d+)$")
-
-
-def read_quantity(value: Any) -> int | None:
-    """A count cell as a whole number; None for a blank. Raises ValueError with the reason.
-
-    >>> read_quantity(10.0), read_quantity(" 25 "), read_quantity(None)
-    (10, 25, None)
-    """
-    if type(value) is str and len(value) < 16 and value.isascii() and value.isdigit():
-        return int(value)  # the usual cell ("25"), read without the general path below
-    if value is None or (isinstance(value, str) and not value.strip()):
-        return None
-    if isinstance(value, bool):
-        raise ValueError(f"quantity {cell_text(value)!r} is not a number")
-    if isinstance(value, int):
-        number = value
-    elif isinstance(value, float):
-        if not value.is_integer():
-            raise ValueError(f"quantity {cell_text(value)!r} is not a whole number")
-        number = int(value)
-    else:
-        text = str(value).strip()
-        if not _NUMBER.match(text):
-            raise ValueError(f"quantity {text!r} is not a number")
-        exact = Decimal(text)
-        if exact != exact.to_integral_value():
-            raise ValueError(f"quantity {text!r} is not a whole number")
-        number = int(exact)
-    if number < 0:
-        raise ValueError(f"quantity {cell_text(value)!r} is negative")
-    if number > MAX_COUNT:
-        raise ValueError(f"quantity {cell_text(value)!r} is too large to be a count")
-    return number
 
 
 def part_columns(m: Marking) -> tuple[Any, ...]:
@@ -212,7 +179,7 @@ def label_value(label: str) -> tuple[str, Decimal] | None:
     >>> label_value("Box 4n7 C0G")
     ('4n7', Decimal('4700'))
     """
-    from stock.units import parse_capacitance
+    from stock.markings.typed_values import parse_capacitance
     for match in _VALUE_TOKEN.finditer(label):
         token = match.group(0).replace(" ", "")
         try:

@@ -18,7 +18,7 @@ from dataclasses import dataclass
 from datetime import date
 from typing import Any
 
-from stock.inventory.settling import close_flags
+from stock.store.flag_records import close_flags
 from stock.store.database import Store
 
 

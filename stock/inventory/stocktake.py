@@ -1,4 +1,6 @@
-"""The stock-take sheet: written in location order, filled in by hand, read back as count movements.
+"""The stock-take sheet read back: each filled-in count recorded as a count movement.
+
+The sheet is written by :mod:`stock.sheets_out.count_sheet`.
 
 The sheet carries each bin's key (which identifies it on the way back), what to look for, the
 quantity the store expects, and an empty "Counted" column that accepts only whole numbers ≥ 0.
@@ -9,72 +11,29 @@ number, a bin the store does not know) refuses the whole sheet with its row and 
 
 from __future__ import annotations
 
-from decimal import Decimal
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from stock.inventory.bins import natural_key
+from stock.counts import read_quantity
 from stock.errors import BadSheet
-from stock.sheets_out.workbook import Column, new_workbook, save_workbook, sheet_cell
 from stock.store.database import Store
 
 SHEET_TITLE = "Stock take"
 MARKER = "stock count sheet v1"      # in A1 of the hidden "About" sheet: how we know our own sheet
-COUNT_COLUMNS = (
-    Column("Bin", 18), Column("Location", 10), Column("Label", 12), Column("Marking", 24),
-    Column("Value", 10), Column("Expected", 10, "#,##0"), Column("Counted", 10, "0"), Column("Note", 30),
-)
-_COUNTED = 6
-
-
-def export_count_sheet(store: Store, out: Path) -> int:
-    """Write the stock-take sheet for every bin, in natural location order; returns its rows."""
-    from openpyxl.worksheet.datavalidation import DataValidation
-
-    from stock.units import format_capacitance
-
-    bins = store.rows("SELECT b.bin_key, b.location, b.label, b.on_hand, p.marking, p.capacitance_pf"
-                      " FROM bins b LEFT JOIN parts p ON p.bin_id = b.id")
-    bins.sort(key=lambda r: (natural_key(r["location"]), natural_key(r["bin_key"])))
-    wb = new_workbook()
-    ws = wb.create_sheet(SHEET_TITLE)
-    ws.freeze_panes = "A2"
-    from openpyxl.utils import get_column_letter
-
-    for i, col in enumerate(COUNT_COLUMNS, start=1):
-        ws.column_dimensions[get_column_letter(i)].width = col.width
-    last = len(bins) + 1
-    check = DataValidation(type="whole", operator="greaterThanOrEqual", formula1="0", allow_blank=True,
-                           showErrorMessage=True, errorTitle="Counted",
-                           error="Enter the number of parts counted: a whole number, 0 or more.")
-    check.add(f"G2:G{max(last, 2)}")
-    ws.data_validations.append(check)
-    ws.auto_filter.ref = f"A1:H{last}"
-    ws.append([sheet_cell(ws, c.header, bold=True) for c in COUNT_COLUMNS])
-    for r in bins:
-        ws.append([sheet_cell(ws, r["bin_key"]), sheet_cell(ws, r["location"]), sheet_cell(ws, r["label"]),
-                   sheet_cell(ws, r["marking"]), sheet_cell(ws, format_capacitance(Decimal(str(r["capacitance_pf"])))
-                              if r["capacitance_pf"] is not None else ""),
-                   r["on_hand"], None, None])
-    about = wb.create_sheet("About")
-    about.sheet_state = "hidden"
-    about.append([MARKER])
-    about.append(["Fill in the Counted column; leave it blank for bins not counted. "
-                  "Then: stock import THIS_FILE"])
-    save_workbook(wb, out)
-    return len(bins)
+COUNT_HEADERS = ("Bin", "Location", "Label", "Marking", "Value", "Expected", "Counted", "Note")
+_COUNTED = COUNT_HEADERS.index("Counted")
 
 
 def is_count_sheet(path: Path) -> bool:
     """Whether a file is a stock-take sheet this tool wrote (its hidden marker)."""
     if path.suffix.lower() not in (".xlsx", ".xlsm"):
         return False
-    try:
-        from openpyxl import load_workbook
+    from importers.xlsx_sheet import open_workbook
 
-        wb = load_workbook(path, read_only=True, data_only=True)
-    except Exception:  # not a workbook we can open: the normal importer will say why
+    try:
+        wb = open_workbook(path)
+    except BadSheet:  # not a workbook we can open: the normal importer will say why
         return False
     try:
         if "About" not in wb.sheetnames or SHEET_TITLE not in wb.sheetnames:
@@ -113,25 +72,12 @@ class CountReport:
                 "changes": [c.to_json() for c in self.changes]}
 
 
-MAX_COUNT = 2**53   # a larger count is a typing slip (and past what SQLite and JSON hold exactly)
-
-
 def _whole(value: Any, file: str, row: int) -> int | None:
-    if value is None or (isinstance(value, str) and not value.strip()):
-        return None
-    raw, number = value, None
-    if isinstance(value, bool):
-        number = None
-    elif isinstance(value, int):
-        number = value
-    elif isinstance(value, float) and value.is_integer():
-        number = int(value)
-    elif isinstance(value, str) and value.strip().isdecimal():   # isdigit() would pass "²"
-        number = int(value.strip())
-    if number is None or not 0 <= number <= MAX_COUNT:
-        raise BadSheet(file, f"cannot read {raw!r} as a count", sheet=SHEET_TITLE, row=row,
-                       column="Counted", hint="a whole number, 0 or more, or a blank cell")
-    return number
+    try:
+        return read_quantity(value)
+    except ValueError:
+        raise BadSheet(file, f"cannot read {value!r} as a count", sheet=SHEET_TITLE, row=row,
+                       column="Counted", hint="a whole number, 0 or more, or a blank cell") from None
 
 
 def apply_count_sheet(store: Store, path: Path, *, dry_run: bool = False) -> CountReport:
@@ -140,13 +86,13 @@ def apply_count_sheet(store: Store, path: Path, *, dry_run: bool = False) -> Cou
     Raises:
         BadSheet: a counted cell is not a whole number ≥ 0, or a bin is unknown (nothing is recorded).
     """
-    from openpyxl import load_workbook
+    from importers.xlsx_sheet import open_workbook
 
     file = str(path)
     try:
-        wb = load_workbook(path, read_only=True, data_only=True)
-    except Exception as exc:     # not a workbook at all: zip, XML and openpyxl's own errors
-        raise BadSheet(file, f"is not a readable stock-take workbook ({type(exc).__name__})",
+        wb = open_workbook(path)
+    except BadSheet as exc:
+        raise BadSheet(file, f"is not a readable stock-take workbook ({exc.reason})",
                        hint="the .xlsx written by `stock export count`") from None
     try:
         if SHEET_TITLE not in wb.sheetnames:
@@ -159,7 +105,7 @@ def apply_count_sheet(store: Store, path: Path, *, dry_run: bool = False) -> Cou
     readings: list[tuple[int, dict[str, Any], int]] = []
     not_counted = 0
     for number, cells in enumerate(rows, start=2):
-        cells = tuple(cells) + (None,) * (len(COUNT_COLUMNS) - len(cells))
+        cells = tuple(cells) + (None,) * (len(COUNT_HEADERS) - len(cells))
         if all(c is None for c in cells):
             continue
         counted = _whole(cells[_COUNTED], file, number)
@@ -198,5 +144,5 @@ def preview_count_sheet(store: Store, path: Path) -> CountReport:
     raise AssertionError("dry run did not stop")  # pragma: no cover
 
 
-__all__ = ["CountChange", "CountReport", "apply_count_sheet", "export_count_sheet",
-           "is_count_sheet", "natural_key", "preview_count_sheet"]
+__all__ = ["COUNT_HEADERS", "MARKER", "SHEET_TITLE", "CountChange", "CountReport", "apply_count_sheet",
+           "is_count_sheet", "preview_count_sheet"]

@@ -28,11 +28,12 @@ from __future__ import annotations
 import re
 from collections.abc import Iterable
 from dataclasses import dataclass, field
-from decimal import Decimal, InvalidOperation
+from decimal import Decimal
 from pathlib import Path
 from typing import Any
 
 from stock.decoded import Dielectric
+from stock.counts import read_quantity
 from stock.errors import BadSheet, BadValue, StockError
 
 # Reference-designator letters and the part kind they name; from memory of IEEE 315 and
@@ -216,15 +217,17 @@ def _cell_text(value: Any) -> str:
 
 def _quantity(text: str) -> int:
     try:
-        number = Decimal(text)
-    except InvalidOperation:
-        raise ValueError(f"{text!r} is not a whole number of parts") from None
-    if not number.is_finite() or number != number.to_integral_value() or number < 0:
+        number = read_quantity(text)
+    except ValueError as exc:
+        if "too large" not in str(exc):
+            raise ValueError(f"{text!r} is not a whole number of parts") from None
+        number = MAX_QTY_PER_BOARD + 1
+    if number is None:
         raise ValueError(f"{text!r} is not a whole number of parts")
     if number > MAX_QTY_PER_BOARD:
         raise ValueError(f"{text!r} is more than {MAX_QTY_PER_BOARD:,} parts per board; check the"
                          " quantity")
-    return int(number)
+    return number
 
 
 class Unreadable(StockError, ValueError):
@@ -313,7 +316,7 @@ def read_requirement(value_text: str, marking_text: str, columns: dict[str, str]
     (Decimal('150'), Decimal('5'), Decimal('100'), 'NP0')
     """
     from stock.markings.decoder import decode
-    from stock.units import parse_capacitance, parse_voltage
+    from stock.markings.typed_values import parse_capacitance, parse_voltage
 
     out: dict[str, Any] = {}
     remarks: list[str] = []

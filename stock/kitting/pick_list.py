@@ -14,7 +14,6 @@ from __future__ import annotations
 
 from collections import OrderedDict
 from dataclasses import dataclass
-from pathlib import Path
 from typing import Any
 
 from stock.kitting.stored_plans import KitPlan, load_plan
@@ -99,28 +98,6 @@ def pick_list_text(pl: PickList) -> str:
     return "\n".join(out)
 
 
-def write_pick_list_xlsx(pl: PickList, path: Path) -> int:
-    """Write the pick list as an XLSX workbook (a "Pick list" sheet, then "Cautions"); returns rows.
-
-    Raises:
-        StoreProblem: the file cannot be written.
-    """
-    from stock.sheets_out.workbook import Column, add_table_sheet, new_workbook, save_workbook
-
-    columns = (Column("Location", 12, "@"), Column("Bin", 16, "@"), Column("Marking", 18, "@"),
-               Column("Value", 10), Column("Count", 8, "0"), Column("Refs", 30),
-               Column("Picked", 8))
-    wb = new_workbook()
-    rows = [(r.location or "", r.bin_key, r.marking, r.value, r.count, " ".join(r.refs), "")
-            for r in pl.rows]
-    add_table_sheet(wb, "Pick list", columns, rows, totals={0: "Total", 4: "sum"})
-    notes = [(f"Plan {pl.plan}, {pl.boards} board(s), status {pl.status}",)]
-    notes.extend((c,) for c in pl.cautions)
-    add_table_sheet(wb, "Cautions", (Column("Read before handling", 120),), notes)
-    save_workbook(wb, Path(path))
-    return len(rows)
-
-
 def plan_text(kit: KitPlan) -> str:
     """A plan in words: each line with its bins, notes and shortfall, then not tracked, cautions."""
     out = [f"plan {kit.id}: {kit.boards} board{'s' if kit.boards != 1 else ''}, {kit.status},"
@@ -139,5 +116,4 @@ def plan_text(kit: KitPlan) -> str:
     return "\n".join(out)
 
 
-__all__ = ["PickList", "PickRow", "natural_key", "pick_list", "pick_list_text", "plan_text",
-           "write_pick_list_xlsx"]
+__all__ = ["PickList", "PickRow", "natural_key", "pick_list", "pick_list_text", "plan_text"]

@@ -495,7 +495,8 @@ def build_requirement(*, value: str, tol: str | None = None, tempco: str | None 
     '150 pF ±5 %, C0G, 0±30 ppm/K, ≥ 50 V, fit for tuned'
     """
     from stock.markings.families import decode_family
-    from stock.units import parse_capacitance, parse_percent, parse_temperature_range, parse_voltage
+    from stock.units import parse_percent, parse_temperature_range
+    from stock.markings.typed_values import parse_capacitance, parse_voltage
     window = parse_tempco_window(tempco) if tempco else (None, None)
     code = None
     if tempco and not (_WINDOW.match(tempco) or _RANGE.match(tempco)):

@@ -21,11 +21,10 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass
 from decimal import Decimal, InvalidOperation, localcontext
-from pathlib import Path
 from typing import Any
 
 from stock.decoded import Marking
-from stock.errors import BadValue, NotFound
+from stock.errors import BadValue
 from stock.physics.stability import REFERENCE_C, assumed_tempco_tol, temperature_figures
 from stock.units import format_capacitance, format_number
 
@@ -298,56 +297,8 @@ def parse_kelvin(text: str, what: str = "--delta-t") -> Decimal:
     return Decimal(match[1])
 
 
-
-def resolve_part(db_path: str | Path | None, text: str) -> Marking:
-    """A bin in the database (by id, key, location or label) or, failing that, a marking to decode.
-
-    Raises:
-        BadValue: neither a bin nor a marking the decoder understands.
-    """
-    if db_path is not None and Path(db_path).is_file():
-        from stock.inventory.stored_grades import bin_marking
-        from stock.store.database import open_store
-
-        with open_store(db_path, create=False) as store:
-            try:
-                return bin_marking(store, text)[1]
-            except NotFound:
-                pass
-    try:
-        from stock.markings.decoder import decode
-    except ImportError:
-        raise BadValue("--part", text, "a bin in the database (the marking decoder is not installed)") from None
-    marking = decode(text)
-    if marking.dielectric is None:
-        raise BadValue("--part", text, "a bin, or a marking naming its dielectric (e.g. '101J C0G')")
-    return marking
-
-
-def circuit_drift(db_path: str | Path | None, part: str, delta_t_k: Decimal, *, f0_hz: Decimal | None = None,
-                  tank_pf: Decimal | None = None, coil_h: Decimal | None = None, part_pf: Decimal | None = None,
-                  timer: bool = False, period_s: Decimal | None = None) -> TankDrift | TimerDrift:
-    """The drift of a tank (``f0_hz`` and ``tank_pf`` or ``coil_h``) or a timer (``timer``) from one part.
-
-    The tank capacitance, when a coil is given instead, is the one that tunes it to ``f0_hz``.
-
-    Raises:
-        BadValue: the part cannot be resolved, or the tank is not described.
-    """
-    marking = resolve_part(db_path, part)
-    if timer:
-        return timer_drift(marking, delta_t_k, period_s)
-    if f0_hz is None:
-        raise BadValue("--f0", "", "the tank's frequency such as 10MHz (or --timer for an RC timer)")
-    if tank_pf is None:
-        if coil_h is None:
-            raise BadValue("--tank", "", "the total tank capacitance (or --coil to work it out from f0)")
-        tank_pf = tank_capacitance_pf(f0_hz, coil_h)
-    return tank_drift(marking, f0_hz, tank_pf, delta_t_k, part_pf)
-
-
 __all__ = [
-    "PartDrift", "format_frequency", "circuit_drift", "TankDrift", "TimerDrift", "parse_frequency", "parse_inductance",
-    "parse_kelvin", "parse_period", "part_drift", "resolve_part", "resonant_frequency_hz",
+    "PartDrift", "format_frequency", "TankDrift", "TimerDrift", "parse_frequency", "parse_inductance",
+    "parse_kelvin", "parse_period", "part_drift", "resonant_frequency_hz",
     "tank_capacitance_pf", "tank_drift", "tank_shift_ppm", "timer_drift",
 ]

@@ -474,7 +474,8 @@ def conditions_from_text(temp: str | None = None, volts: str | None = None,
     >>> conditions_from_text("-20..60", "12", "5").describe()
     '−20…+60 °C, 5 years, 12 V working'
     """
-    from stock.units import parse_temperature_range, parse_voltage
+    from stock.units import parse_temperature_range
+    from stock.markings.typed_values import parse_voltage
 
     low, high = parse_temperature_range(temp, "--temp") if temp else (Decimal(0), Decimal(50))
     working = parse_voltage(volts, "--volts") if volts else None

@@ -185,9 +185,8 @@ def inventory_rows(store: Store) -> list[list[Any]]:
     for f in store.rows("SELECT bin_id, kind FROM flags WHERE status = 'open' AND bin_id IS NOT NULL"
                         " ORDER BY id"):
         flags.setdefault(f["bin_id"], []).append(f["kind"])
-    reserved = {r["bin_id"]: r["n"] for r in store.rows(
-        "SELECT r.bin_id, SUM(r.qty) AS n FROM reservations r JOIN plans p ON p.id = r.plan_id"
-        " WHERE p.status = 'reserved' GROUP BY r.bin_id")}
+    available = {r["bin_id"]: r["available"] for r in store.rows(
+        "SELECT bin_id, available FROM bin_stock WHERE on_hand IS NOT NULL")}
     out = []
     for row in store.rows("SELECT b.id AS bid, b.bin_key, b.location, b.cabinet, b.label, b.on_hand,"
                           " p.* FROM bins b JOIN parts p ON p.bin_id = b.id ORDER BY b.bin_key"):
@@ -202,7 +201,7 @@ def inventory_rows(store: Store) -> list[list[Any]]:
             d.code if d else "", d.family if d else "", d.klass if d else None,
             float(d.tempco_ppm_per_k) if d and d.tempco_ppm_per_k is not None else None,
             m.safety_class or "", m.polarity or "", on_hand,
-            None if on_hand is None else max(0, on_hand - reserved.get(row["bid"], 0)),
+            available.get(row["bid"]),
             *[grades.get(row["bid"], {}).get(app, "") for app in APPLICATION_COLUMNS],
             ", ".join(flags.get(row["bid"], [])),
         ])

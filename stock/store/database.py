@@ -172,6 +172,21 @@ def m001_core(db: Database) -> None:
     """)
 
 
+@migrations()
+def m002_bin_stock(db: Database) -> None:
+    # The one definition of "available": on hand less what plans not yet pulled hold. A view, so
+    # search, kitting, exports and the integrity check read the same numbers.
+    _run_script(db, """
+    CREATE VIEW bin_stock AS
+    SELECT b.id AS bin_id, b.on_hand AS on_hand, COALESCE(h.held, 0) AS held,
+           MAX(0, COALESCE(b.on_hand, 0) - COALESCE(h.held, 0)) AS available
+    FROM bins b LEFT JOIN (
+        SELECT r.bin_id, SUM(r.qty) AS held FROM reservations r
+        JOIN plans p ON p.id = r.plan_id WHERE p.status = 'reserved' GROUP BY r.bin_id
+    ) h ON h.bin_id = b.id;
+    """)
+
+
 def now() -> str:
     """The current time as ISO 8601 UTC, the form every table stores."""
     return datetime.now(timezone.utc).isoformat(timespec="seconds")
@@ -303,17 +318,15 @@ class Store:
 
     def reserved(self, bin_id: int) -> int:
         """Parts held for plans not yet pulled or dropped."""
-        row = self.one(
-            "SELECT COALESCE(SUM(r.qty), 0) AS n FROM reservations r JOIN plans p ON p.id = r.plan_id"
-            " WHERE r.bin_id = ? AND p.status = 'reserved'", (bin_id,))
-        return int(row["n"]) if row else 0
+        row = self.one("SELECT held FROM bin_stock WHERE bin_id = ?", (bin_id,))
+        return int(row["held"]) if row else 0
 
     def available(self, bin_id: int) -> int:
         """On hand less reservations (an unknown quantity counts as none available)."""
-        row = self.one("SELECT on_hand FROM bins WHERE id = ?", (bin_id,))
+        row = self.one("SELECT available FROM bin_stock WHERE bin_id = ?", (bin_id,))
         if row is None:
             raise NotFound("bin", str(bin_id))
-        return max(0, (row["on_hand"] or 0) - self.reserved(bin_id))
+        return int(row["available"])
 
     def raise_flag(self, *, kind: str, message: str, fingerprint: str, bin_id: int | None = None,
                    source_row_id: int | None = None, details: dict[str, Any] | None = None) -> int | None:

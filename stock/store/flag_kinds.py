@@ -128,4 +128,12 @@ def flag_kind(kind: str) -> FlagKind:
     return FLAG_KINDS.get(kind) or replace(_UNKNOWN_KIND, kind=kind)
 
 
-__all__ = ["FLAG_KINDS", "FlagKind", "SettledBy", "flag_kind"]
+# What to do about each reason a row is quarantined (kept raw, not stored as a bin).
+QUARANTINE_FIXES: dict[str, str] = {
+    "bad-quantity": "write the count as a whole number (or leave it blank if not counted), then import again",
+    "no-capacitance": "correct the marking or value (e.g. 104, 4n7, 100pF, brown black red), then import again",
+    "duplicate-row": "give each bin its own location (or merge the two rows into one), then import again",
+}
+
+
+__all__ = ["QUARANTINE_FIXES", "FLAG_KINDS", "FlagKind", "SettledBy", "flag_kind"]

@@ -85,9 +85,8 @@ def check_store(store: Store) -> CheckReport:
             problems.append(f"plan {plan['id']} is marked pulled but its pull movements take"
                             f" {pulled} parts, not the {plan['reserved']} it reserved")
     for over in store.rows(
-            "SELECT b.bin_key, b.on_hand, SUM(r.qty) AS held FROM reservations r"
-            " JOIN plans p ON p.id = r.plan_id AND p.status = 'reserved'"
-            " JOIN bins b ON b.id = r.bin_id GROUP BY b.id HAVING held > COALESCE(b.on_hand, 0)"):
+            "SELECT b.bin_key, b.on_hand, s.held FROM bin_stock s JOIN bins b ON b.id = s.bin_id"
+            " WHERE s.held > COALESCE(b.on_hand, 0)"):
         problems.append(f"bin {over['bin_key']} holds {over['on_hand'] or 0} but plans reserve"
                         f" {over['held']} of it (a count went down after planning)")
     return CheckReport(tuple(problems), checked)

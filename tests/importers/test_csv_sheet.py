@@ -18,7 +18,8 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from importers import csv_sheet
-from importers.sheet import RawRow, read_sheets
+from importers.raw_sheet import RawRow
+from importers.sheet import read_sheets
 from stock.errors import BadSheet
 
 HEADER = "Bin,Marking,Value,Qty,Notes"

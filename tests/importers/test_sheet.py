@@ -15,8 +15,8 @@ import zipfile
 import pytest
 from openpyxl import Workbook
 
-from importers.sheet import (RawRow, RawSheet, clean_cell, make_headers, read_sheets, shape_sheet,
-                             sniff_kind)
+from importers.raw_sheet import RawRow, RawSheet, clean_cell, make_headers, shape_sheet
+from importers.sheet import read_sheets, sniff_kind
 from stock.errors import BadSheet
 
 
@@ -186,7 +186,7 @@ def test_rows_and_sheets_are_frozen():
         sheet.headers = ()
 
 
-@pytest.mark.parametrize("module", ["importers.sheet", "importers.csv_sheet", "importers.headers"])
+@pytest.mark.parametrize("module", ["importers.raw_sheet", "importers.csv_sheet", "importers.headers"])
 def test_the_docstring_examples_of_the_readers_hold(module):
     # pytest's --doctest-modules covers stock/ only; the importers' examples are run here.
     import doctest

@@ -21,7 +21,8 @@ from hypothesis import strategies as st
 from openpyxl import Workbook
 
 from importers import xlsx_sheet
-from importers.sheet import RawRow, read_sheets
+from importers.raw_sheet import RawRow
+from importers.sheet import read_sheets
 from stock.errors import BadSheet
 
 

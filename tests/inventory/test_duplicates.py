@@ -19,7 +19,8 @@ from hypothesis import strategies as st
 from stock.decoded import Dielectric, Marking, Tolerance
 from stock.inventory.duplicates import find_duplicates, merge, raise_duplicate_flags
 from stock.errors import Refused
-from stock.inventory.settling import list_flags, settle
+from stock.inventory.flag_list import list_flags
+from stock.inventory.settling import settle
 from stock.store.database import open_store
 from tests.inventory.test_settling import X7R, add_bin  # the same hand-built bins and dielectric
 

@@ -20,9 +20,9 @@ import pytest
 from stock.decoded import Alternative, Dielectric, Flag, Marking, Tolerance
 from stock.errors import BadValue, NotFound, Refused
 from stock.store.flag_kinds import FLAG_KINDS, flag_kind
-from stock.inventory.settling import (
-    current_marking, list_flags, part_columns, pick_reading, readings, reopen, settle,
-)
+from stock.inventory.flag_list import list_flags
+from stock.inventory.readings import current_marking, part_columns, pick_reading, readings
+from stock.inventory.settling import reopen, settle
 from stock.inventory.stock_checks import parse_date_code, raise_stock_flags
 
 TEN = Tolerance(Decimal(10), Decimal(10), "%", code="K")

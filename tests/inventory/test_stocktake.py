@@ -14,8 +14,9 @@ from openpyxl import load_workbook
 
 from stock.decoded import Marking
 from stock.errors import BadSheet
-from stock.inventory.stocktake import (apply_count_sheet, export_count_sheet, is_count_sheet, natural_key,
-                             preview_count_sheet)
+from stock.inventory.bins import natural_key
+from stock.inventory.stocktake import apply_count_sheet, is_count_sheet, preview_count_sheet
+from stock.sheets_out.count_sheet import export_count_sheet
 from tests.sheets_out.test_exports import put_part
 
 

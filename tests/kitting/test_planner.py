@@ -25,7 +25,8 @@ from stock.markings.families import decode_family
 from stock.kitting.planner import KitOptions, kit_options, plan_kit
 from stock.kitting.stored_plans import drop_plan, load_plan, pull_plan, undo_pull
 from stock.kitting.line_rules import Candidate, check_part, choose_bins
-from stock.kitting.pick_list import natural_key, pick_list, pick_list_text, write_pick_list_xlsx
+from stock.kitting.pick_list import natural_key, pick_list, pick_list_text
+from stock.sheets_out.pick_sheet import write_pick_list_xlsx
 from stock.store.database import open_store
 from tests.stored_rows import store_bin
 

@@ -15,8 +15,9 @@ from hypothesis import strategies as st
 
 from stock.decoded import Tolerance
 from stock.errors import BadValue
+from stock.markings.typed_values import parse_capacitance, parse_voltage
 from stock.units import (format_capacitance, format_temperature_range, format_tolerance, format_voltage,
-                         parse_capacitance, parse_percent, parse_temperature_range, parse_voltage)
+                         parse_percent, parse_temperature_range)
 
 D = Decimal
 

@@ -15,8 +15,9 @@ from decimal import Decimal as D
 import pytest
 
 from stock.decoded import Dielectric, Marking
+from stock.inventory.circuit_drift import circuit_drift
 from stock.physics.drift import (
-    circuit_drift, parse_frequency, parse_inductance, parse_kelvin, parse_period, part_drift,
+    parse_frequency, parse_inductance, parse_kelvin, parse_period, part_drift,
     resonant_frequency_hz, tank_capacitance_pf, tank_drift, tank_shift_ppm, timer_drift,
 )
 from stock.errors import BadValue

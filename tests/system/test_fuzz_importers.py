@@ -19,7 +19,8 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from importers.sheet import RawSheet, read_sheets
+from importers.raw_sheet import RawSheet
+from importers.sheet import read_sheets
 from stock.store.integrity import check_store
 from stock.errors import BadSheet, StockError
 from stock.inventory.intake import import_file

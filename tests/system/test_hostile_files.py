@@ -377,7 +377,7 @@ def test_a_file_that_is_not_a_stock_database_is_refused_and_left_untouched(tmp_p
 
 @pytest.fixture
 def count_sheet(tmp_path, db) -> Path:
-    from stock.inventory.stocktake import export_count_sheet
+    from stock.sheets_out.count_sheet import export_count_sheet
 
     out = tmp_path / "count.xlsx"
     with open_store(db) as store:
@@ -441,8 +441,9 @@ def test_a_hostile_command_line_value_gives_one_line_never_a_traceback(db, args)
 
 def test_odd_locations_sort_in_the_count_sheet_and_the_pick_list(tmp_path, db):
     from stock.kitting.planner import KitOptions, plan_kit
-    from stock.kitting.pick_list import pick_list, write_pick_list_xlsx
-    from stock.inventory.stocktake import export_count_sheet
+    from stock.kitting.pick_list import pick_list
+    from stock.sheets_out.pick_sheet import write_pick_list_xlsx
+    from stock.sheets_out.count_sheet import export_count_sheet
     from tests.helpers_procs import write_bom
 
     rows = [(loc, "104K", 3) for loc in LOCATIONS if loc.strip()]

@@ -27,7 +27,7 @@ from stock.cli import app
 from stock.sheets_out.exports import export_inventory, export_purchasing
 from stock.inventory.intake import import_file
 from stock.sheets_out.workbook import FORMULA_PREFIXES
-from stock.inventory.stocktake import export_count_sheet
+from stock.sheets_out.count_sheet import export_count_sheet
 from stock.store.database import open_store
 from tests.helpers_procs import write_bin_sheet
 
@@ -213,7 +213,8 @@ def test_the_purchasing_list_carries_hostile_markings_as_text(loaded, tmp_path, 
 
 def test_the_pick_list_workbook_holds_hostile_markings_as_string_cells(loaded, tmp_path):
     from stock.kitting.planner import KitOptions, plan_kit
-    from stock.kitting.pick_list import pick_list, write_pick_list_xlsx
+    from stock.kitting.pick_list import pick_list
+    from stock.sheets_out.pick_sheet import write_pick_list_xlsx
     from tests.helpers_procs import write_bom
 
     out = tmp_path / "pick.xlsx"
