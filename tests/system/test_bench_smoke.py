@@ -114,6 +114,12 @@ def test_the_xlsx_import_benchmark_reads_the_same_sheet(tmp_path):
     assert imports.openpyxl_once(tmp_path / "sheet-120.xlsx") == 121  # header + rows
 
 
+def test_the_wide_sheet_benchmark_stores_every_row_of_a_wide_sheet(tmp_path):
+    result = imports.wide_import(200, tmp_path, repeats=1, rows=3)
+    assert (result["name"], result["n"], result["rows"], result["stored"]) == ("wide_import", 200, 3, 3)
+    assert result["seconds"] > 0 and result["baseline_rate"] > 0
+
+
 def test_the_find_benchmark_compares_with_the_bare_window_query(tmp_path):
     result = queries.find(2000, tmp_path, queries=10)
     assert_shape(result, "find", 2000)
