@@ -74,6 +74,10 @@ def tour(src: Path, out: Path) -> list[Step]:
              ("find", "--value", "100n", "--use", "mains", "--safety", "X2", "--volts", "250")),
         Step("Kit five VFO boards (stable parts, pairs allowed).",
              ("kit", "plan", str(src / "vfo_7mhz_bom.csv"), "--boards", "5", "--combine")),
+        Step("The VFO's first board drifts −176 Hz over a 3 K warm-up; its tank (C1 + C4 + C2 in series "
+             "with C3) is 515 pF. Which N750 slice from the shelf nulls it?",
+             ("compensate", "--f0", "7MHz", "--tank", "515p", "--drift", "-176Hz", "--delta-t", "3",
+              "--combine", "--limit", "2")),
         Step("Kit ten LED flashers (a timing line and a reservoir).",
              ("kit", "plan", str(src / "led_flasher_bom.xlsx"), "--boards", "10", "--spare", "5%")),
         Step("Kit two mains inlets: the X2 and Y2 positions take only safety-rated parts.",

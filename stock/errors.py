@@ -74,6 +74,23 @@ class BadValue(StockError, ValueError):
 
 
 @dataclass
+class BadOptions(StockError, ValueError):
+    """Options that do not go together, or one of a set that must be given and is not.
+
+    >>> print(BadOptions(("--tank", "--coil"), "neither was given", "one of them, such as --tank 300p or --coil 4.7uH"))
+    --tank/--coil: neither was given (expected one of them, such as --tank 300p or --coil 4.7uH)
+    """
+
+    options: tuple[str, ...]
+    reason: str
+    expected: str
+    exit_code = 2
+
+    def __str__(self) -> str:
+        return f"{'/'.join(self.options)}: {self.reason} (expected {self.expected})"
+
+
+@dataclass
 class NotFound(StockError, LookupError):
     """A bin, plan or other named thing that is not in the store.
 

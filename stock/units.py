@@ -4,8 +4,9 @@ Output follows the SI/IEC 80000 habit of a space between number and unit and a r
 ``4.7 nF``, ``±10 %``, ``+80/−20 %``, ``100 V DC``, ``−55…+125 °C``. Capacitance picks pF below
 1 nF, nF below 1 µF, µF below 1 F, then F.
 
-Reading typed percentages and temperature ranges is here too; typed capacitances and voltages,
-which need the code tables, are read by :mod:`stock.markings.typed_values`.
+Reading typed percentages, temperature ranges, frequencies, inductances, times and measured drifts
+is here too; typed capacitances and voltages, which need the code tables, are read by
+:mod:`stock.markings.typed_values`.
 
 >>> format_capacitance(Decimal(4700)), format_capacitance(Decimal(100)), format_capacitance(Decimal(2200000))
 ('4.7 nF', '100 pF', '2.2 µF')
@@ -14,7 +15,7 @@ which need the code tables, are read by :mod:`stock.markings.typed_values`.
 from __future__ import annotations
 
 import re
-from decimal import Decimal
+from decimal import Decimal, InvalidOperation
 
 from stock.decoded import Tolerance
 from stock.errors import BadValue
@@ -142,6 +143,102 @@ def parse_temperature_range(text: str, what: str = "--temp") -> tuple[Decimal, D
     return low, high
 
 
-__all__ = ["MINUS", "format_capacitance", "format_number", "format_temperature",
-           "format_temperature_range", "format_tolerance", "format_voltage", "clean_typed",
-           "parse_percent", "parse_temperature_range"]
+_SI = {"": 0, "k": 3, "K": 3, "M": 6, "m": -3, "u": -6, "µ": -6, "n": -9, "G": 9}
+_QUANTITY = re.compile(r"\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*([kKMGmuµn]?)\s*(\w*)\s*")
+
+
+def _quantity(text: str, units: tuple[str, ...], what: str, expected: str, *, signed: bool = False) -> Decimal:
+    match = _QUANTITY.fullmatch(str(text).replace(MINUS, "-"))
+    if not match or match[3].lower() not in units:
+        raise BadValue(what, str(text), expected)
+    try:
+        value = Decimal(match[1]).scaleb(_SI[match[2]])
+    except InvalidOperation:
+        raise BadValue(what, str(text), expected) from None
+    if not value.is_finite() or (not signed and value <= 0):
+        raise BadValue(what, str(text), expected)
+    return value
+
+
+def parse_frequency(text: str, what: str = "--f0") -> Decimal:
+    """A frequency typed by a user, in Hz: ``10MHz``, ``455k``, ``7.1 MHz``, ``1e6``.
+
+    Raises:
+        BadValue: the text is not a positive frequency.
+
+    >>> parse_frequency("10MHz"), parse_frequency("455k")
+    (Decimal('1.0E+7'), Decimal('4.55E+5'))
+    """
+    return _quantity(text, ("", "hz"), what, "a frequency above zero such as 10MHz, 455kHz or 1e6")
+
+
+def parse_inductance(text: str, what: str = "--coil") -> Decimal:
+    """An inductance typed by a user, in H: ``10uH``, ``2.2mH``, ``1e-6``.
+
+    Raises:
+        BadValue: the text is not a positive inductance.
+
+    >>> parse_inductance("10uH")
+    Decimal('0.000010')
+    """
+    return _quantity(text, ("", "h"), what, "an inductance above zero such as 10uH or 2.2mH")
+
+
+def parse_period(text: str, what: str = "--period") -> Decimal:
+    """A time typed by a user, in s: ``1.5s``, ``10ms``, ``2``.
+
+    >>> parse_period("10ms")
+    Decimal('0.010')
+    """
+    return _quantity(text, ("", "s"), what, "a time such as 1.5s or 10ms")
+
+
+_KELVIN = re.compile(r"\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+))\s*(?:K|°C|C)?\s*", re.IGNORECASE)
+
+
+def parse_kelvin(text: str, what: str = "--delta-t") -> Decimal:
+    """A temperature change in K (``10``, ``-15``, ``10K``).
+
+    >>> parse_kelvin("-15")
+    Decimal('-15')
+    """
+    match = _KELVIN.fullmatch(str(text).replace(MINUS, "-"))
+    if not match:
+        raise BadValue(what, str(text), "a temperature change in K such as 10 or -15")
+    return Decimal(match[1])
+
+
+# A measured drift: a frequency shift (Hz with an SI prefix, or ppm of the frequency), per kelvin or
+# over a stated temperature change. The prefix is case-sensitive (m milli, M mega); the unit is not.
+_DRIFT = re.compile(r"([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)"
+                    r"(?:([kMm]?)(hz)|(ppm))(/(?:k|°c|°k|c|degc|deg))?", re.IGNORECASE)
+DRIFT_UNITS = ("Hz/K", "ppm/K", "Hz", "ppm")
+
+
+def parse_drift(text: str, what: str = "--drift") -> tuple[Decimal, str]:
+    """A measured drift typed by a user: ``-20Hz/K``, ``-3ppm/K``, ``-60Hz`` (over a stated change).
+
+    Returns:
+        (value, unit) with the unit one of :data:`DRIFT_UNITS`: a shift per kelvin (``Hz/K``,
+        ``ppm/K``) or a whole shift (``Hz``, ``ppm``) that needs the temperature change beside it.
+
+    Raises:
+        BadValue: the text is not a number with one of those units (a bare number is refused:
+            Hz and ppm differ by the frequency, a million-fold at 1 MHz).
+
+    >>> parse_drift("-20Hz/K"), parse_drift("−3 ppm/°C"), parse_drift("0.06kHz")
+    ((Decimal('-20'), 'Hz/K'), (Decimal('-3'), 'ppm/K'), (Decimal('60'), 'Hz'))
+    """
+    cleaned = str(text).strip().replace(MINUS, "-").replace("\u2013", "-").replace(" ", "")
+    match = _DRIFT.fullmatch(cleaned)
+    if not match:
+        raise BadValue(what, str(text), "a drift with its unit, such as -20Hz/K, -3ppm/K, "
+                                        "or -60Hz with --delta-t 3")
+    value = Decimal(format(Decimal(match[1]).scaleb(_SI[match[2] or ""]), "f"))  # plain digits
+    unit = ("Hz" if match[3] else "ppm") + ("/K" if match[5] else "")
+    return value, unit
+
+
+__all__ = ["DRIFT_UNITS", "MINUS", "clean_typed", "format_capacitance", "format_number", "format_temperature",
+           "format_temperature_range", "format_tolerance", "format_voltage", "parse_drift", "parse_frequency",
+           "parse_inductance", "parse_kelvin", "parse_percent", "parse_period", "parse_temperature_range"]

@@ -268,6 +268,28 @@ def _read_old_name(code: str) -> DielectricReading | None:
     return DielectricReading(code, chosen, alternatives)
 
 
+def usual_tempco_tolerance(code: str) -> tuple[Decimal, str] | None:
+    """The tolerance on α an old name is usually sold with: that of its EIA-198 equivalent.
+
+    Returns (± ppm/K, the EIA code) for a name in :data:`OLD_CLASS1_NAMES`, or for a bare tempco
+    that one of them names (``-750 ppm/K``); None for anything else.
+
+    >>> usual_tempco_tolerance("N150"), usual_tempco_tolerance("N750"), usual_tempco_tolerance("P100")
+    ((Decimal('30'), 'P2G'), (Decimal('120'), 'U2J'), (Decimal('30'), 'M7G'))
+    >>> usual_tempco_tolerance("X7R") is None
+    True
+    """
+    name = SPELLINGS.get(code.strip().upper(), code.strip().upper())
+    if name not in OLD_CLASS1_NAMES:
+        reading = _read_ppm(name.replace(" ", "").replace("/K", "").upper()) if "PPM" in name else None
+        tempco = reading.dielectric.tempco_ppm_per_k if reading else None
+        name = next((n for n, (a, _) in OLD_CLASS1_NAMES.items() if tempco is not None and a == tempco), "")
+    if name not in OLD_CLASS1_NAMES:
+        return None
+    eia = OLD_CLASS1_NAMES[name][1]
+    return CLASS1_TOLERANCE[eia[2]], eia
+
+
 def _read_iec_class2(code: str) -> DielectricReading | None:
     match = _IEC2.fullmatch(code)
     if not match or match[1] not in IEC_CLASS2_CHANGE or match[2] not in IEC_CLASS2_RANGE:
@@ -334,4 +356,5 @@ def decode_dielectric(token: str) -> Dielectric | None:
 
 
 __all__ = ["CLASS1_FIGURE", "CLASS1_MULTIPLIER", "CLASS1_TOLERANCE", "CLASS2_CHANGE", "CLASS2_HIGH",
-           "CLASS2_LOW", "OLD_CLASS1_NAMES", "DielectricReading", "decode_dielectric", "read_dielectric"]
+           "CLASS2_LOW", "OLD_CLASS1_NAMES", "DielectricReading", "decode_dielectric", "read_dielectric",
+           "usual_tempco_tolerance"]

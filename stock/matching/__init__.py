@@ -1,1 +1,2 @@
-"""Parts for a requirement: what a position asks (``requirement``) and the shelf searched (``search``)."""
+"""Parts for a requirement: what a position asks (``requirement``), the shelf searched (``search``),
+and the tempco parts that null a drifting oscillator (``compensating``)."""

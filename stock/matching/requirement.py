@@ -40,7 +40,7 @@ from functools import cached_property, lru_cache
 from typing import Any
 
 from stock.physics import combining
-from stock.markings.ceramic_codes import decode_dielectric, read_dielectric
+from stock.markings.ceramic_codes import decode_dielectric, read_dielectric, usual_tempco_tolerance
 from stock.decoded import FAMILIES, Dielectric, Marking, Tolerance
 from stock.errors import BadValue
 from stock.physics.grading import APPLICATIONS, Conditions, grade, worst_case
@@ -129,9 +129,8 @@ def parse_tempco_window(text: str) -> tuple[Decimal, Decimal]:
         raise BadValue("--tempco", raw, expected)
     tol = diel.tempco_tol_ppm_per_k
     if tol is None:  # an old name: take the tolerance of the EIA code it is usually sold as
-        tol = next((a.dielectric.tempco_tol_ppm_per_k for a in reading.alternatives
-                    if a.dielectric is not None and a.dielectric.tempco_ppm_per_k == diel.tempco_ppm_per_k
-                    and a.dielectric.tempco_tol_ppm_per_k is not None), None)
+        usual = usual_tempco_tolerance(diel.code)
+        tol = usual[0] if usual else None
     if tol is None:
         raise BadValue("--tempco", raw, f"a window such as {fmt(diel.tempco_ppm_per_k)}±60: "
                                         f"{text.strip()} names a tempco but no tolerance on it")

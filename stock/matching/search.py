@@ -229,6 +229,23 @@ def candidates(store: Store, req: Requirement) -> list[Match]:
     return found
 
 
+def linear_tempco_parts(store: Store) -> list[Stocked]:
+    """Every Class 1 ceramic on hand with a stated tempco and at least one part available, by value.
+
+    The flat columns pre-filter; the stored marking (a settled reading wins) has the last word.
+    """
+    sql = (f"{_SELECT} WHERE p.class = 1 AND p.tempco_ppm_per_k IS NOT NULL AND p.capacitance_pf > 0"
+           " AND s.available > 0 ORDER BY p.capacitance_pf, b.bin_key")
+    found = []
+    for row in store.rows(sql):
+        part = _stocked(row)
+        d = part.marking.dielectric
+        if (d is not None and d.klass == 1 and d.tempco_ppm_per_k is not None
+                and part.marking.capacitance_pf is not None and part.marking.capacitance_pf > 0):
+            found.append(part)
+    return found
+
+
 # The pair index of each open store, rebuilt when the database changes: PRAGMA data_version moves
 # when another connection commits, total_changes when this one writes. Kit planning asks for many
 # lines in a row, and the index costs a full read of the parts table.
@@ -516,4 +533,5 @@ def find(store: Store, req: Requirement, *, combine: bool = False, limit: int = 
 __all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION", "SAFETY_SUBSTITUTES",
            "Combination", "FindResult", "Match", "PairPart", "Requirement", "Stocked", "Verdict",
            "build_requirement", "candidates", "check_pair", "check_part", "check_single", "check_tempco",
-           "check_value", "find", "parse_tempco_window", "safety_classes", "safety_covers"]
+           "check_value", "find", "linear_tempco_parts", "parse_tempco_window", "safety_classes",
+           "safety_covers"]

@@ -18,15 +18,15 @@ Decimal('3162296')
 
 from __future__ import annotations
 
-import re
 from dataclasses import dataclass
-from decimal import Decimal, InvalidOperation, localcontext
+from decimal import Decimal, localcontext
 from typing import Any
 
 from stock.decoded import Marking
 from stock.errors import BadValue
 from stock.physics.stability import REFERENCE_C, assumed_tempco_tol, temperature_figures
-from stock.units import format_capacitance, format_number
+from stock.units import (format_capacitance, format_number, parse_frequency, parse_inductance, parse_kelvin,
+                         parse_period)
 
 PI = Decimal("3.14159265358979323846264338327950288")
 
@@ -236,65 +236,6 @@ def timer_drift(marking: Marking, delta_t_k: Decimal, period_s: Decimal | None =
     (Decimal('-0.18'), Decimal('0.18'))
     """
     return TimerDrift(marking.text, delta_t_k, part_drift(marking, delta_t_k), period_s)
-
-
-_SI = {"": 0, "k": 3, "K": 3, "M": 6, "m": -3, "u": -6, "µ": -6, "n": -9, "G": 9}
-_QUANTITY = re.compile(r"\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?)\s*([kKMGmuµn]?)\s*(\w*)\s*")
-
-
-def _quantity(text: str, units: tuple[str, ...], what: str, expected: str, *, signed: bool = False) -> Decimal:
-    match = _QUANTITY.fullmatch(str(text).replace("\u2212", "-"))
-    if not match or match[3].lower() not in units:
-        raise BadValue(what, str(text), expected)
-    try:
-        value = Decimal(match[1]).scaleb(_SI[match[2]])
-    except InvalidOperation:
-        raise BadValue(what, str(text), expected) from None
-    if not signed and value <= 0:
-        raise BadValue(what, str(text), expected)
-    return value
-
-
-def parse_frequency(text: str, what: str = "--f0") -> Decimal:
-    """A frequency typed by a user, in Hz: ``10MHz``, ``455k``, ``7.1 MHz``, ``1e6``.
-
-    >>> parse_frequency("10MHz"), parse_frequency("455k")
-    (Decimal('1.0E+7'), Decimal('4.55E+5'))
-    """
-    return _quantity(text, ("", "hz"), what, "a frequency such as 10MHz, 455kHz or 1e6")
-
-
-def parse_inductance(text: str, what: str = "--coil") -> Decimal:
-    """An inductance typed by a user, in H: ``10uH``, ``2.2mH``, ``1e-6``.
-
-    >>> parse_inductance("10uH")
-    Decimal('0.000010')
-    """
-    return _quantity(text, ("", "h"), what, "an inductance such as 10uH or 2.2mH")
-
-
-def parse_period(text: str, what: str = "--period") -> Decimal:
-    """A time typed by a user, in s: ``1.5s``, ``10ms``, ``2``.
-
-    >>> parse_period("10ms")
-    Decimal('0.010')
-    """
-    return _quantity(text, ("", "s"), what, "a time such as 1.5s or 10ms")
-
-
-_KELVIN = re.compile(r"\s*([+-]?(?:\d+(?:\.\d*)?|\.\d+))\s*(?:K|°C|C)?\s*", re.IGNORECASE)
-
-
-def parse_kelvin(text: str, what: str = "--delta-t") -> Decimal:
-    """A temperature change in K (``10``, ``-15``, ``10K``).
-
-    >>> parse_kelvin("-15")
-    Decimal('-15')
-    """
-    match = _KELVIN.fullmatch(str(text).replace("\u2212", "-"))
-    if not match:
-        raise BadValue(what, str(text), "a temperature change in K such as 10 or -15")
-    return Decimal(match[1])
 
 
 __all__ = [

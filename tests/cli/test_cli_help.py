@@ -29,7 +29,7 @@ COMMANDS = list(_commands(typer.main.get_command(app)))
 def test_the_command_tree_has_the_promised_commands():
     names = {" ".join(c) for c in COMMANDS}
     assert {"decode", "import", "bins", "show", "quarantine", "flags", "settle", "merge", "grade",
-            "drift", "find", "kit plan", "kit pull", "kit undo", "kit drop", "kit picklist",
+            "drift", "compensate", "find", "kit plan", "kit pull", "kit undo", "kit drop", "kit picklist",
             "export purchasing", "export inventory", "export count", "check", "demo"} <= names
 
 

@@ -17,7 +17,7 @@ from stock.decoded import Tolerance
 from stock.errors import BadValue
 from stock.markings.typed_values import parse_capacitance, parse_voltage
 from stock.units import (format_capacitance, format_temperature_range, format_tolerance, format_voltage,
-                         parse_percent, parse_temperature_range)
+                         parse_drift, parse_percent, parse_temperature_range)
 
 D = Decimal
 
@@ -131,3 +131,24 @@ def test_unreadable_voltage_is_refused(text):
 def test_formatted_capacitance_parses_back_to_the_same_value(pf):
     text = format_capacitance(pf).replace(" ", "").replace("µ", "u").replace("−", "-")
     assert parse_capacitance(text) == pf
+
+
+# A measured drift (SI prefixes as above; ppm = parts per million of the frequency).
+@pytest.mark.parametrize(("text", "value", "unit"), [
+    pytest.param("-20Hz/K", "-20", "Hz/K", id="hz-per-kelvin"),
+    pytest.param("−20 Hz/K", "-20", "Hz/K", id="real-minus-and-space"),
+    pytest.param("-20Hz/°C", "-20", "Hz/K", id="per-degree-is-per-kelvin"),
+    pytest.param("+1.5kHz/K", "1500", "Hz/K", id="kilohertz"),            # 1.5 × 10³
+    pytest.param("-3ppm/K", "-3", "ppm/K", id="ppm-per-kelvin"),
+    pytest.param("-60Hz", "-60", "Hz", id="whole-shift"),
+    pytest.param("-9ppm", "-9", "ppm", id="whole-shift-ppm"),
+    pytest.param("250mHz/K", "0.25", "Hz/K", id="millihertz"),             # 250 × 10⁻³
+])
+def test_a_measured_drift_parses_with_its_unit(text, value, unit):
+    assert parse_drift(text) == (D(value), unit)
+
+
+@pytest.mark.parametrize("text", ["-20", "fast", "-20V/K", "-20 Hz per K", ""])
+def test_a_drift_without_a_drift_unit_is_refused(text):
+    with pytest.raises(BadValue, match=r"--drift: cannot read .* \(expected a drift with its unit"):
+        parse_drift(text)
