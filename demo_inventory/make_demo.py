@@ -6,7 +6,11 @@ one sheet per cabinet) plus a semicolon-separated cp1252 CSV typed on another ma
 drawer cabinet by the window. The markings are of every kind the decoders read, with the typos,
 ambiguous codes, a label that contradicts its marking, a duplicate bin and a few bad rows that
 a real register has. Three BOMs of our own design go with it: a 7 MHz VFO board that needs
-stable parts, a two-LED flasher with a 555 timer, and a mains inlet with an X2 position.
+stable parts, a two-LED flasher with a 555 timer, and a mains inlet with an X2 position. A fourth,
+exported from a CAD program (footprint names, grouped designators, a do-not-fit column), is the
+control board of the bench's own supply; the SMD drawers bought for it record each part's package.
+The tour ends with a repair of our own invention: an old receiver's oscillator whose silver mica (dots
+white orange orange red gold brown, 330 pF) has failed, replaced from cabinets A and B.
 """
 
 from __future__ import annotations
@@ -148,6 +152,37 @@ CABINET_C = [
     ("C30", "5,6nF", "562", "100V", "C0G", "J", "25", "", ""),
 ]
 
+# The SMD drawers, with a package and mounting per bin (and a few through-hole cans).
+# (drawer, value, code, WV, dielectric, tol, package, mounting, qty, notes)
+SMD_DRAWERS = [
+    ("D1", "100nF", "104", "50V", "X7R", "K", "0805", "SMD", "400", ""),
+    ("D2", "100nF", "104", "50V", "C0G", "J", "0805", "SMD", "1000", "reel, for the filter boards"),
+    ("D3", "22pF", "220", "50V", "C0G", "J", "0805", "SMD", "150", ""),
+    ("D4", "22pF", "220", "50V", "C0G", "J", "0603", "SMD", "200", ""),
+    ("D5", "10uF", "106", "16V", "X5R", "K", "0805", "SMD", "300", ""),
+    ("D6", "1uF", "105", "25V", "X7R", "K", "0603", "SMD", "400", ""),
+    ("D7", "10nF", "103", "50V", "X7R", "K", "0603", "SMD", "500", ""),
+    ("D8", "100uF", "", "25V", "electrolytic", "", "radial 6.3x11 P2.5mm", "THT", "60", ""),
+    ("D9", "100uF", "", "35V", "electrolytic", "", "radial D8mm P3.5mm", "THT", "40", ""),
+    ("D10", "1uF", "105", "35V", "tantalum", "K", "case A", "SMD", "50", "band = +"),
+]
+SMD_HEADERS = ["Drawer", "Value", "Code", "WV", "Dielectric", "Tol", "Package", "Mounting", "Qty", "Notes"]
+
+# The bench supply's control board as a CAD program exports it.
+# (Reference, Value, Footprint, Quantity, DNP)
+BOM_SUPPLY = [
+    ("C1,C2,C5,C8", "100n", "Capacitor_SMD:C_0805_2012Metric", "4", ""),
+    ("C3", "22p", "Capacitor_SMD:C_0603_1608Metric", "1", ""),
+    ("C4", "100u 25V", "Capacitor_THT:CP_Radial_D6.3mm_P2.50mm", "1", ""),
+    ("C6", "10u", "Capacitor_SMD:C_0805_2012Metric", "1", ""),
+    ("C7", "1u", "Capacitor_Tantalum_SMD:CP_EIA-3216-18_Case-A", "1", ""),
+    ("C9", "10nF 0603", "", "1", ""),
+    ("C10", "100n", "Capacitor_SMD:C_0805_2012Metric", "1", "DNP"),
+    ("C11..C12", "100n 50V X7R", "Capacitor_SMD:C_0805_2012Metric", "1", ""),
+    ("R1-R4", "10k", "Resistor_SMD:R_0805_2012Metric", "4", ""),
+]
+SUPPLY_HEADERS = ["Reference", "Value", "Footprint", "Quantity", "DNP"]
+
 # Three boards. (refs, qty per board, value, tolerance, voltage, dielectric, use, type, notes)
 BOM_VFO = [
     ("C1", 1, "100p", "5%", "50V", "C0G", "tuned", "capacitor", "main tank"),
@@ -227,7 +262,18 @@ def build(out: Path = HERE) -> list[Path]:
         w.writerow(["Drawer", "Value", "Code", "WV", "Dielectric/Type", "Tol", "Qty", "Date code", "Remarks"])
         w.writerows(CABINET_C)
 
-    written = [register, drawers]
+    smd = out / "smd_drawers.csv"
+    with open(smd, "w", newline="", encoding="utf-8") as fh:
+        w = csv.writer(fh)
+        w.writerow(SMD_HEADERS)
+        w.writerows(SMD_DRAWERS)
+    supply = out / "bench_supply_bom.csv"
+    with open(supply, "w", newline="", encoding="utf-8") as fh:
+        w = csv.writer(fh)
+        w.writerow(SUPPLY_HEADERS)
+        w.writerows(BOM_SUPPLY)
+
+    written = [register, drawers, smd, supply]
     for name, rows in (("vfo_7mhz_bom.csv", BOM_VFO), ("mains_inlet_bom.csv", BOM_MAINS)):
         path = out / name
         with open(path, "w", newline="", encoding="utf-8") as fh:

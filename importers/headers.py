@@ -91,6 +91,12 @@ BOM_ALIASES: dict[str, tuple[str, ...]] = {
                   "part kind", "class"),
     "notes": ("notes", "note", "comments", "comment", "remarks", "remark", "description", "desc",
               "memo", "info"),
+    # CAD exports: the footprint, and whether the part is fitted in this build
+    "package": BIN_ALIASES["package"] + ("footprint name", "pcb footprint", "land pattern", "pattern"),
+    "mounting": BIN_ALIASES["mounting"],
+    "dnp": ("dnp", "dnf", "dni", "do not fit", "do not place", "do not populate", "not fitted",
+            "no fit", "exclude from board", "exclude"),
+    "fitted": ("fitted", "fit", "populate", "populated", "place", "mount?", "fitted?"),
 }
 
 VOCABULARIES: dict[str, dict[str, tuple[str, ...]]] = {"bins": BIN_ALIASES, "bom": BOM_ALIASES}
@@ -333,11 +339,11 @@ def map_headers(headers: Iterable[str], vocabulary: Vocabulary = "bins",
         BadValue: an override names a field not in the vocabulary, or a header not in the sheet,
             or the same header for two fields.
 
-    >>> hm = map_headers(["Refs", "Qty", "Value", "Use", "Footprint"], "bom")
+    >>> hm = map_headers(["Refs", "Qty", "Value", "Use", "Footprint", "Supplier"], "bom")
     >>> sorted(hm.field_to_index.items())
-    [('application', 3), ('qty', 1), ('refs', 0), ('value', 2)]
+    [('application', 3), ('package', 4), ('qty', 1), ('refs', 0), ('value', 2)]
     >>> hm.unmapped
-    ('Footprint',)
+    ('Supplier',)
     """
     headers = tuple(str(h) for h in headers)
     index = _index_for(vocabulary)

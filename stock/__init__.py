@@ -12,13 +12,14 @@ layer (top first)     what lives there
 ``labels``            bin labels (PDF)
 ``sheets_out``        spreadsheets written: inventory, purchasing, count sheet
 ``kitting``           BOM reading, line rules, the planner, stored plans, pick lists
-``matching``          requirements and the search of the shelf (find)
+``matching``          requirements, the search of the shelf (find), stand-ins for a part (replace)
 ``inventory``         bins from sheets: intake, queries, stored grades, flags, settling
 ``physics``/``store`` grading physics and the application table / the SQLite store, its schema,
                       flag kinds and integrity check (the two never import each other)
 ``markings``          code tables, one module per standard, and the decoder
-``decoded``, ``units``,  the frozen decoded values, engineering formatting, count cells, errors
-``counts``, ``errors``
+``decoded``, ``units``,  the frozen decoded values, engineering formatting, count cells, errors,
+``counts``, ``errors``,  the text a bin label's QR code carries (and reading back a scan)
+``scan_codes``
 ====================  ===========================================================================
 
 ``importers/`` (file readers) sits beside ``markings``: it imports only ``stock.errors``.

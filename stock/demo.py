@@ -1,6 +1,7 @@
-"""The whole job on the demo shop, in one run: import, flags, grades, find, kits, pull, exports.
+"""The whole job on the demo shop, in one run: import, flags, grades, find, kits, pull, a repair,
+exports, labels.
 
-The demo shop (Lantern Bench Instruments) and its three BOMs live in ``demo_inventory/`` at the
+The demo shop (Lantern Bench Instruments) and its four BOMs live in ``demo_inventory/`` at the
 top of the source tree, written by ``demo_inventory/make_demo.py``. :func:`run_demo` makes a fresh
 database in a new folder and runs the real commands on it, printing each command line before
 its output, so every step can be repeated by hand.
@@ -15,8 +16,8 @@ from pathlib import Path
 
 from stock.errors import BadValue, NotFound
 
-DEMO_FILES = ("lantern_register.xlsx", "drawer_cabinet_c.csv")
-BOMS = ("vfo_7mhz_bom.csv", "led_flasher_bom.xlsx", "mains_inlet_bom.csv")
+DEMO_FILES = ("lantern_register.xlsx", "drawer_cabinet_c.csv", "smd_drawers.csv")
+BOMS = ("vfo_7mhz_bom.csv", "led_flasher_bom.xlsx", "mains_inlet_bom.csv", "bench_supply_bom.csv")
 
 
 def demo_source() -> Path:
@@ -82,14 +83,24 @@ def tour(src: Path, out: Path) -> list[Step]:
              ("kit", "plan", str(src / "led_flasher_bom.xlsx"), "--boards", "10", "--spare", "5%")),
         Step("Kit two mains inlets: the X2 and Y2 positions take only safety-rated parts.",
              ("kit", "plan", str(src / "mains_inlet_bom.csv"), "--boards", "2")),
+        Step("Add the SMD drawers, whose sheet records each part's package and mounting.",
+             ("import", str(src / "smd_drawers.csv"))),
+        Step("Kit three bench-supply control boards from a CAD export: footprints honoured, the"
+             " C0G reel kept, the do-not-fit line skipped.",
+             ("kit", "plan", str(src / "bench_supply_bom.csv"), "--boards", "3")),
         Step("The flashers' pick list, in drawer order.",
              ("kit", "picklist", "2", "--xlsx", str(out / "flasher_pick_list.xlsx"))),
         Step("Pull the flasher parts: one transaction, a ledger movement per bin.", ("kit", "pull", "2")),
+        Step("A repair: an old transistor receiver's local oscillator has a failed silver mica,"
+             " dots white orange orange red gold brown. What in the bins can take its place?",
+             ("replace", "white orange orange red gold brown", "--use", "tuned")),
         Step("What to order for every plan's shortfalls and every bin under its minimum.",
              ("export", "purchasing", str(out / "purchasing.xlsx"), "--below-minimum")),
         Step("The inventory workbook, with the drift-against-temperature chart.",
              ("export", "inventory", str(out / "inventory.xlsx"))),
         Step("A stock-take sheet to fill in and import back.", ("export", "count", str(out / "count.xlsx"))),
+        Step("Bin labels for the drawers: value, ratings, fit-for mark and a QR code of the bin.",
+             ("labels", str(out / "bin_labels.pdf"), "--layout", "a4-3x7-64x38")),
         Step("Verify the database: integrity, ledger against on-hand, no orphans.", ("check",)),
     ]
 
@@ -119,6 +130,7 @@ def run_demo(out: Path, echo: Callable[[str], None], run: Callable[[Sequence[str
         f"stock --db {shlex.quote(str(db))} flags                      # every open flag and how to settle it",
         f"stock --db {shlex.quote(str(db))} show 'cabinet a/a23'       # one bin: facts, readings, history",
         f"stock --db {shlex.quote(str(db))} kit undo 2                 # put the flasher parts back",
+        f"stock --db {shlex.quote(str(db))} show 'BIN:CABINET A/A11'   # what a scanner types from a label",
         f"stock --db {shlex.quote(str(db))} drift --part A5 --f0 7MHz --tank 250p --delta-t 10",
         f"stock --db {shlex.quote(str(db))} import {shlex.quote(str(out / 'count.xlsx'))}   # after filling in Counted",
         "stock decode '104K 2A X7R' '4n7 J 100V' 'yel-vio-brn' --json",

@@ -110,6 +110,27 @@ class NotFound(StockError, LookupError):
 
 
 @dataclass
+class BadLayout(StockError, ValueError):
+    """A label sheet layout that cannot be printed: labels off the page, negative margins, too small.
+
+    >>> print(BadLayout("--grid 4x8", "4 labels of 70 mm and 3 gaps of 0 mm need 280 mm, the page is 210 mm wide",
+    ...                 "at most 3 columns of 70 mm labels"))
+    --grid 4x8: 4 labels of 70 mm and 3 gaps of 0 mm need 280 mm, the page is 210 mm wide (expected at most 3 columns of 70 mm labels)
+    """
+
+    what: str
+    reason: str
+    expected: str = ""
+    exit_code = 2
+
+    def __str__(self) -> str:
+        text = f"{self.what}: {self.reason}"
+        if self.expected:
+            text += f" (expected {self.expected})"
+        return text
+
+
+@dataclass
 class Refused(StockError, RuntimeError):
     """An action refused because of the state of the stock (double pull, not enough parts ...).
 

@@ -27,9 +27,11 @@ COMMAND_MODULES: tuple[str, ...] = (
     "stock.cli.flags_cmd",
     "stock.cli.grade_cmd",
     "stock.cli.find_cmd",
+    "stock.cli.replace_cmd",
     "stock.cli.compensate_cmd",
     "stock.cli.kit_cmd",
     "stock.cli.export_cmd",
+    "stock.cli.labels_cmd",
     "stock.cli.check_cmd",
 )
 

@@ -33,11 +33,14 @@ Example:
 
 SHOW_HELP = """Show one bin in full: decoded facts, readings not chosen, flags, quantity history, source rows.
 
-BIN is a bin id, key ("cabinet 1/a2"), location or label.
+BIN is a bin id, key ("cabinet 1/a2"), location or label, or what a scanner reads from the
+bin's label (BIN:CABINET 1/A2; see `stock labels`).
 
-Example:
+Examples:
 
     stock show "cabinet 1/a2"
+
+    stock show "BIN:CABINET 1/A2"
 """
 
 QUARANTINE_HELP = """List the rows that were not stored: file, sheet, row, raw values, reason, how to fix.

@@ -25,7 +25,7 @@ def _report(as_json: bool, what: str, out: Path, rows: int) -> None:
     if as_json:
         typer.echo(json.dumps({"export": what, "path": str(out), "rows": rows}))
     else:
-        typer.echo(f"wrote {out} ({rows} rows)")
+        typer.echo(f"wrote {out} ({rows} row{'' if rows == 1 else 's'})")
 
 
 @export_app.command("purchasing")

@@ -14,14 +14,20 @@ kit_app = typer.Typer(no_args_is_help=True, help="Kit a build from stock: plan a
 
 PLAN_HELP = """Plan a build: choose bins for every capacitor line of a BOM and reserve the parts.
 
-Each line needs qty per board × boards (+ --spare, rounded up). Bins are chosen fit grade first,
-exact value next, fewest bins, part-full bins used up. A looser tolerance or a lower dielectric
-class is used only when --allow says so; a mains line takes only X/Y parts of its class; a tuned
-line never takes a Class 2 ceramic. Lines for other kinds of parts are listed as not tracked.
+Each line needs qty per board × boards (+ --spare, rounded up). A footprint or package column
+(C_0805_2012Metric, CP_Radial_D5.0mm_P2.00mm) is honoured: a bin whose package does not fit is
+never used, one whose package is not recorded only after the rest. Among the bins left, the part
+that gives up least goes first (no spare safety rating, the plainest dielectric, no tighter
+tolerance than asked), then the fullest bin, then location order. A looser tolerance or a lower
+dielectric class is used only when --allow says so; a mains line takes only X/Y parts of its
+class; a tuned line never takes a Class 2 ceramic. Do-not-fit lines (a DNP column, or DNP in the
+value) take nothing; lines for other kinds of parts are listed as not tracked.
 
 Examples:
 
     stock kit plan amp-board.csv --boards 5 --spare 5%
+
+    stock kit plan control-board.csv --boards 3 --map package=Footprint --map dnp="Do not fit"
 
     stock kit plan tuner.xlsx --boards 2 --temp -10..60 --combine --allow looser-tolerance --json
 """
@@ -124,12 +130,60 @@ def _action(ctx: typer.Context, name: str, plan: str, as_json: bool) -> None:
         typer.echo(f"{bin_key}\t{delta:+d}")
 
 
-@kit_app.command("pull", help="Take a plan's parts out of their bins (one transaction; a second pull is refused).\n\n"
-                 "Example:\n\n    stock kit pull 3")
+PULL_HELP = """Take a plan's parts out of their bins (one transaction; a second pull is refused).
+
+With --scan, confirm each pick first: scan each bin's label (or type the bin) as you take its
+parts, one per line. A bin outside the plan is named and changes nothing; the plan is pulled
+when every bin has been confirmed, and nothing is taken if the input ends before that.
+
+Examples:
+
+    stock kit pull 3
+
+    stock kit pull 3 --scan
+"""
+
+
+@kit_app.command("pull", help=PULL_HELP)
 def pull_command(ctx: typer.Context,
                  plan: Annotated[str, typer.Argument(help="The plan number.")],
+                 scan: Annotated[bool, typer.Option("--scan", help="Confirm each bin by scanning its label first.")] = False,
                  as_json: Annotated[bool, typer.Option("--json", help="Print what moved as JSON.")] = False) -> None:
+    if scan:
+        _scan_and_pull(ctx, plan, as_json)
+        return
     _action(ctx, "pull", plan, as_json)
+
+
+def _scan_and_pull(ctx: typer.Context, plan: str, as_json: bool) -> None:
+    import sys
+
+    from stock.kitting.pick_scan import check_scan, plan_picks, pull_confirmed
+
+    with _store(ctx) as store:
+        picks = plan_picks(store, plan)
+        confirmed: set[str] = set()
+        scans = []
+        if picks:
+            typer.echo(f"plan {plan}: scan each bin as you pick ({len(picks)} bins)", err=True)
+        for text in sys.stdin if picks else ():
+            if not text.strip():
+                continue
+            result = check_scan(store, picks, confirmed, text)
+            scans.append(result)
+            if result.in_plan:
+                typer.echo(f"ok\t{result.bin_key}\ttake {result.take}\t{len(result.remaining)} to go", err=True)
+            else:
+                typer.echo(f"not this\t{result.problem}", err=True)
+            if not result.remaining:
+                break
+        done = pull_confirmed(store, plan, confirmed)
+    if as_json:
+        _echo_json({**done.to_json(), "scans": [s.to_json() for s in scans]})
+        return
+    typer.echo(f"plan {done.plan}: {done.status}")
+    for bin_key, delta in done.moves:
+        typer.echo(f"{bin_key}\t{delta:+d}")
 
 
 @kit_app.command("undo", help="Put a pulled plan's parts back in their bins.\n\nExample:\n\n    stock kit undo 3")

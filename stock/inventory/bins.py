@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import json
 import re
+from collections.abc import Iterable
 from decimal import Decimal
 from functools import lru_cache
 from typing import Any
@@ -189,6 +190,40 @@ def bin_detail(store: Store, ref: str) -> dict[str, Any]:
     return detail
 
 
+def bin_parts(store: Store, bin_ids: Iterable[int] | None = None) -> list[tuple[dict[str, Any], Marking]]:
+    """Bins that hold a part, by key, each with its row (id, key, location, label, cabinet) and marking.
+
+    With ``bin_ids``, only those bins (in key order still).
+    """
+    sql = ("SELECT b.id, b.bin_key, b.location, b.label, b.cabinet, p.marking, p.decoded_json,"
+           " p.settled_json FROM bins b JOIN parts p ON p.bin_id = b.id")
+    params: tuple[Any, ...] = ()
+    if bin_ids is not None:
+        sql += " WHERE b.id IN (SELECT value FROM json_each(?))"
+        params = (json.dumps(sorted(set(int(i) for i in bin_ids))),)
+    return [(row, part_marking(row)) for row in store.rows(sql + " ORDER BY b.bin_key", params)]
+
+
+def bins_changed_since(store: Store, since: str) -> set[int]:
+    """Bins with a ledger movement (count, pull, settle …) or a changed record at or after ``since``.
+
+    ``since`` is an ISO 8601 time or date in UTC, the form the tables store (a bare date means
+    its midnight, which sorts first among that day's times).
+    """
+    return {r["bin_id"] for r in store.rows(
+        "SELECT bin_id FROM ledger WHERE at >= ? UNION SELECT id FROM bins WHERE updated_at >= ?",
+        (since, since))}
+
+
+def open_flag_kinds(store: Store) -> dict[int, tuple[str, ...]]:
+    """The kinds of each bin's open flags, oldest first, each kind once (bins without any left out)."""
+    kinds: dict[int, dict[str, None]] = {}
+    for f in store.rows("SELECT bin_id, kind FROM flags WHERE status = 'open' AND bin_id IS NOT NULL"
+                        " ORDER BY id"):
+        kinds.setdefault(f["bin_id"], {})[f["kind"]] = None
+    return {bin_id: tuple(found) for bin_id, found in kinds.items()}
+
+
 def quarantined_rows(store: Store) -> list[dict[str, Any]]:
     """Rows not stored, from the latest import of each file and sheet, with how to fix each.
 
@@ -214,4 +249,4 @@ def quarantined_rows(store: Store) -> list[dict[str, Any]]:
     return out
 
 
-__all__ = ["bin_detail", "list_bins", "natural_key", "part_marking", "quarantined_rows", "stored_marking"]
+__all__ = ["bin_detail", "bin_parts", "bins_changed_since", "list_bins", "open_flag_kinds", "natural_key", "part_marking", "quarantined_rows", "stored_marking"]

@@ -145,5 +145,16 @@ def refresh_stored_grades(store, bin_ids: Iterable[int] | None = None) -> int:
     return graded
 
 
+def stored_grade_words(store) -> dict[int, dict[str, str]]:
+    """Each bin's stored grade word per application at the default conditions.
 
-__all__ = ["BinGrades", "bin_marking", "current_version", "grade_bins", "refresh_stored_grades"]
+    Call :func:`refresh_stored_grades` first where the grading table may have changed.
+    """
+    words: dict[int, dict[str, str]] = {}
+    for row in store.rows("SELECT bin_id, application, grade FROM grades"):
+        words.setdefault(row["bin_id"], {})[row["application"]] = row["grade"]
+    return words
+
+
+__all__ = ["BinGrades", "bin_marking", "current_version", "grade_bins", "refresh_stored_grades",
+           "stored_grade_words"]

@@ -6,9 +6,11 @@ The rules (common practice, no published source, except where a standard is name
   (:func:`stock.search.safety_covers`); a part without a class never goes there. No allowance
   relaxes this.
 - A tuned line never takes a Class 2 ceramic, nor a part whose dielectric is unknown.
-- A polarised part goes only where the BOM says the position is polarised, or, when the line
-  names no dielectric, at a bulk, bypass or timing position of 1 µF or more (where electrolytics
-  are the norm), with a note to fit it by the board's polarity mark.
+- A polarised part never goes on a CAD footprint named as unpolarised (``C_0805_2012Metric``;
+  the libraries name polarised ones ``CP_…``): the board marks no polarity there. Otherwise it
+  goes only where the BOM says the position is polarised (a polarised footprint says so), or,
+  when the line names no dielectric, at a bulk, bypass or timing position of 1 µF or more
+  (where electrolytics are the norm), with a note to fit it by the board's polarity mark.
 - The rated voltage asked is a minimum: a higher rating is allowed and said so.
 - A Class 1 code or tempco window needs a linear tempco inside the window (C0G for NP0 is the same
   characteristic); a Class 2 code takes Class 1 parts or Class 2 ones that cover its range and
@@ -17,8 +19,11 @@ The rules (common practice, no published source, except where a standard is name
 - The whole tolerance band of the part must stay inside the line's tolerance; ``looser-tolerance``
   relaxes this to the nominal value alone.
 
-Bins are then chosen by :func:`choose_bins`: fit before marginal, exact value before near, fewest
-bins, part-full bins used up.
+- A part whose package is known not to fit the line's footprint is never used
+  (:func:`stock.markings.packages.fits`); one whose package is not recorded comes after the rest.
+
+Bins are then ordered by :mod:`stock.kitting.bin_order`, so the part that gives up least goes
+first.
 """
 
 from __future__ import annotations
@@ -28,36 +33,14 @@ from dataclasses import dataclass
 from decimal import Decimal
 from typing import Any
 
-from stock.inventory.bins import natural_key
-from stock.kitting.bom import POLARISED_FAMILIES, BomLine
 from stock.decoded import Marking
+from stock.inventory.bins import natural_key
+from stock.kitting.bin_order import GRADE_RANK, Candidate, choose_bins
+from stock.kitting.bom import POLARISED_FAMILIES, BomLine
 
 ALLOWANCES = ("looser-tolerance", "lower-class")
-GRADE_RANK = {"fit": 0, "marginal": 1, "unknown": 2}
 POLARISED_FROM_PF = Decimal(1_000_000)   # 1 µF (common practice, no published source)
 HIGH_VOLTAGE_V = Decimal(50)   # above this a charged part can hurt (common practice, no published source)
-
-
-@dataclass(frozen=True)
-class Candidate:
-    """A bin that could feed a line: what it holds, how many are free, and its grade."""
-
-    bin_id: int
-    bin_key: str
-    location: str | None
-    marking: Marking
-    capacitance_pf: Decimal
-    available: int
-    grade: str | None = None
-    grade_reasons: tuple[str, ...] = ()
-    exact: bool = True
-    doubts: tuple[str, ...] = ()    # open flags that question the part (shelf life, a conflict …)
-
-    @property
-    def tier(self) -> tuple[int, int, int]:
-        """Fit before marginal, the exact value before a near one, undoubted bins before bins with
-        open doubts (lower sorts first)."""
-        return GRADE_RANK.get(self.grade or "fit", 1), 0 if self.exact else 1, 1 if self.doubts else 0
 
 
 @dataclass(frozen=True)
@@ -117,14 +100,18 @@ def check_part(line: BomLine, marking: Marking, capacitance_pf: Decimal | None,
             return Verdict(f"{dielectric.code} is a Class 2 ceramic; never in a tuned circuit")
     polarised = marking.polarity is not None or (dielectric is not None
                                                  and dielectric.family in POLARISED_FAMILIES)
+    pads = line.package
+    if polarised and pads is not None and pads.cad_name and not pads.polarised_hint:
+        return Verdict(f"polarised part for the unpolarised footprint {pads.raw!r}: the board marks"
+                       " no polarity there")
     if polarised and not line.polarised:
         what = (dielectric.family if dielectric else marking.polarity or "").replace("-", " ")
         if not _polarised_fits(line):
             return Verdict(f"polarised ({what}); the BOM line does not say the position is"
                            " polarised")
-        notes.append(f"polarised ({what}) where the BOM names no dielectric: usual at"
-                     f" {line.application or 'this'} positions of 1 µF and more; fit it by the"
-                     " board's polarity mark")
+        where = f"{line.application} positions" if line.application else "positions"
+        notes.append(f"polarised ({what}) where the BOM names no dielectric: usual at {where} of"
+                     " 1 µF and more; fit it by the board's polarity mark")
     if line.polarised and not polarised and line.dielectric is not None:
         return Verdict("not a polarised part; the BOM names "
                        f"{line.dielectric.family.replace('-', ' ')}")
@@ -278,52 +265,6 @@ def _value_rule(line: BomLine, marking: Marking, capacitance_pf: Decimal | None,
     return None
 
 
-def choose_bins(need: int, candidates: list[Candidate]) -> list[tuple[Candidate, int]]:
-    """Bins and quantities for ``need`` parts, never more than a bin has free.
-
-    Tiers (grade, then exact value, then bins without open doubts) are used in order; inside a
-    tier the largest bins are taken
-    until one bin covers the rest, then the smallest bin that does (fewest bins, part-full bins
-    used up); between equal bins the first in natural location order goes first.
-
-    >>> from stock.decoded import Marking
-    >>> c = lambda key, n: Candidate(len(key), key, key, Marking("104"), Decimal(1), n, "fit")
-    >>> [(b.bin_key, q) for b, q in choose_bins(12, [c("a", 5), c("b", 20), c("cc", 15), c("ddd", 3)])]
-    [('cc', 12)]
-    >>> [(b.bin_key, q) for b, q in choose_bins(30, [c("a", 5), c("b", 20), c("cc", 15)])]
-    [('b', 20), ('cc', 10)]
-    >>> [(b.bin_key, q) for b, q in choose_bins(50, [c("a", 5), c("b", 20)])]
-    [('b', 20), ('a', 5)]
-    """
-    chosen: list[tuple[Candidate, int]] = []
-    left = need
-    tiers: dict[tuple[int, int, int], list[Candidate]] = defaultdict(list)
-    order: list[tuple[int, int, int]] = []
-    for cand in candidates:
-        key = cand.tier
-        if key not in tiers:
-            order.append(key)
-        tiers[key].append(cand)
-    for key in sorted(order):
-        pool = [c for c in tiers[key] if c.available > 0]
-        while left > 0 and pool:
-            covering = [c for c in pool if c.available >= left]
-            if covering:
-                pick = min(covering, key=lambda c: (c.available, natural_key(c.location),
-                                                    natural_key(c.bin_key)))
-                chosen.append((pick, left))
-                left = 0
-                break
-            pick = min(pool, key=lambda c: (-c.available, natural_key(c.location),
-                                            natural_key(c.bin_key)))
-            chosen.append((pick, pick.available))
-            left -= pick.available
-            pool.remove(pick)
-        if left == 0:
-            break
-    return chosen
-
-
 # Which lead the band or sign marks, by family (from memory of maker datasheets; always check the
 # maker's own marking).
 POLARITY_MARKS: dict[str, str] = {
@@ -396,3 +337,10 @@ def cautions_for(store: Any, lines: Any) -> tuple[str, ...]:
                         " non-safety part. Work on mains equipment can kill: defer to local codes"
                         " and licensed practice.")
     return tuple(cautions)
+
+
+# Candidate, choose_bins and GRADE_RANK live in bin_order and natural_key in inventory.bins; they
+# are named here too for the callers that know them from this module.
+__all__ = ["ALLOWANCES", "GRADE_RANK", "HIGH_VOLTAGE_V", "MARKED_LEAD", "POLARISED_FROM_PF",
+           "POLARITY_MARKS", "Candidate", "Verdict", "cautions_for", "check_part", "choose_bins",
+           "natural_key"]

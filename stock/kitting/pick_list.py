@@ -98,10 +98,14 @@ def pick_list_text(pl: PickList) -> str:
     return "\n".join(out)
 
 
+def _count(n: int, noun: str) -> str:
+    return f"{n} {noun}{'' if n == 1 else 's'}"
+
+
 def plan_text(kit: KitPlan) -> str:
     """A plan in words: each line with its bins, notes and shortfall, then not tracked, cautions."""
     out = [f"plan {kit.id}: {kit.boards} board{'s' if kit.boards != 1 else ''}, {kit.status},"
-           f" {len(kit.tracked_lines)} capacitor lines, {kit.short_lines} short"]
+           f" {_count(len(kit.tracked_lines), 'capacitor line')}, {kit.short_lines} short"]
     for line in kit.tracked_lines:
         refs = " ".join(line.refs) or f"(row {line.row})"
         bins = ", ".join(f"{a.bin_key} ×{a.qty}" for a in line.allocations) or "nothing on hand"
@@ -112,6 +116,10 @@ def plan_text(kit: KitPlan) -> str:
         out.append("not tracked (no bins for these kinds):")
         out.extend(f"\t{' '.join(l.refs) or '(row ' + str(l.row) + ')'}\t{l.value}\t{l.kind}"
                    f"\t{l.need}" for l in kit.not_tracked)
+    if kit.not_fitted:
+        out.append("not fitted (marked do-not-fit; nothing taken):")
+        out.extend(f"\t{' '.join(l.refs) or '(row ' + str(l.row) + ')'}\t{l.value}\t{l.kind}"
+                   f"\t{l.details.get('not_fitted') or ''}" for l in kit.not_fitted)
     out.extend(f"CAUTION: {c}" for c in kit.cautions)
     return "\n".join(out)
 

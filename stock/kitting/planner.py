@@ -15,9 +15,13 @@ How a line's bins are chosen (common practice, no published source):
    dielectric-free bulk, bypass or timing line of 1 µF or more). A looser
    tolerance or a lower dielectric class is refused unless ``allow`` names it.
 2. Fit grade before marginal, the exact nominal value before a near one.
-3. Fewest bins: the largest bins first until one bin covers what is left, then the smallest bin
-   that does, so part-full bins get used up.
-4. With ``combine``, what singles cannot cover may come from pairs (two parts per position); never
+3. A bin whose package is known not to fit the line's footprint is never used; a bin whose
+   package is not recorded comes after every bin known to fit, with a note to check it.
+4. Among the bins left, the one that gives up least (:mod:`stock.kitting.bin_order`): no spare
+   safety rating, the plainest dielectric, no tighter tolerance than asked, then the fullest bin,
+   then location order; bins with open doubts after clean ones. The notes name a precious bin
+   passed over, or used because nothing plainer was on hand, and every flagged bin used.
+5. With ``combine``, what singles cannot cover may come from pairs (two parts per position); never
    on a mains line.
 
 The stored plan, and what happens to it after planning (show, list, pull, undo, drop), live in
@@ -39,6 +43,7 @@ from stock.kitting.bom import Bom, BomLine, BomProblem, read_bom
 from stock.decoded import Marking
 from stock.errors import BadValue
 from stock.kitting.stored_plans import KitPlan, load_plan
+from stock.kitting.bin_order import capability, order_notes
 from stock.kitting.line_rules import ALLOWANCES, Candidate, Verdict, check_part, choose_bins
 from stock.store.database import Store, now
 
@@ -168,6 +173,8 @@ def describe_line(line: BomLine, options: KitOptions, qty: int = 1) -> str:
         extra.append(f"rated ≥ {format_voltage(line.voltage_v, line.voltage_kind or 'DC')}")
     if line.polarised:
         extra.append("polarised")
+    if line.package is not None and line.package.known:
+        extra.append(line.package.describe())
     return ", ".join([words, *extra])
 
 
@@ -183,7 +190,8 @@ def _marking_of(store: Store, bin_id: int) -> tuple[Marking, str, dict[str, Any]
 
 # Open flags that question what a bin holds or its condition; such bins are used last.
 DOUBT_KINDS = ("shelf-life", "label-conflict", "ambiguous-code", "disputed-code", "both-ends",
-               "layout-ambiguous", "conflicting-readings", "unreadable", "duplicate")
+               "layout-ambiguous", "conflicting-readings", "unreadable", "duplicate", "unit-assumed",
+               "tolerance-by-value", "spelling-corrected", "unparsed")
 
 
 def _doubts(store: Store) -> dict[int, tuple[str, ...]]:
@@ -200,31 +208,75 @@ def _hold(store: Store, plan_id: int, line_id: int, bin_id: int, qty: int) -> No
                           (plan_id, line_id, bin_id, qty))
 
 
-def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
-             notes: list[str]) -> dict[int, int]:
-    """Bins and quantities of single parts for a line (at most ``need``), with their notes."""
+def _packages(store: Store, bin_ids: list[int]) -> dict[int, Any]:
+    """Each bin's package facts, read from the package and mounting the store holds for it."""
+    from stock.markings.packages import read_package
+
+    found: dict[int, Any] = {}
+    for start in range(0, len(bin_ids), 500):
+        chunk = bin_ids[start:start + 500]
+        for row in store.rows(f"SELECT bin_id, package, mounting FROM parts WHERE bin_id IN"
+                              f" ({','.join('?' * len(chunk))})", chunk):
+            text = " ".join(t for t in (row["package"], row["mounting"]) if t)
+            found[row["bin_id"]] = read_package(text)
+    return found
+
+
+def _listed(what: str, items: list[str]) -> str:
+    return f"{what}: " + "; ".join(items[:3]) + (" ..." if len(items) > 3 else "")
+
+
+def _pool(store: Store, line: BomLine, options: KitOptions,
+          req: Any) -> tuple[list[Candidate], list[str], list[str]]:
+    """The bins that may feed a line, and why the others may not (the rules, the footprint)."""
+    from stock.markings.packages import fits
     from stock.matching.search import candidates
 
-    req = _search_requirement(line, options)
     refused: list[str] = []
+    misfits: list[str] = []
     pool: list[Candidate] = []
     doubts = _doubts(store)
-    for match in candidates(store, req):
+    matches = candidates(store, req)
+    packages = _packages(store, [m.bin_id for m in matches]) if line.package is not None else {}
+    for match in matches:
         marking = match.decoded if match.decoded is not None else _marking_of(store, match.bin_id)[0]
         verdict = check_part(line, marking, match.capacitance_pf, options.allow)
         if verdict.refused:
             refused.append(f"{match.bin_key} ({match.marking}): {verdict.refused}")
             continue
+        fit, why, fit_note = True, "", ""
+        if line.package is not None and match.bin_id in packages:
+            held = packages[match.bin_id]
+            fit, why = fits(held, line.package)
+            if fit and held.known and line.package.known:
+                fit_note = f"{held.describe()}, fits {line.package.describe_pads()}"
+        if fit is False:
+            misfits.append(f"{match.bin_key} ({match.marking}): {why}")
+            continue
         free = store.available(match.bin_id)        # re-read inside this plan's transaction
         if free <= 0:
             continue
+        rank, words = capability(line, marking, match.capacitance_pf)
         pool.append(Candidate(match.bin_id, match.bin_key, match.location, marking,
                               match.capacitance_pf, free, match.grade, tuple(match.reasons),
                               exact=match.capacitance_pf == line.capacitance_pf,
-                              doubts=doubts.get(match.bin_id, ())))
+                              doubts=doubts.get(match.bin_id, ()), capability=rank,
+                              capability_words=words, package_doubt=why if fit is None else "",
+                              package_fit=fit_note))
+    return pool, refused, misfits
+
+
+def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
+             notes: list[str]) -> dict[int, int]:
+    """Bins and quantities of single parts for a line (at most ``need``), with their notes."""
+    req = _search_requirement(line, options)
+    pool, refused, misfits = _pool(store, line, options, req)
     taken: dict[int, int] = {}
-    for cand, qty in choose_bins(need, pool):
+    chosen = choose_bins(need, pool)
+    for cand, qty in chosen:
         taken[cand.bin_id] = qty
+        if cand.package_doubt or cand.package_fit:
+            notes.append(f"{cand.bin_key}: {cand.package_doubt or cand.package_fit}")
         if cand.doubts:
             notes.append(f"{cand.bin_key}: used although it has open flags ({', '.join(cand.doubts)});"
                          " see `stock flags`")
@@ -234,9 +286,12 @@ def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
             why = next((r for r in cand.grade_reasons if r.startswith("marginal")),
                        f"marginal for {line.application}")
             notes.append(f"{cand.bin_key}: {why}")
+    notes.extend(order_notes(line, chosen, pool))
+    if misfits:
+        notes.append(_listed("does not fit the footprint", misfits))
     if sum(taken.values()) < need and refused:
-        notes.append("not used: " + "; ".join(refused[:3]) + (" ..." if len(refused) > 3 else ""))
-    elif not taken and not pool:
+        notes.append(_listed("not used", refused))
+    elif not taken and not pool and not misfits:
         from stock.matching.search import find
 
         notes.extend(f"no single part: {why}" for why in find(store, req).explanation[:2])
@@ -294,7 +349,8 @@ def _pairs(store: Store, plan_id: int, line_id: int, line: BomLine, options: Kit
         for bin_id, n in per_position.items():
             _hold(store, plan_id, line_id, bin_id, n * use)
         filled += use
-        notes.append(f"{use} position(s) from a {_pair_text(combo)}; two parts per position")
+        notes.append(f"{use} position{'' if use == 1 else 's'} from a {_pair_text(combo)}; two parts"
+                     " per position")
         for v in verdicts:
             notes.extend(v.notes)
     if filled < left and refused:
@@ -316,12 +372,21 @@ def _line_details(line: BomLine, describe: str) -> dict[str, Any]:
         "application": line.application, "safety_class": line.safety_class,
         "polarised": line.polarised, "qty_per_board": line.qty_per_board,
         "error": line.problem.to_json() if line.problem else None,
+        "fitted": line.fitted, "not_fitted": line.not_fitted_reason or None,
+        "package": line.package.to_json() if line.package is not None else None,
     }
 
 
 def _plan_line(store: Store, plan_id: int, line_no: int, line: BomLine,
                options: KitOptions) -> None:
     conn = store.db.conn
+    if not line.fitted:
+        conn.execute("INSERT INTO plan_lines (plan_id, line_no, refs_json, need, short, tracked,"
+                     " requirement_json, notes_json) VALUES (?,?,?,0,0,0,?,?)",
+                     (plan_id, line_no, json.dumps(line.refs),
+                      json.dumps(_line_details(line, f"not fitted: {line.value_text}")),
+                      json.dumps([f"not fitted: {line.not_fitted_reason}; nothing taken"])))
+        return
     if not line.tracked:
         need = line.qty_per_board * options.boards
         conn.execute("INSERT INTO plan_lines (plan_id, line_no, refs_json, need, short, tracked,"

@@ -54,11 +54,16 @@ class PlanLine:
     requirement: str                  # in words, for ordering
     details: dict[str, Any] = field(default_factory=dict)
 
+    @property
+    def fitted(self) -> bool:
+        return self.details.get("fitted", True) is not False
+
     def to_json(self) -> dict[str, Any]:
         return {"refs": list(self.refs), "need": self.need,
                 "allocations": [a.to_json() for a in self.allocations], "short": self.short,
                 "notes": list(self.notes), "line": self.line_no, "row": self.row,
-                "value": self.value, "requirement": self.requirement}
+                "value": self.value, "requirement": self.requirement,
+                "footprint": (self.details.get("package") or {}).get("raw")}
 
 
 @dataclass(frozen=True)
@@ -81,7 +86,12 @@ class KitPlan:
 
     @property
     def not_tracked(self) -> tuple[PlanLine, ...]:
-        return tuple(line for line in self.lines if not line.tracked)
+        return tuple(line for line in self.lines if not line.tracked and line.fitted)
+
+    @property
+    def not_fitted(self) -> tuple[PlanLine, ...]:
+        """Lines marked do-not-fit in the BOM: they take nothing."""
+        return tuple(line for line in self.lines if not line.fitted)
 
     @property
     def errors(self) -> tuple[dict[str, Any], ...]:
@@ -101,6 +111,9 @@ class KitPlan:
             "options": self.options, "cautions": list(self.cautions),
             "not_tracked": [{"refs": list(line.refs), "value": line.value, "kind": line.kind,
                              "need": line.need, "row": line.row} for line in self.not_tracked],
+            "not_fitted": [{"refs": list(line.refs), "value": line.value, "kind": line.kind,
+                            "row": line.row, "reason": line.details.get("not_fitted")}
+                           for line in self.not_fitted],
             "errors": list(self.errors),
         }
 

@@ -501,6 +501,23 @@ def summary(m: Marking) -> str:
     return "  ".join(parts) if parts else "(nothing decoded)"
 
 
+# Caution texts, one per hazard (the mains one is safety_classes.CAUTION; shelf and soldering
+# hazards of a kind are stock.physics.stability.SHELF_LIFE). Common practice, no published source.
+POLARISED_CAUTION = ("Polarised part: fit it the right way round and never above its rated voltage; "
+                     "reversed or overvolted it can vent or burst.")
+CHARGE_CAUTION = ("High-voltage part: it can hold a dangerous charge after power is removed; discharge "
+                  "it through a suitable resistor and check with a meter before touching.")
+POLARITY_MARKS_CAUTION = ("Tantalums mark the positive lead, aluminium electrolytics the negative: when "
+                          "one replaces the other, fit it by the circuit's polarity, not by where the old "
+                          "part's stripe was.")
+POLARISED_FOR_PLAIN_CAUTION = ("A polarised part where the original was not: only where a steady DC voltage "
+                               "keeps it the right way round (measure it first); its positive lead goes to "
+                               "the more positive side.")
+RETUNE_CAUTION = ("A new part in a tuned circuit may shift its frequency: check the alignment against the "
+                  "service information and re-align where needed.")
+DEFER_CAUTION = "Defer to the equipment's service information and to local codes."
+
+
 def cautions(m: Marking) -> tuple[str, ...]:
     """The safety cautions a person handling this part should read (mains, polarity, stored charge).
 
@@ -512,12 +529,12 @@ def cautions(m: Marking) -> tuple[str, ...]:
         out.append(CAUTION)
     family = m.dielectric.family if m.dielectric else None
     if family in _POLARISED or m.polarity:
-        out.append("Polarised part: fit it the right way round and never above its rated voltage; "
-                   "reversed or overvolted it can vent or burst.")
+        out.append(POLARISED_CAUTION)
     if m.voltage_v is not None and (m.voltage_v >= 250 or m.voltage_kind == "AC"):
-        out.append("High-voltage part: it can hold a dangerous charge after power is removed; discharge "
-                   "it through a suitable resistor and check with a meter before touching.")
+        out.append(CHARGE_CAUTION)
     return tuple(out)
 
 
-__all__ = ["MAX_MARKING_CHARS", "USUAL_POLARITY", "cautions", "decode", "describe_dielectric", "summary"]
+__all__ = ["CHARGE_CAUTION", "DEFER_CAUTION", "MAX_MARKING_CHARS", "POLARISED_CAUTION",
+           "POLARISED_FOR_PLAIN_CAUTION", "POLARITY_MARKS_CAUTION", "RETUNE_CAUTION", "USUAL_POLARITY",
+           "cautions", "decode", "describe_dielectric", "summary"]

@@ -90,7 +90,7 @@ FAMILY_NAMES: dict[str, str] = {
     "ptfe": "ptfe", "teflon": "ptfe",
     "mica": "mica", "silvermica": "mica", "sm": "mica",
     "glass": "glass",
-    "paper": "paper", "oilpaper": "paper", "mp": "paper", "paperinoil": "paper",
+    "paper": "paper", "oilpaper": "paper", "mp": "paper", "paperinoil": "paper", "waxpaper": "paper",
     "tantalum": "tantalum", "tant": "tantalum", "ta": "tantalum", "tantal": "tantalum",
     "mno2": "tantalum", "tantalummno2": "tantalum",
     "tantalumpolymer": "tantalum-polymer", "polymertantalum": "tantalum-polymer",
@@ -111,7 +111,7 @@ DISPUTED_NAMES: dict[str, tuple[str, str]] = {
 
 # Words that may make up a family name printed over two or more tokens, e.g. "silver mica".
 PHRASE_WORDS = frozenset({"silver", "mica", "aluminium", "aluminum", "electrolytic", "polymer", "tantalum",
-                          "double", "layer", "paper", "oil", "in", "bipolar", "non", "polar", "mno2", "film",
+                          "double", "layer", "paper", "oil", "wax", "in", "bipolar", "non", "polar", "mno2", "film",
                           "metallised", "metallized", "polyester", "polypropylene", "polystyrene", "polyethylene",
                           "naphthalate", "polyphenylene", "sulfide", "sulphide"})
 _DROP_WORDS = ("film", "metallised", "metallized", "capacitor", "cap")

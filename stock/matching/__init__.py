@@ -1,2 +1,4 @@
 """Parts for a requirement: what a position asks (``requirement``), the shelf searched (``search``),
-and the tempco parts that null a drifting oscillator (``compensating``)."""
+the tempco parts that null a drifting oscillator (``compensating``), and a part in hand replaced
+(``replacement``), its stand-ins judged (``stand_ins``) by the trade's substitution rules
+(``substitutions``)."""

@@ -80,8 +80,10 @@ DEFAULT_TABLE: dict[str, dict[str, Any]] = {
                   "glass": "fit", "polyphenylene-sulfide": "fit", "polyester": "fit",
                   "polyethylene-naphthalate": "fit", "tantalum": "fit", "tantalum-polymer": "fit",
                   "paper": "marginal", "bipolar-electrolytic": "unfit",
-                  # tolerance, leakage and wear-out drift: fine for a slow flasher, not a timer
-                  "aluminium-electrolytic": "unfit"},
+                  # usable only where accuracy hardly matters (a slow visual flasher): marginal at
+                  # best, never fit; its tolerance, leakage and wear-out drift mostly make it unfit.
+                  # A tantalum is the trade's choice for larger-value timing.
+                  "aluminium-electrolytic": "marginal"},
         "polarised": "fit",        # a timer's capacitor charges one way
         "value_critical": True,
         "min_capacitance_pf": None,

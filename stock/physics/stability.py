@@ -335,7 +335,8 @@ SHELF_LIFE: dict[str, str] = {
     # from memory: old paper capacitors absorb moisture and leak
     "paper": "old paper parts take up moisture and leak; check leakage at working voltage",
     # [polystyrene-article]: irreversible shift if heated past about 70 °C
-    "polystyrene": "polystyrene shifts for good if heated past about 70 °C (soldering too)",
+    "polystyrene": "polystyrene shifts for good if heated past about 70 °C: solder quickly and heat-sink"
+                   " the leads",
     # [ageing-maker-notes]: de-aged by heating above the Curie point
     "ceramic-2": "soldering heat de-ages a Class 2 part: its value rises, then ages down again",
 }

@@ -70,15 +70,70 @@ class OrderLine:
     quantity: int
     requirement: str
     needed_by: list[str] = field(default_factory=list)
+    package: str = ""
+    mounting: str = ""
 
     def key(self) -> tuple:
         return (self.capacitance_pf, self.tol_pct, self.voltage_v, self.voltage_kind, self.dielectric,
-                self.safety_class,
-                self.polarity, self.requirement)
+                self.safety_class, self.polarity, self.package, self.mounting, self.requirement)
 
 
 def _dec(value: Any) -> Decimal | None:
     return None if value in (None, "") else Decimal(str(value))
+
+
+MOUNTING_WORDS = {"SMD": "SMD", "THT": "through-hole"}
+
+
+def _package_words(text: str | None) -> tuple[str, str]:
+    """(package, mounting) in words from package or footprint text: ("0805", "SMD")."""
+    from stock.markings.packages import read_package
+
+    if not text:
+        return "", ""
+    facts = read_package(text)
+    if not facts.known:
+        return text, ""
+    package = facts.describe()
+    for word in ("through-hole ", "SMD ", "through-hole", "SMD"):    # the mounting has its column
+        if package.startswith(word):
+            package = package[len(word):].lstrip(" ,")
+            break
+    return package, MOUNTING_WORDS.get(facts.mounting or "", "")
+
+
+def _plan_order_line(row: Any) -> tuple[OrderLine, int, str]:
+    req = json.loads(row["requirement_json"] or "{}")
+    refs = ",".join(json.loads(row["refs_json"] or "[]"))
+    package, mounting = _package_words((req.get("package") or {}).get("raw"))
+    line = OrderLine(
+        capacitance_pf=_dec(req.get("capacitance_pf")), tol_pct=_dec(req.get("tol_pct")),
+        voltage_v=_dec(req.get("voltage_v") or req.get("working_v")),
+        voltage_kind=str(req.get("voltage_kind") or ""),
+        dielectric=str(req.get("dielectric") or req.get("dielectric_code") or req.get("family") or ""),
+        safety_class=str(req.get("safety_class") or ""),
+        polarity="polarised" if req.get("polarised") else "", quantity=0,
+        requirement=str(req.get("describe") or req.get("text") or ""),
+        package=package, mounting=mounting)
+    who = f"plan {row['plan_id']} line {row['line_no']}" + (f" ({refs})" if refs else "")
+    return line, int(row["short"]), who
+
+
+def _bin_order_line(row: Any) -> tuple[OrderLine, int, str]:
+    m = part_marking(row)
+    tol = m.tolerance.as_percent(m.capacitance_pf) if m.tolerance else None
+    package, mounting = _package_words(" ".join(t for t in (row.get("package"), row.get("mounting"))
+                                                if t))
+    line = OrderLine(
+        capacitance_pf=m.capacitance_pf, tol_pct=max(tol) if tol else None,
+        voltage_v=m.voltage_v, voltage_kind=m.voltage_kind or "",
+        dielectric=(m.dielectric.code if m.dielectric else ""),
+        safety_class=m.safety_class or "", polarity=m.polarity or "",
+        quantity=0, requirement=f"like bin {row['bin_key']}: {row['marking']}",
+        package=package, mounting=mounting)
+    held = "an unknown count" if row["on_hand"] is None else str(row["on_hand"])
+    return (line, int(row["minimum"]) - int(row["on_hand"] or 0),
+            f"bin {row['bin_key']} (holds {held}, minimum {row['minimum']})")
 
 
 def purchasing_lines(store: Store, plan_ids: Sequence[int] = (), below_minimum: bool = False,
@@ -107,59 +162,65 @@ def purchasing_lines(store: Store, plan_ids: Sequence[int] = (), below_minimum: 
                                " WHERE l.short > 0 AND p.status IN ('reserved', 'pulled')"
                                " ORDER BY l.plan_id, l.line_no")
     for row in plan_rows:
-        req = json.loads(row["requirement_json"] or "{}")
-        refs = ",".join(json.loads(row["refs_json"] or "[]"))
-        add(OrderLine(
-            capacitance_pf=_dec(req.get("capacitance_pf")), tol_pct=_dec(req.get("tol_pct")),
-            voltage_v=_dec(req.get("voltage_v") or req.get("working_v")),
-            voltage_kind=str(req.get("voltage_kind") or ""),
-            dielectric=str(req.get("dielectric") or req.get("dielectric_code") or req.get("family") or ""),
-            safety_class=str(req.get("safety_class") or ""),
-            polarity="polarised" if req.get("polarised") else "", quantity=0,
-            requirement=str(req.get("describe") or req.get("text") or "")),
-            int(row["short"]), f"plan {row['plan_id']} line {row['line_no']}" + (f" ({refs})" if refs else ""))
-
+        add(*_plan_order_line(row))
     if below_minimum:
         for row in store.rows(
                 "SELECT b.bin_key, b.on_hand, b.minimum, p.* FROM bins b JOIN parts p ON p.bin_id = b.id"
                 " WHERE b.minimum IS NOT NULL AND COALESCE(b.on_hand, 0) < b.minimum ORDER BY b.bin_key"):
-            m = part_marking(row)
-            tol = m.tolerance.as_percent(m.capacitance_pf) if m.tolerance else None
-            add(OrderLine(
-                capacitance_pf=m.capacitance_pf, tol_pct=max(tol) if tol else None,
-                voltage_v=m.voltage_v, voltage_kind=m.voltage_kind or "",
-                dielectric=m.dielectric.code if m.dielectric else "",
-                safety_class=m.safety_class or "",
-                polarity=", ".join(x for x in (m.polarity, row.get("package"), row.get("mounting")) if x),
-                quantity=0, requirement=f"like bin {row['bin_key']}: {row['marking']}"),
-                int(row["minimum"]) - int(row["on_hand"] or 0),
-                f"bin {row['bin_key']} (holds "
-                + ("an unknown count" if row["on_hand"] is None else str(row["on_hand"]))
-                + f", minimum {row['minimum']})")
+            add(*_bin_order_line(row))
     return list(lines.values())
 
 
 PURCHASING_COLUMNS = (
     Column("Value", 12), Column("Capacitance (pF)", 16, "0.###"), Column("Tolerance", 11),
-    Column("Voltage (V)", 11, "0.#"), Column("AC/DC", 7), Column("Dielectric", 14),
-    Column("Safety class", 12), Column("Polarity / mounting", 18), Column("Quantity", 10, "#,##0"),
-    Column("Preferred value", 15), Column("Needed by", 40), Column("Requirement", 50),
+    Column("Voltage (V)", 11, "0.#"), Column("AC/DC", 7), Column("Dielectric / family", 18),
+    Column("Safety class", 12), Column("Polarity", 12), Column("Package", 16), Column("Mounting", 13),
+    Column("Quantity", 10, "#,##0"), Column("Preferred value", 15), Column("Needed by", 40),
+    Column("Requirement", 50),
 )
+QUANTITY_COLUMN = 10
+
+
+def preferred_text(capacitance_pf: Decimal | None, tol_pct: Decimal | None) -> str:
+    """The nearest preferred value to buy, or which series the value is already in.
+
+    >>> preferred_text(Decimal(250), Decimal(5)), preferred_text(Decimal(22), None)
+    ('240 pF', 'in E12')
+    """
+    if not capacitance_pf or capacitance_pf <= 0:
+        return ""
+    preferred = preferred_for(capacitance_pf, tol_pct)
+    if preferred is not None:
+        return _fmt_cap(float(preferred))
+    return "in E24" if tol_pct is not None and tol_pct < 10 else "in E12"
+
+
+def plain_number(value: Decimal | float | None) -> int | float | None:
+    """A number as a sheet should hold it: whole numbers as integers (470000000, not 470000000.0).
+
+    >>> plain_number(Decimal("470000000")), plain_number(2.5), plain_number(None)
+    (470000000, 2.5, None)
+    """
+    if value is None:
+        return None
+    if isinstance(value, Decimal):
+        return int(value) if value == value.to_integral_value() else float(value)
+    return int(value) if float(value).is_integer() else value
 
 
 def _purchasing_row(line: OrderLine) -> list[Any]:
-    from stock.units import format_tolerance
     from stock.decoded import Tolerance
+    from stock.units import format_tolerance
 
-    preferred = preferred_for(line.capacitance_pf, line.tol_pct)
     tol = (format_tolerance(Tolerance(line.tol_pct, line.tol_pct, "%"))
            if line.tol_pct is not None else "")
     return [
         _fmt_cap(float(line.capacitance_pf)) if line.capacitance_pf else "",
-        float(line.capacitance_pf) if line.capacitance_pf else None,
-        tol, float(line.voltage_v) if line.voltage_v else None, line.voltage_kind, line.dielectric,
-        line.safety_class, line.polarity, line.quantity,
-        _fmt_cap(float(preferred)) if preferred else "", "; ".join(line.needed_by), line.requirement,
+        plain_number(line.capacitance_pf) if line.capacitance_pf else None,
+        tol, plain_number(line.voltage_v) if line.voltage_v else None, line.voltage_kind,
+        line.dielectric, line.safety_class, line.polarity, line.package, line.mounting,
+        line.quantity, preferred_text(line.capacitance_pf, line.tol_pct),
+        "; ".join(line.needed_by), line.requirement,
     ]
 
 
@@ -171,7 +232,8 @@ def export_purchasing(store: Store, out: Path, plan_ids: Sequence[int] = (),
     if kind == "csv":
         return write_csv(out, PURCHASING_COLUMNS, rows)
     wb = new_workbook()
-    add_table_sheet(wb, "To order", PURCHASING_COLUMNS, rows, totals={0: "Total", 8: "sum"})
+    add_table_sheet(wb, "To order", PURCHASING_COLUMNS, rows,
+                    totals={0: "Total", QUANTITY_COLUMN: "sum"})
     save_workbook(wb, out)
     return len(rows)
 
@@ -189,21 +251,22 @@ def inventory_rows(store: Store) -> list[list[Any]]:
         "SELECT bin_id, available FROM bin_stock WHERE on_hand IS NOT NULL")}
     out = []
     for row in store.rows("SELECT b.id AS bid, b.bin_key, b.location, b.cabinet, b.label, b.on_hand,"
-                          " p.* FROM bins b JOIN parts p ON p.bin_id = b.id ORDER BY b.bin_key"):
+                          " b.minimum, b.notes AS bin_notes, b.date_code, p.*"
+                          " FROM bins b JOIN parts p ON p.bin_id = b.id ORDER BY b.bin_key"):
         m = part_marking(row)
         d = m.dielectric
         on_hand = row["on_hand"]
         out.append([
             row["bin_key"], row["location"], row["cabinet"], row["label"], row["marking"],
             _fmt_cap(float(m.capacitance_pf)) if m.capacitance_pf else "",
-            float(m.capacitance_pf) if m.capacitance_pf else None, _fmt_tol(m),
-            float(m.voltage_v) if m.voltage_v else None, m.voltage_kind or "",
+            plain_number(m.capacitance_pf) if m.capacitance_pf else None, _fmt_tol(m),
+            plain_number(m.voltage_v) if m.voltage_v else None, m.voltage_kind or "",
             d.code if d else "", d.family if d else "", d.klass if d else None,
-            float(d.tempco_ppm_per_k) if d and d.tempco_ppm_per_k is not None else None,
-            m.safety_class or "", m.polarity or "", on_hand,
-            available.get(row["bid"]),
+            plain_number(d.tempco_ppm_per_k) if d and d.tempco_ppm_per_k is not None else None,
+            m.safety_class or "", m.polarity or "", row["package"] or "", row["mounting"] or "",
+            on_hand, available.get(row["bid"]), row["minimum"],
             *[grades.get(row["bid"], {}).get(app, "") for app in APPLICATION_COLUMNS],
-            ", ".join(flags.get(row["bid"], [])),
+            row["date_code"] or "", row["bin_notes"] or "", ", ".join(flags.get(row["bid"], [])),
         ])
     return out
 
@@ -214,8 +277,10 @@ INVENTORY_COLUMNS = (
     Column("Tolerance", 11), Column("Voltage (V)", 11, "0.#"), Column("AC/DC", 7),
     Column("Dielectric", 14), Column("Family", 20), Column("Class", 7, "0"),
     Column("Tempco (ppm/K)", 14, "0"), Column("Safety class", 12), Column("Polarity", 16),
-    Column("On hand", 9, "#,##0"), Column("Available", 10, "#,##0"),
-    *[Column(app.capitalize(), 9) for app in APPLICATION_COLUMNS], Column("Open flags", 30),
+    Column("Package", 16), Column("Mounting", 12),
+    Column("On hand", 9, "#,##0"), Column("Available", 10, "#,##0"), Column("Minimum", 9, "#,##0"),
+    *[Column(app.capitalize(), 9) for app in APPLICATION_COLUMNS], Column("Date code", 10),
+    Column("Notes", 30), Column("Open flags", 30),
 )
 
 
@@ -293,5 +358,5 @@ def export_inventory(store: Store, out: Path) -> int:
     return len(rows)
 
 
-__all__ = ["OrderLine", "export_inventory", "export_purchasing", "inventory_rows",
-           "preferred_for", "purchasing_lines", "worst_case_change_pct"]
+__all__ = ["OrderLine", "export_inventory", "export_purchasing", "inventory_rows", "plain_number",
+           "preferred_for", "preferred_text", "purchasing_lines", "worst_case_change_pct"]

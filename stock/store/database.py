@@ -30,6 +30,7 @@ from typing import Any
 from sqlite_utils import Database, Migrations
 
 from stock.errors import NotFound, Refused, StoreProblem
+from stock.scan_codes import bin_key_from_scan, is_scan
 
 BUSY_TIMEOUT_S = 10.0
 MAX_ON_HAND = 2**53          # the largest count kept exactly in SQLite, JSON and floats alike
@@ -346,10 +347,20 @@ class Store:
     def find_bin(self, ref: str) -> dict[str, Any]:
         """A bin by id, bin key, location or label (case-insensitive); the first exact match wins.
 
+        A scanned label code (``BIN:…``, see :mod:`stock.scan_codes`) names its bin key exactly.
+
         Raises:
             NotFound: nothing matches, or a location/label matches several bins.
+            BadValue: a scanned code that cannot be read.
         """
         text = ref.strip()
+        if is_scan(text):
+            key = bin_key_from_scan(text)
+            row = self.one("SELECT * FROM bins WHERE bin_key = ?", (key,))
+            if row is None:
+                raise NotFound("bin", key, f"a bin of this database; the code scanned ({text!r}) may"
+                               " come from another database's label, or from a bin since merged")
+            return row
         if text.isascii() and text.isdigit() and len(text) < 19:   # "²" is a digit to isdigit(); 19 digits pass int64
             row = self.one("SELECT * FROM bins WHERE id = ?", (int(text),))
             if row:

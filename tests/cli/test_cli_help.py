@@ -30,7 +30,7 @@ def test_the_command_tree_has_the_promised_commands():
     names = {" ".join(c) for c in COMMANDS}
     assert {"decode", "import", "bins", "show", "quarantine", "flags", "settle", "merge", "grade",
             "drift", "compensate", "find", "kit plan", "kit pull", "kit undo", "kit drop", "kit picklist",
-            "export purchasing", "export inventory", "export count", "check", "demo"} <= names
+            "export purchasing", "export inventory", "export count", "check", "demo", "labels"} <= names
 
 
 @pytest.mark.parametrize("command", COMMANDS, ids=[" ".join(c) for c in COMMANDS])

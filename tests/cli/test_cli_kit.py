@@ -151,3 +151,26 @@ def test_bad_input_gives_one_clear_line_and_its_exit_code(shop, args, code, mess
     assert result.exit_code == code
     assert message in result.stderr
     assert "Traceback" not in result.stderr
+
+
+def test_plan_accepts_a_map_for_the_footprint_and_do_not_fit_columns(tmp_path):
+    # common practice in CAD exports (headers of our own invention here); EIA chip sizes from
+    # memory of the EIA / IEC 60115-8 designations
+    db = tmp_path / "stock.db"
+    store = open_store(db)
+    add_bin(store, "cab/A1", "A1", part("104K 50V", 100000, tol="10", volts=50), 30)
+    store.db.conn.execute("UPDATE parts SET package = '1206'")
+    add_bin(store, "cab/A2", "A2", part("104K 50V", 100000, tol="10", volts=50), 10)
+    store.db.conn.execute("UPDATE parts SET package = '0805' WHERE package IS NULL")
+    store.close()
+    bom = tmp_path / "board.csv"
+    bom.write_text("Ref,Val,Land,Leave off\nC1,100n,C_0805_2012Metric,\nC2,100n,C_0805_2012Metric,yes\n",
+                   encoding="utf-8")
+    result = run(db, "plan", str(bom), "--boards", "2", "--map", "value=Val", "--map", "package=Land",
+                 "--map", "dnp=Leave off", "--json")
+    assert result.exit_code == 0, result.stderr
+    data = json.loads(result.stdout)
+    assert [a["bin"] for a in data["lines"][0]["allocations"]] == ["cab/A2"]
+    assert data["not_fitted"] == [{"refs": ["C2"], "value": "100n", "kind": "capacitor", "row": 3,
+                                   "reason": "marked do-not-fit in the 'Leave off' column"}]
+    assert any("cab/A1 (104K 50V): 1206 part for 0805 pads" in n for n in data["lines"][0]["notes"])

@@ -23,7 +23,7 @@ def test_the_demo_runs_every_step_and_leaves_a_sound_database(tmp_path):
     assert "(exit code" not in result.stdout
     assert "parallel: 1 × 100 pF" in result.stdout          # the padder pair is found
     assert "ok: " in result.stdout                          # stock check passes at the end
-    for name in ("purchasing.xlsx", "inventory.xlsx", "count.xlsx", "flasher_pick_list.xlsx"):
+    for name in ("purchasing.xlsx", "inventory.xlsx", "count.xlsx", "flasher_pick_list.xlsx", "bin_labels.pdf"):
         assert (out / name).exists(), name
     assert load_workbook(out / "inventory.xlsx")["Drift with temperature"]._charts
     with open_store(out / "shop.db", create=False) as store:

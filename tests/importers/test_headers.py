@@ -86,7 +86,7 @@ UNRELATED = [
     pytest.param("MPN", "bins", id="mpn"),
     pytest.param("Price", "bins", id="price"),
     pytest.param("URL", "bom", id="url"),
-    pytest.param("Footprint", "bom", id="footprint-in-a-bom"),
+    pytest.param("Supplier", "bom", id="supplier-in-a-bom"),
     pytest.param("Cat", "bins", id="short-word-not-caught-by-single-letter-alias"),
     pytest.param("column 7", "bins", id="synthetic-reader-header"),
 ]
@@ -151,7 +151,8 @@ def test_vocabularies_name_exactly_the_agreed_fields():
                           "location", "label", "cabinet", "notes", "minimum", "package", "mounting",
                           "date_code", "safety_class", "polarity", "rated_temp")
     assert BOM_FIELDS == ("refs", "qty", "value", "marking", "tolerance", "voltage", "dielectric",
-                          "tempco", "application", "part_type", "notes")
+                          "tempco", "application", "part_type", "notes", "package", "mounting", "dnp",
+                          "fitted")
 
 
 def test_a_whole_messy_sheet_maps_and_describes_itself():
@@ -284,3 +285,14 @@ def test_mapping_any_headers_gives_each_field_at_most_one_real_column(headers, v
     assert all(0 <= i < len(headers) for i in indexes)
     assert len(hm.unmapped) + len(indexes) == len(headers)
     assert len(hm.describe()) == len(headers)
+
+
+# CAD BOM exports name the footprint and a do-not-fit column (common practice, no published source).
+@pytest.mark.parametrize(("header", "field"), [
+    pytest.param("Footprint", "package", id="footprint"),
+    pytest.param("DNP", "dnp", id="dnp"),
+    pytest.param("Do not fit", "dnp", id="do-not-fit"),
+    pytest.param("Populate", "fitted", id="populate"),
+])
+def test_cad_bom_headers_map_to_footprint_and_fitting_fields(header, field):
+    assert guess_field(header, "bom").field == field

@@ -197,3 +197,58 @@ def test_a_bom_without_a_value_column_is_refused_naming_the_file(tmp_path):
 def test_a_map_override_names_the_value_column(tmp_path):
     path = write_csv(tmp_path / "odd.csv", "Refs,Qty,Wert\nC1,1,100n\n")
     assert read_bom(path, overrides={"value": "Wert"}).lines[0].capacitance_pf == D(100000)
+
+
+# CAD export conventions (common practice in BOM exports, no published source).
+@pytest.mark.parametrize("text, refs", [
+    pytest.param("C1..C4", ("C1", "C2", "C3", "C4"), id="dotted-range"),
+    pytest.param('C1,C2,C5', ("C1", "C2", "C5"), id="grouped-without-spaces"),
+    pytest.param("C3 .. C5", ("C3", "C4", "C5"), id="dotted-range-with-spaces"),
+])
+def test_cad_designator_ranges_and_groups_expand(text, refs):
+    assert expand_refs(text) == refs
+
+
+@pytest.mark.parametrize("value, dnp, fitted, expected", [
+    pytest.param("100n", "DNP", "", "marked do-not-fit in the 'DNP' column", id="dnp-column-mark"),
+    pytest.param("100n", "x", "", "marked do-not-fit in the 'DNP' column", id="dnp-column-cross"),
+    pytest.param("100n", "no", "", None, id="dnp-column-says-no"),
+    pytest.param("100n", "", "", None, id="fitted"),
+    pytest.param("100n", "", "No", "the 'Fitted' column says 'No'", id="fitted-column-says-no"),
+    pytest.param("DNF", "", "", "the value says 'DNF'", id="dnf-value"),
+    pytest.param("4n7 (do not fit)", "", "", "the value says 'do not fit'", id="do-not-fit-words"),
+    pytest.param("10u not fitted", "", "", "the value says 'not fitted'", id="not-fitted-words"),
+    pytest.param("100NF", "", "", None, id="nanofarad-is-not-a-do-not-fit-word"),
+])
+def test_do_not_fit_is_read_from_its_column_or_the_value(value, dnp, fitted, expected):
+    from stock.kitting.bom_conventions import not_fitted_reason
+
+    assert not_fitted_reason(value, dnp, fitted) == expected
+
+
+@pytest.mark.parametrize("value, rest, package", [
+    pytest.param("100nF 0805", "100nF", "0805", id="chip-size-in-the-value"),
+    pytest.param("22p/C0G", "22p C0G", "", id="slash-joined-dielectric"),
+    pytest.param("100u 25V radial", "100u 25V", "radial", id="mounting-word"),
+    pytest.param("100n 50V X7R", "100n 50V X7R", "", id="no-package-words"),
+    pytest.param("100n +80/-20%", "100n +80/-20%", "", id="asymmetric-tolerance-kept-whole"),
+])
+def test_package_words_are_taken_out_of_the_value(value, rest, package):
+    from stock.kitting.bom_conventions import split_package_words
+
+    assert split_package_words(value) == (rest, package)
+
+
+def test_a_cad_bom_line_with_extra_words_in_its_value_reads_them_all(tmp_path):
+    # EIA-198 X7R; IEC 60062 letter-and-digit values
+    path = write_csv(tmp_path / "cad.csv", "Reference,Value,Footprint,Quantity,DNP\n"
+                     '"C1,C2",100nF 50V X7R 0603,,2,\n'
+                     "C3,22p/C0G,C_0402_1005Metric,1,\n"
+                     "C4-C6,4n7,C_0603_1608Metric,2,\n"
+                     "C7,DNP,C_0603_1608Metric,1,\n")
+    one, two, three, four = read_bom(path).lines
+    assert (one.capacitance_pf, one.voltage_v, one.dielectric.code, one.package.chip_size) == \
+        (D(100000), D(50), "X7R", "0603")
+    assert (two.dielectric.code, two.package.chip_size) == ("C0G", "0402")
+    assert three.qty_per_board == 3 and "quantity says 2 but 3 designators" in three.remarks[0]
+    assert not four.fitted and four.problem is None

@@ -120,9 +120,11 @@ def _cands(*specs):
 # Bin choice order (common practice, no published source).
 @pytest.mark.parametrize("need, specs, expected", [
     pytest.param(12, [("a", 5, "fit", True), ("b", 20, "fit", True), ("c", 15, "fit", True)],
-                 [("c", 12)], id="one-bin-covers-take-the-smallest-that-does"),
+                 [("b", 12)], id="the-fullest-bin-first-so-small-bins-are-not-drained"),
     pytest.param(30, [("a", 5, "fit", True), ("b", 20, "fit", True), ("c", 15, "fit", True)],
                  [("b", 20), ("c", 10)], id="fewest-bins-largest-first"),
+    pytest.param(10, [("b", 20, "fit", True), ("a", 20, "fit", True)],
+                 [("a", 10)], id="equal-bins-in-location-order"),
     pytest.param(10, [("m", 50, "marginal", True), ("f", 4, "fit", True)],
                  [("f", 4), ("m", 6)], id="fit-before-marginal"),
     pytest.param(10, [("near", 50, "fit", False), ("exact", 50, "fit", True)],
@@ -230,12 +232,12 @@ def test_a_plan_reserves_parts_so_a_second_plan_cannot_promise_them(store):
     assert store.reserved(a2) == 30
 
 
-def test_a_plan_prefers_fit_and_exact_and_uses_up_a_part_full_bin(store):
+def test_a_plan_prefers_fit_and_exact_and_takes_the_fullest_bin(store):
     add_bin(store, "cab/A1", "A1", part("104K", 100000, tol="10"), 100)
     add_bin(store, "cab/A2", "A2", part("104K", 100000, tol="10"), 7)
     add_bin(store, "cab/A3", "A3", part("105K", 99000, tol="1"), 500)  # near value, within ±10 %
     kit = plan_kit(store, bom(line("C1", 1, tol_pct=10)), KitOptions(boards=6))
-    assert [(a.bin_key, a.qty) for a in kit.lines[0].allocations] == [("cab/A2", 6)]
+    assert [(a.bin_key, a.qty) for a in kit.lines[0].allocations] == [("cab/A1", 6)]
 
 
 def test_a_bin_with_an_open_doubt_is_used_only_after_the_undoubted_ones(store):

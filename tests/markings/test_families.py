@@ -35,6 +35,7 @@ NAME_CASES = [
     pytest.param("mica", "mica", id="mica"),
     pytest.param("glass", "glass", id="glass"),
     pytest.param("paper", "paper", id="paper"),
+    pytest.param("wax paper", "paper", id="wax-paper"),   # common practice: old wax-impregnated paper tubulars
     pytest.param("tantalum", "tantalum", id="tantalum"),
     pytest.param("Ta", "tantalum", id="Ta"),
     pytest.param("polymer tantalum", "tantalum-polymer", id="polymer-tantalum"),

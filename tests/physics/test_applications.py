@@ -49,31 +49,38 @@ def test_ac_jobs_refuse_polarised_parts_and_dc_jobs_accept_them():
     assert rules["bulk"].polarised == rules["bypass"].polarised == "fit"
 
 
-def test_class2_ceramics_are_shut_out_of_tuned_circuits_and_aluminium_out_of_timing():
-    # the trade's rule of thumb (common practice, no published source): Class 2 in a tuned circuit is a design
-    # failure
+def test_class2_ceramics_are_shut_out_of_tuned_circuits():
+    # the trade's rule of thumb (common practice, no published source): Class 2 in a tuned circuit is a design failure
     rules = load_rules()
     assert rules["tuned"].kind_word("ceramic-2") == "unfit"
-    assert rules["timing"].kind_word("aluminium-electrolytic") == "unfit"
     assert rules["tuned"].kind_word("double-layer") == "unfit"   # not listed: unfit
+
+
+def test_an_aluminium_timing_part_is_marginal_at_best_and_tantalum_is_the_choice():
+    # common practice, no published source: an aluminium electrolytic times only where accuracy
+    # hardly matters (a slow visual flasher), so marginal at best, never fit; a tantalum is the
+    # trade's part for larger-value timing (more stable, lower leakage)
+    rules = load_rules()
+    assert rules["timing"].kind_word("aluminium-electrolytic") == "marginal"
+    assert rules["timing"].kind_word("tantalum") == "fit"
 
 
 def test_the_built_in_table_is_not_changed_by_loading_an_override(tmp_path):
     path = tmp_path / "shop.toml"
-    path.write_text('[timing.kinds]\n"aluminium-electrolytic" = "marginal"\n')
+    path.write_text('[timing.kinds]\n"aluminium-electrolytic" = "unfit"\n')
     load_rules(path)
-    assert DEFAULT_TABLE["timing"]["kinds"]["aluminium-electrolytic"] == "unfit"
+    assert DEFAULT_TABLE["timing"]["kinds"]["aluminium-electrolytic"] == "marginal"
 
 
 def test_an_explicit_override_changes_what_it_names_and_the_version(tmp_path):
     path = tmp_path / "shop.toml"
     path.write_text('[tuned]\ndrift_fit_pct = 1.5\n\n[mains]\nposition = "line-line"\n'
-                    '[timing.kinds]\n"aluminium-electrolytic" = "marginal"\n')
+                    '[timing.kinds]\n"aluminium-electrolytic" = "unfit"\n')
     rules = load_rules(path)
     assert rules["tuned"].drift_fit_pct == D("1.5")
     assert rules["tuned"].drift_marginal_pct == D("2.5")        # untouched
     assert rules["mains"].position == "line-line"
-    assert rules["timing"].kind_word("aluminium-electrolytic") == "marginal"
+    assert rules["timing"].kind_word("aluminium-electrolytic") == "unfit"
     assert rules["timing"].kind_word("polyester") == "fit"        # merged, not replaced
     assert rules.version != load_rules().version
     assert str(path) in rules.source

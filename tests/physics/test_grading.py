@@ -412,3 +412,13 @@ def test_the_build_position_decides_whether_an_x_part_may_serve(safety, position
 
     m = decode(f"{safety} 0.1uF 275VAC")
     assert grade(m, "mains", Conditions(position=position)).word == word
+
+
+def test_an_aluminium_electrolytic_never_grades_fit_for_timing_even_at_its_best():
+    # common practice, no published source: usable for timing only where accuracy hardly matters,
+    # so the table caps it at marginal whatever its budget; a tantalum is the trade's timing part
+    best = Marking("100µF 5% 25V", D(100_000_000), pct_tol("5"), D(25), "DC", ALU, polarity="negative-marked")
+    g = grade(best, "timing", Conditions(D(20), D(30)))
+    assert g.word in ("marginal", "unfit")
+    assert any("aluminium electrolytic is at best marginal for timing" in r for r in g.reasons)
+    assert grade(TANT_10U, "timing", Conditions(D(20), D(30))).word == "fit"

@@ -64,18 +64,18 @@ def test_the_purchasing_list_carries_shortfalls_with_spare_and_a_totals_row(stor
     out = tmp_path / "order.xlsx"
     assert export_purchasing(store, out, below_minimum=True) == 2
     ws = load_workbook(out)["To order"]
-    assert ws.freeze_panes == "A2" and ws.auto_filter.ref == "A1:L3"
+    assert ws.freeze_panes == "A2" and ws.auto_filter.ref == "A1:N3"
     rows = list(ws.iter_rows(values_only=True))
     assert rows[0][:3] == ("Value", "Capacitance (pF)", "Tolerance")
     first = dict(zip(rows[0], rows[1]))
     assert first["Quantity"] == 10           # 9 short + 10 % spare, rounded up
     assert first["Preferred value"] == "150 pF"
-    assert first["Dielectric"] == "C0G" and first["Voltage (V)"] == 50
+    assert first["Dielectric / family"] == "C0G" and first["Voltage (V)"] == 50
     assert "plan 1 line 1 (C1,C2)" in first["Needed by"]
     second = dict(zip(rows[0], rows[2]))
     assert second["Quantity"] == 4           # minimum 5 − 2 on hand = 3, +10 % → 4
-    assert rows[3][0] == "Total" and rows[3][8] == "=SUM(I2:I3)"
-    assert ws["I2"].number_format == "#,##0"
+    assert rows[3][0] == "Total" and rows[3][10] == "=SUM(K2:K3)"
+    assert ws["K2"].number_format == "#,##0"
 
 
 def test_text_that_looks_like_a_formula_stays_text_in_xlsx_and_csv(store, tmp_path):
@@ -149,3 +149,46 @@ def test_the_inventory_grades_follow_a_changed_grading_table(store, tmp_path):
     export_inventory(store, out)
     again = dict(zip(*list(load_workbook(out)["Bins"].iter_rows(values_only=True))[:2]))
     assert again["Bulk"] == "fit"
+
+
+def _csv_rows(path):
+    with open(path, encoding="utf-8-sig") as fh:
+        return list(csv.DictReader(fh))
+
+
+def test_the_purchasing_csv_names_every_fact_a_buyer_needs_in_plain_numbers(store, tmp_path):
+    # IEC 60063: 250 pF at ±5 % is off E24, whose nearest value is 240 pF (eseries agrees below);
+    # a 22 pF or a 470 µF part is already a preferred value.
+    short_plan(store, {"capacitance_pf": 250.0, "tol_pct": 5, "voltage_v": 50.0, "voltage_kind": "DC",
+                       "dielectric": "C0G", "describe": "250 pF ±5 %",
+                       "package": {"raw": "C_0603_1608Metric"}}, short=2)
+    short_plan(store, {"capacitance_pf": 470000000.0, "voltage_v": 25.0, "voltage_kind": "DC",
+                       "family": "aluminium-electrolytic", "polarised": True, "describe": "470 µF",
+                       "package": {"raw": "CP_Radial_D10.0mm_P5.00mm"}}, short=1)
+    out = tmp_path / "order.csv"
+    export_purchasing(store, out)
+    first, second = _csv_rows(out)
+    assert (first["Capacitance (pF)"], first["Tolerance"], first["Voltage (V)"], first["AC/DC"],
+            first["Dielectric / family"], first["Package"], first["Mounting"],
+            first["Preferred value"]) == ("250", "±5 %", "50", "DC", "C0G", "0603", "SMD", "240 pF")
+    assert eseries.find_nearest(eseries.E24, 250) == 240
+    assert second["Capacitance (pF)"] == "470000000"
+    assert second["Dielectric / family"] == "aluminium-electrolytic"
+    assert second["Package"].startswith("radial, ") and "5 mm pitch" in second["Package"]
+    assert second["Mounting"] == "through-hole" and second["Polarity"] == "polarised"
+    assert second["Preferred value"] == "in E12"
+
+
+def test_the_inventory_export_keeps_every_field_the_sheet_gave(store, tmp_path):
+    sheet = tmp_path / "bins.csv"
+    sheet.write_text("Bin,Marking,Qty,Min,Package,Mounting,Date code,Notes\n"
+                     "A1,104K 50V X7R,40,10,0805,SMD,2318,reel end\n", encoding="utf-8")
+    from stock.inventory.intake import import_file
+
+    import_file(store, sheet)
+    out = tmp_path / "inv.csv"
+    export_inventory(store, out)
+    (row,) = _csv_rows(out)
+    assert (row["Package"], row["Mounting"], row["Minimum"], row["Date code"], row["Notes"]) == \
+        ("0805", "SMD", "10", "2318", "reel end")
+    assert row["Capacitance (pF)"] == "100000" and row["Voltage (V)"] == "50"
