@@ -137,15 +137,16 @@ def test_the_readme_application_table_matches_the_grading_table():
 
 # --- The tour's numbers, recomputed --------------------------------------------------------------
 
-def _tour() -> dict[str, list[str]]:
-    """The README's lines printed by each command of the tour, by command."""
-    return {step.command: step.lines for steps in _blocks(README.read_text(encoding="utf-8"))
-            for step in steps}
+def _tour() -> list[Step]:
+    """The README's steps, in the order the tour runs them."""
+    return [step for steps in _blocks(README.read_text(encoding="utf-8")) for step in steps]
 
 
 def _step(start: str) -> list[str]:
-    (lines,) = [lines for command, lines in _tour().items() if command.startswith("stock " + start)]
-    return lines
+    """The lines the README shows for the first step whose command starts so (``stock`` left out)."""
+    found = [step.lines for step in _tour() if step.command.startswith("stock " + start)]
+    assert found, f"the README tour has no step `stock {start}…`"
+    return found[0]
 
 
 def _line(lines: list[str], *words: str) -> str:
@@ -228,7 +229,7 @@ def test_the_import_counts_add_up_from_the_demo_files():
     sheets = _data_rows()
     rows_line = re.compile(r"(\S+)\s+(.+?)\s+(\d+)\s+(\d+)\s+(\d+)\s+(\d+)\s+(\d+)\s+\d+ new bins.*")
     table = {(m[1], m[2]): [int(n) for n in m.groups()[2:]]
-             for l in _step("--db shop.db import") if (m := rows_line.fullmatch(l))}
+             for l in _step("--db shop.db import demo_inventory/lantern_register.xlsx") if (m := rows_line.fullmatch(l))}
     quarantined = [l for l in _step("--db shop.db quarantine") if not l.startswith(" ")]
     by_sheet = {("lantern_register.xlsx", "Cabinet A"): sheets["Cabinet A"],
                 ("lantern_register.xlsx", "Cabinet B"): sheets["Cabinet B"],
@@ -325,7 +326,7 @@ def test_the_kit_needs_are_boards_times_references_and_the_windows_are_right():
     # X7R over 0…+50 °C for 10 years: its ±15 % window plus ageing of 2 % per decade-hour past
     # 1000 h ([ageing-faq]: X7R at most 2 %), 10 years = 87 660 h; worst case adds the terms.
     ageing = D(2) * D(math.log10(10 * 8766 / 1000))
-    x7r = _line(plan, "drawer_cabinet_c/c05: marginal for signal")
+    x7r = _line(plan, ": marginal for signal: X7R")
     assert f"+15/−{_num(round(15 + ageing, 1))} % (temperature ±15 %, ageing −{_num(round(ageing, 2))} %)" in x7r
 
 
