@@ -7,8 +7,7 @@ from typing import Annotated
 
 import typer
 
-from stock.store.integrity import check_store
-from stock.store.database import open_store
+from stock.cli.context import state
 
 
 def register(app: typer.Typer) -> None:
@@ -21,7 +20,9 @@ def register(app: typer.Typer) -> None:
 
         Example: stock --db shop.db check
         """
-        from stock.cli.context import state
+        # the store loads only when the command runs (start-up time)
+        from stock.store.database import open_store
+        from stock.store.integrity import check_store
 
         with open_store(state(ctx).db_path, create=False) as store:
             report = check_store(store)

@@ -9,7 +9,6 @@ from typing import Annotated
 
 import typer
 
-from stock.store.database import open_store
 
 export_app = typer.Typer(help="Write spreadsheets: what to order, what is on hand, a stock-take sheet.",
                          no_args_is_help=True)
@@ -17,6 +16,8 @@ export_app = typer.Typer(help="Write spreadsheets: what to order, what is on han
 
 def _store(ctx: typer.Context):
     from stock.cli.context import state
+
+    from stock.store.database import open_store   # the store loads only when a command runs
 
     return open_store(state(ctx).db_path, create=False)
 

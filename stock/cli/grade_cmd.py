@@ -4,20 +4,20 @@ from __future__ import annotations
 
 import json
 from pathlib import Path
-from typing import Annotated, Optional
+from typing import TYPE_CHECKING, Annotated, Optional
 
 import typer
 
 from stock.decoded import Marking
-from stock.inventory.circuit_drift import circuit_drift
 from stock.physics.drift import (
     TankDrift, TimerDrift, format_frequency, parse_frequency, parse_inductance, parse_kelvin, parse_period,
 )
-from stock.inventory.stored_grades import BinGrades, grade_bins
 from stock.physics.grading import APPLICATIONS, MAINS_CAUTION, REFERENCE_C, Budget, conditions_from_text, pm
 from stock.physics.applications import load_rules
-from stock.store.database import open_store
 from stock.units import format_capacitance, format_number, format_tolerance, format_voltage
+
+if TYPE_CHECKING:
+    from stock.inventory.stored_grades import BinGrades
 
 
 def _describe_part(m: Marking) -> str:
@@ -137,6 +137,10 @@ def register(app: typer.Typer) -> None:
         db_path = state(ctx).db_path
         table = load_rules(rules, db_path=db_path)
         refs = [explain] if explain else (bins or None)
+        # the store and the stored grades load only when the command runs (start-up time)
+        from stock.inventory.stored_grades import grade_bins
+        from stock.store.database import open_store
+
         with open_store(db_path, create=False) as store:
             items = grade_bins(store, refs, conditions, rules=table)
         if as_json:
@@ -174,6 +178,8 @@ def register(app: typer.Typer) -> None:
         """
         from stock.cli.context import state
         from stock.markings.typed_values import parse_capacitance
+
+        from stock.inventory.circuit_drift import circuit_drift   # loads the store: only when run
 
         result = circuit_drift(
             state(ctx).db_path, part, parse_kelvin(delta_t),
