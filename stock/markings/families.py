@@ -3,8 +3,9 @@
 Film, mica, glass, paper and electrolytic parts print their dielectric as a word (``polyester``,
 ``silver mica``, ``tantalum``) or as the DIN-style abbreviation makers use (``MKT`` metallised
 polyester, ``MKP`` polypropylene, ``KS`` polystyrene film/foil). Each family carries its typical
-tempco or capacitance change over its usual range: figures from the WIMA film comparison table and
-the capacitor-codes reference (§8a), otherwise marked as from memory in :data:`FAMILY_FIGURES`.
+tempco or capacitance change over its usual range: figures from the a film maker's comparison table and
+(docs/sources.md: dielectric pages ([film-dielectrics-table] and others)), otherwise marked as from memory in
+:data:`FAMILY_FIGURES`.
 
 >>> decode_family("MKT").family, decode_family("MKT").tempco_ppm_per_k
 ('polyester', Decimal('400'))

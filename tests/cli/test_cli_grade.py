@@ -1,7 +1,8 @@
 """`stock grade` and `stock drift` through the command line.
 
-Outside sources: EIA-198 codes (C0G 0 ± 30 ppm/K, X7R ±15 %: capacitor-codes.md §1, §2); IEC 60384-14
-safety classes (§7); the 10 MHz tank worked example of §10 (C0G ∓150 Hz/K, derived).
+Outside sources: EIA-198 codes (C0G 0 ± 30 ppm/K, X7R ±15 %: docs/sources.md: [EIA-198] Class 1, [EIA-198]
+Class 2); IEC 60384-14
+safety classes ([IEC 60384-14]); the 10 MHz tank worked example of [lc-resonance] (C0G ∓150 Hz/K, derived).
 """
 
 from __future__ import annotations
@@ -115,7 +116,7 @@ def test_a_bad_shop_override_stops_the_command_with_its_file_and_key(db):
 
 
 def test_drift_of_a_bin_in_a_10mhz_tank(db):
-    # capacitor-codes.md §10: C0G ±30 ppm/K in a 10 MHz tank → ∓150 Hz/K; 10 K → ∓1500 Hz
+    # docs/sources.md: [lc-resonance]: C0G ±30 ppm/K in a 10 MHz tank → ∓150 Hz/K; 10 K → ∓1500 Hz
     result = run("--db", str(db), "drift", "--part", "A1", "--f0", "10MHz", "--tank", "100p",
                  "--delta-t", "10", "--json")
     assert result.exit_code == 0, result.output

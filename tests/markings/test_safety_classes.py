@@ -1,7 +1,8 @@
 """IEC 60384-14 safety classes: reading the marks, dual ratings, which class covers which.
 
 Source: IEC 60384-14 subclasses and impulse voltages as reproduced in the capacitor-codes
-reference §7 (S29, S30, S31); dual ratings such as X1 400 V AC / Y2 250 V AC per S67.
+docs/sources.md: [IEC 60384-14] ([safety-impulse-calculator], [safety-parameters-page], [safety-note]); dual
+ratings such as X1 400 V AC / Y2 250 V AC per [safety-disc-slide].
 """
 
 from __future__ import annotations
@@ -12,7 +13,7 @@ import pytest
 
 from stock.markings.safety_classes import CAUTION, SUBCLASSES, covers, describe, positions_text, read_safety_class
 
-# IEC 60384-14 subclasses and the dual-rating spellings seen on parts (S67; common practice).
+# IEC 60384-14 subclasses and the dual-rating spellings seen on parts ([safety-disc-slide]; common practice).
 READ_CASES = [
     pytest.param("X1", "X1", id="X1"),
     pytest.param("X2", "X2", id="X2"),
@@ -39,7 +40,8 @@ def test_tokens_that_are_no_safety_class_give_none(token):
     assert read_safety_class(token) is None
 
 
-# IEC 60384-14 impulse test voltages (S29, S30): X1 4 kV, X2 2.5 kV, Y1 8 kV, Y2 5 kV, Y4 2.5 kV.
+# IEC 60384-14 impulse test voltages ([safety-impulse-calculator], [safety-parameters-page]): X1 4 kV, X2 2.5
+# kV, Y1 8 kV, Y2 5 kV, Y4 2.5 kV.
 @pytest.mark.parametrize(("sub", "kv"), [
     pytest.param("X1", Decimal(4), id="X1-4kV"),
     pytest.param("X2", Decimal("2.5"), id="X2-2.5kV"),
