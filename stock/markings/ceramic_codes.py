@@ -273,7 +273,7 @@ def assumed_tempco_tolerance(alpha: Decimal) -> tuple[Decimal, str]:
     """The tolerance on α a worst case assumes for a tempco given without one, and why.
 
     The one table for it: an old name's EIA-198 equivalent (:data:`OLD_CLASS1_NAMES`, the published
-    one where a second is only remembered: N150 is P2G in S1, P2H from memory); an α no name
+    one where a second is only remembered: N150 is P2G in [parameters-page], P2H from memory); an α no name
     carries takes the tolerance of the next name of larger magnitude (common practice, no
     published source), ±1000 ppm/K past N4700. :func:`usual_tempco_tolerance` reads the same table.
 

@@ -209,7 +209,7 @@ def test_safety_classes_substitute_only_upwards(shop, have, need, ok):
 
 
 def test_a_y4_part_rated_125_v_ac_is_never_offered_for_an_x2_position(shop):
-    # IEC 60384-14 via the reference §7 (S30): Y4 is rated below 150 V AC; an X2 position named
+    # [IEC 60384-14] ([safety-parameters-page]): Y4 is rated below 150 V AC; an X2 position named
     # without a voltage is assumed on mains of at least 150 V AC
     low = Marking(**{**_safety_part("Y4 1n 125VAC", "Y4").__dict__, "capacitance_pf": D(1000),
                      "voltage_v": D(125)})

@@ -114,9 +114,10 @@ def test_dc_bias_loss_counts_only_when_a_working_voltage_is_given():
     assert worst_case(X7R_100N, Conditions(working_v=D(25))).dc_bias.minus_pct == D("56.6")
 
 
-# S41: a 10 µF 10 V X7R at 5 V keeps 50 % in 0805 and 93 % in 1206: the case decides the DC-bias term
+# [dc-bias-note]: a 10 µF 10 V X7R at 5 V keeps 50 % in 0805 and 93 % in 1206: the case decides the
+# DC-bias term
 @pytest.mark.parametrize("case, loss", [
-    pytest.param("0805", D("50.2"), id="0805-loses-about-half-S41"),
+    pytest.param("0805", D("50.2"), id="0805-loses-about-half-dc-bias-note"),
     pytest.param("1206", D("21.2"), id="1206-loses-far-less"),
     pytest.param(None, D("56.6"), id="unknown-case-assumes-the-worst-small-case"),
 ])
@@ -379,7 +380,7 @@ def test_voltage_margin_follows_the_family_derating(part, volts, word):
     assert g.budget.voltage.word == word
 
 
-# S39, S73 (common practice): MnO₂ tantalum's rated voltage falls to about ⅔ at +125 °C from +85 °C,
+# [tantalum-derating-qa], [forum-tantalum-derating] (common practice): MnO₂ tantalum's rated voltage falls to about ⅔ at +125 °C from +85 °C,
 # and 50 % of that is carried: a 25 V part at +125 °C may carry 16.7 V at all, 8.3 V customarily.
 @pytest.mark.parametrize("volts, word", [
     pytest.param(D(8), "fit", id="8V-within-8.3V"),
@@ -496,7 +497,7 @@ def test_the_build_position_decides_whether_an_x_part_may_serve(safety, position
     assert grade(m, "mains", Conditions(position=position)).word == word
 
 
-# IEC 60384-14 (S30): Y4 is rated below 150 V AC; X3, the least X class, is assumed on mains of at
+# [IEC 60384-14] ([safety-parameters-page]): Y4 is rated below 150 V AC; X3, the least X class, is assumed on mains of at
 # least 150 V AC when no voltage is given: a Y4 part takes line–earth, line–line only on a lower mains
 def test_a_y4_part_may_take_line_to_line_only_on_a_mains_its_rating_reaches():
     y4 = Marking("Y4 1n 125VAC", D(1000), pct_tol("20"), D(125), "AC", PP, safety_class="Y4")
