@@ -9,18 +9,18 @@ characters give an ``unreadable`` flag; tokens nobody understands are kept verba
 
 Flag kinds raised here: ``unreadable``, ``unparsed``, ``unit-assumed``, ``ambiguous-code``,
 ``tolerance-by-value``, ``disputed-code``, ``spelling-corrected``, ``conflicting-readings``,
-``polarity-assumed``, ``voltage-kind-assumed``.
+``polarity-assumed``, ``voltage-kind-assumed``. How a decoded part is told to people is
+:mod:`stock.markings.description`; the cautions it calls for, :mod:`stock.markings.cautions`.
 
 >>> m = decode("104K 2A X7R")
 >>> m.capacitance_pf, m.tolerance.plus, m.voltage_v, m.voltage_kind, m.dielectric.code
 (Decimal('100000'), Decimal('10'), Decimal('100'), 'DC', 'X7R')
->>> summary(m)
-'100 nF ±10 %  100 V DC  X7R (−55…+125 °C, ±15 %)'
 >>> decode("X2 0.1uF 275VAC").safety_class, decode("10uF 16V tantalum +").polarity
 ('X2', 'positive-marked')
 
 Distributor descriptions are read word by word; the package words go to the package decoder:
 
+>>> from stock.markings.description import summary
 >>> summary(decode("CAP ALUM 100UF 20% 25V RADIAL"))
 '100 µF ±20 %  25 V DC  aluminium-electrolytic (−40…+105 °C, +10/−20 %)  negative-marked  through-hole radial'
 
@@ -44,10 +44,9 @@ from stock.markings.colours import decode_colours
 from stock.decoded import Alternative, Dielectric, Flag, Marking, Tolerance
 from stock.markings.families import PHRASE_WORDS, read_family, read_misspelt_family
 from stock.markings.packages import CHIP_SIZES, read_package
-from stock.markings.safety_classes import CAUTION, read_safety_class
+from stock.markings.safety_classes import read_safety_class
 from stock.markings.tolerance_codes import read_explicit_tolerance, read_tolerance_letter
-from stock.units import (format_capacitance, format_number, format_temperature, format_temperature_range,
-                         format_tolerance, format_voltage)
+from stock.units import (format_capacitance, format_tolerance, format_voltage)
 from stock.markings.value_codes import ValueReading, read_value
 from stock.markings.voltage_codes import DISPUTED_VOLTAGE_CODES, read_voltage, voltage_code_value
 
@@ -61,7 +60,7 @@ USUAL_POLARITY = {
     "tantalum": ("positive-marked", "tantalums usually mark the positive lead"),
     "tantalum-polymer": ("positive-marked", "polymer tantalums usually mark the positive lead"),
 }
-_POLARISED = frozenset({"aluminium-electrolytic", "tantalum", "tantalum-polymer", "double-layer"})
+POLARISED_FAMILIES = frozenset({"aluminium-electrolytic", "tantalum", "tantalum-polymer", "double-layer"})
 
 _ALLOWED_EXTRA = frozenset("±°…")
 _DECIMAL_COMMA = re.compile(r"(?<=\d),(?=\d)")
@@ -599,94 +598,4 @@ def decode(text: str) -> Marking:
     return _decode_cached(text)
 
 
-def describe_dielectric(d: Dielectric) -> str:
-    """A dielectric in a few words: ``X7R (−55…+125 °C, ±15 %)``, ``C0G (0 ±30 ppm/K)``.
-
-    >>> describe_dielectric(decode("N750").dielectric)
-    'N750 (−750 ppm/K)'
-    """
-    parts = []
-    if d.tempco_ppm_per_k is not None:
-        tempco = format_number(d.tempco_ppm_per_k)
-        if d.tempco_ppm_per_k > 0:
-            tempco = "+" + tempco
-        if d.tempco_tol_ppm_per_k is not None:
-            tempco += f" ±{format_number(d.tempco_tol_ppm_per_k)}"
-        parts.append(tempco + " ppm/K")
-    if d.klass != 1 and d.temp_min_c is not None and d.temp_max_c is not None:
-        parts.append(format_temperature_range(d.temp_min_c, d.temp_max_c))
-    if d.change_minus_pct is not None and d.change_plus_pct is not None:
-        parts.append(format_tolerance(Tolerance(d.change_minus_pct, d.change_plus_pct, "%")))
-    if d.klass is None and d.family != d.code:
-        parts.insert(0, d.family)
-    return f"{d.code} ({', '.join(parts)})" if parts else d.code
-
-
-def summary(m: Marking) -> str:
-    """One line in engineering units: ``100 nF ±10 %  100 V DC  X7R (−55…+125 °C, ±15 %)``.
-
-    >>> summary(decode("2200uF 25V 105C"))
-    '2200 µF  25 V DC  105 °C rated'
-    >>> summary(decode("47uF 63V elko"))
-    '47 µF  63 V DC  aluminium-electrolytic (−40…+105 °C, +10/−20 %)  negative-marked'
-    """
-    parts = []
-    if m.capacitance_pf is not None:
-        value = format_capacitance(m.capacitance_pf)
-        if m.tolerance is not None:
-            value += " " + format_tolerance(m.tolerance)
-        parts.append(value)
-    elif m.tolerance is not None:
-        parts.append(format_tolerance(m.tolerance))
-    if m.voltage_v is not None:
-        parts.append(format_voltage(m.voltage_v, m.voltage_kind))
-    if m.dielectric is not None:
-        parts.append(describe_dielectric(m.dielectric))
-    if m.safety_class:
-        parts.append(f"safety class {m.safety_class}")
-    if m.rated_temp_c is not None:
-        parts.append(f"{format_temperature(m.rated_temp_c, signed=False)} rated")
-    if m.polarity:
-        parts.append(m.polarity)
-    if m.package:
-        parts.append(read_package(m.package).describe())
-    return "  ".join(parts) if parts else "(nothing decoded)"
-
-
-# Caution texts, one per hazard (the mains one is safety_classes.CAUTION; shelf and soldering
-# hazards of a kind are stock.physics.stability.SHELF_LIFE). Common practice, no published source.
-POLARISED_CAUTION = ("Polarised part: fit it the right way round and never above its rated voltage; "
-                     "reversed or overvolted it can vent or burst.")
-CHARGE_CAUTION = ("High-voltage part: it can hold a dangerous charge after power is removed; discharge "
-                  "it through a suitable resistor and check with a meter before touching.")
-POLARITY_MARKS_CAUTION = ("Tantalums mark the positive lead, aluminium electrolytics the negative: when "
-                          "one replaces the other, fit it by the circuit's polarity, not by where the old "
-                          "part's stripe was.")
-POLARISED_FOR_PLAIN_CAUTION = ("A polarised part where the original was not: only where a steady DC voltage "
-                               "keeps it the right way round (measure it first); its positive lead goes to "
-                               "the more positive side.")
-RETUNE_CAUTION = ("A new part in a tuned circuit may shift its frequency: check the alignment against the "
-                  "service information and re-align where needed.")
-DEFER_CAUTION = "Defer to the equipment's service information and to local codes."
-
-
-def cautions(m: Marking) -> tuple[str, ...]:
-    """The safety cautions a person handling this part should read (mains, polarity, stored charge).
-
-    >>> cautions(decode("X2 0.1uF 275VAC"))[0].startswith("mains work can kill")
-    True
-    """
-    out = []
-    if m.safety_class:
-        out.append(CAUTION)
-    family = m.dielectric.family if m.dielectric else None
-    if family in _POLARISED or m.polarity:
-        out.append(POLARISED_CAUTION)
-    if m.voltage_v is not None and (m.voltage_v >= 250 or m.voltage_kind == "AC"):
-        out.append(CHARGE_CAUTION)
-    return tuple(out)
-
-
-__all__ = ["CHARGE_CAUTION", "DEFER_CAUTION", "MAX_MARKING_CHARS", "POLARISED_CAUTION",
-           "POLARISED_FOR_PLAIN_CAUTION", "POLARITY_MARKS_CAUTION", "RETUNE_CAUTION", "USUAL_POLARITY",
-           "cautions", "decode", "describe_dielectric", "merge_colours", "summary"]
+__all__ = ["MAX_MARKING_CHARS", "POLARISED_FAMILIES", "USUAL_POLARITY", "decode", "merge_colours"]

@@ -34,8 +34,9 @@ from typing import Any
 from stock.decoded import Marking
 from stock.errors import BadValue, NotFound
 from stock.inventory.bins import part_marking, stored_marking
-from stock.markings.decoder import (DEFER_CAUTION, POLARISED_FOR_PLAIN_CAUTION, POLARITY_MARKS_CAUTION,
-                                    RETUNE_CAUTION, cautions as marking_cautions, decode, summary)
+from stock.markings.decoder import decode
+from stock.markings.description import summary
+from stock.markings.cautions import DEFER_CAUTION, POLARISED_FOR_PLAIN_CAUTION, POLARITY_MARKS_CAUTION, RETUNE_CAUTION, cautions as marking_cautions
 from stock.markings.families import family_dielectric
 from stock.markings.preferred_values import nearest, series_for_tolerance
 from stock.markings.safety_classes import CAUTION as MAINS_CAUTION, read_safety_class

@@ -18,7 +18,7 @@ from decimal import Decimal
 from typing import Any
 
 from stock.decoded import Marking
-from stock.markings.decoder import describe_dielectric, summary
+from stock.markings.description import describe_dielectric, summary
 from stock.markings.safety_classes import read_safety_class
 from stock.matching.requirement import Requirement, fmt, tolerance_pct
 from stock.matching.search import Combination, Match
