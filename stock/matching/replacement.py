@@ -41,7 +41,8 @@ from stock.markings.families import family_dielectric
 from stock.markings.preferred_values import nearest, series_for_tolerance
 from stock.markings.safety_classes import CAUTION as MAINS_CAUTION, read_safety_class
 from stock.markings.typed_values import parse_voltage
-from stock.matching.requirement import DEFAULT_BUY_TOL_PCT, Requirement, fmt, tolerance_pct
+from stock.matching.requirement import DEFAULT_BUY_TOL_PCT, Requirement, fmt
+from stock.matching.part_checks import tolerance_pct
 from stock.matching.search import Combination, Match, candidates, find
 from stock.matching.stand_ins import (TUNED_KINDS, Need, StandIn, judge, part_names, pair_stand_in,
                                       single_stand_in, stand_in_rank)
