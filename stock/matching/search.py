@@ -28,10 +28,10 @@ from stock.decoded import Marking
 from stock.errors import BadValue
 from stock.markings.preferred_values import nearest, series_for_tolerance
 from stock.markings.ceramic_codes import assumed_tempco_tolerance
-from stock.matching.requirement import (DEFAULT_BUY_TOL_PCT, NOMINAL_MATCH_PCT, SAFETY_CAUTION,
-                               Requirement, Stocked, Verdict, build_requirement, check_part,
-                               check_single, check_tempco, check_value, fmt, parse_tempco_window,
-                               tempco_tolerance, tolerance_pct, window_text)
+from stock.matching.requirement import (DEFAULT_BUY_TOL_PCT, NOMINAL_MATCH_PCT, SAFETY_CAUTION, Requirement,
+                                        build_requirement, fmt, parse_tempco_window, tempco_tolerance)
+from stock.matching.part_checks import (Stocked, Verdict, check_part, check_single, check_tempco, check_value,
+                                        tolerance_pct, window_text)
 from stock.physics.stability import assumed_tempco_tol
 from stock.store.database import Store
 from stock.units import format_capacitance

@@ -18,9 +18,10 @@ from decimal import Decimal
 from typing import Any
 
 from stock.decoded import Marking
-from stock.markings.decoder import describe_dielectric, summary
+from stock.markings.description import describe_dielectric, summary
 from stock.markings.safety_classes import read_safety_class
-from stock.matching.requirement import Requirement, fmt, tolerance_pct
+from stock.matching.requirement import Requirement, fmt
+from stock.matching.part_checks import tolerance_pct
 from stock.matching.search import Combination, Match
 from stock.matching.substitutions import (MOUNTING_CHANGES, NEVER_STAND_INS, SAFETY, Substitution,
                                           candidate_rules)

@@ -15,7 +15,9 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from stock.decoded import Marking
-from stock.markings.decoder import MAX_MARKING_CHARS, cautions, decode, summary
+from stock.markings.decoder import MAX_MARKING_CHARS, decode
+from stock.markings.description import summary
+from stock.markings.cautions import cautions
 
 D = Decimal
 

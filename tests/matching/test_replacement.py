@@ -16,8 +16,7 @@ from hypothesis import strategies as st
 
 from stock.errors import BadValue, NotFound
 from stock.inventory.intake import import_file
-from stock.markings.decoder import (DEFER_CAUTION, POLARISED_FOR_PLAIN_CAUTION, POLARITY_MARKS_CAUTION,
-                                    RETUNE_CAUTION)
+from stock.markings.cautions import DEFER_CAUTION, POLARISED_FOR_PLAIN_CAUTION, POLARITY_MARKS_CAUTION, RETUNE_CAUTION
 from stock.markings.safety_classes import CAUTION as MAINS_CAUTION
 from stock.matching.replacement import implied_need, mounting_of, read_original, replace_part
 from stock.physics.stability import SHELF_LIFE
