@@ -489,9 +489,7 @@ def _tempco_tolerance(d: Dielectric, unmarked_at_usual: bool) -> Decimal | None:
 
 @pytest.mark.parametrize("unmarked_at_usual", [
     pytest.param(False, id="unmarked-judged-on-nominal"),
-    pytest.param(True, id="unmarked-at-usual-tolerance", marks=pytest.mark.xfail(
-        strict=False, reason="pairs count an unmarked tempco tolerance as 0 until the search uses the "
-                             "part's usual tolerance (N750 ±120 ppm/K)")),
+    pytest.param(True, id="unmarked-at-usual-tolerance"),
 ])
 @settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(parts=st.lists(stored_part, min_size=1, max_size=14), wanted=requirement, data=st.data())
