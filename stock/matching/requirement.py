@@ -42,13 +42,15 @@ from decimal import Decimal, InvalidOperation
 from functools import cached_property
 from typing import Any
 
-from stock.physics import combining
-from stock.markings.ceramic_codes import assumed_tempco_tolerance, decode_dielectric, read_dielectric
 from stock.decoded import FAMILIES, Dielectric, Tolerance
 from stock.errors import BadValue
+from stock.markings.ceramic_codes import assumed_tempco_tolerance, decode_dielectric, read_dielectric
+from stock.markings.families import decode_family
 from stock.markings.safety_classes import MAINS_CAUTION, POSITION_NAMES, SUBCLASSES, read_safety_class
+from stock.markings.typed_values import parse_capacitance, parse_voltage
+from stock.physics import combining
 from stock.physics.grading import APPLICATIONS, POSITIONS, Conditions
-from stock.units import format_capacitance, format_tolerance
+from stock.units import format_capacitance, format_tolerance, parse_percent, parse_temperature_range
 
 NOMINAL_MATCH_PCT = Decimal(1)  # common practice, no published source: "the same value" within 1 %
 DEFAULT_BUY_TOL_PCT = Decimal(10)  # E12, when the requirement names no tolerance
@@ -138,7 +140,6 @@ MAX_WORKING_V = Decimal(1_000_000)   # past 1 MV a working voltage is a typing s
 @dataclass(frozen=True)
 class Requirement:
     """What a position in a circuit needs (see the module docstring for what each field demands)."""
-
     capacitance_pf: Decimal
     tol_pct: Decimal | None = None
     tempco_min: Decimal | None = None
@@ -290,9 +291,6 @@ def build_requirement(*, value: str, tol: str | None = None, tempco: str | None 
     >>> build_requirement(value="150p", tol="5%", tempco="C0G", volts="50", use="tuned").describe()
     '150 pF ±5 %, C0G, 0±30 ppm/K, ≥ 50 V, fit for tuned'
     """
-    from stock.markings.families import decode_family
-    from stock.units import parse_percent, parse_temperature_range
-    from stock.markings.typed_values import parse_capacitance, parse_voltage
     window = parse_tempco_window(tempco) if tempco else (None, None)
     code = None
     if tempco and not (_WINDOW.match(tempco) or _RANGE.match(tempco)):
