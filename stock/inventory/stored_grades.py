@@ -1,7 +1,8 @@
 """Grades over the store: each bin's grades at given conditions, and the stored default grades.
 
 :func:`refresh_stored_grades` keeps the ``grades`` table current at the default conditions: it
-grades each distinct marking once and writes every bin's rows in bulk, and does nothing when the
+grades each distinct grading input once (the reading shown, whether it was settled, the bin's
+package) and writes those rows in bulk, and does nothing when the
 application table and model version are unchanged. :func:`grade_bins` grades bins at any
 conditions on the fly. The physics is :mod:`stock.grading`; this module only reads and writes.
 """
