@@ -50,7 +50,9 @@ def _num(value: Decimal | None) -> float | None:
 
 
 def _dec(value: Any) -> Decimal | None:
-    return None if value is None else Decimal(str(value))
+    if value is None or type(value) is Decimal:    # JSON read with parse_float=Decimal
+        return value
+    return Decimal(str(value))
 
 
 @dataclass(frozen=True)

@@ -48,15 +48,19 @@ def stored_marking(decoded_json: str, settled_json: str | None) -> Marking:
     return _marking_from_text(decoded_json)
 
 
+# Stored numbers come back as Decimals straight from the JSON text (one decoder, made once).
+_JSON = json.JSONDecoder(parse_float=Decimal)
+
+
 @lru_cache(maxsize=16384)
 def _marking_from_text(text: str) -> Marking:
     """Markings repeat across bins: parse each stored JSON text once (Markings are frozen)."""
-    return Marking.from_json(json.loads(text))
+    return Marking.from_json(_JSON.decode(text))
 
 
 @lru_cache(maxsize=4096)
 def _settled_marking(text: str) -> Marking | None:
-    data = json.loads(text)
+    data = _JSON.decode(text)
     if isinstance(data, dict) and isinstance(data.get("marking"), dict):
         data = data["marking"]
     if isinstance(data, dict) and "text" in data:

@@ -175,18 +175,35 @@ def _import_json(db: Path, path: Path) -> dict:
 
 @pytest.fixture
 def rows_read(monkeypatch) -> list[int]:
-    """Counts the rows openpyxl's read-only sheet hands the importer (padding rows included)."""
+    """Counts the rows the workbook readers hand the importer, padding rows included: openpyxl's
+    read-only sheet and python-calamine's loaded sheet (whichever reads the file)."""
+    import importers.xlsx_sheet as xlsx_sheet
     from openpyxl.worksheet._read_only import ReadOnlyWorksheet
 
     counted = [0]
     original = ReadOnlyWorksheet._cells_by_row
+    original_calamine = xlsx_sheet._calamine_rows
 
     def counting(self, *args, **kwargs):
         for row in original(self, *args, **kwargs):
             counted[0] += 1
             yield row
 
+    class CountedSheet:
+        def __init__(self, cells):
+            self._cells = cells
+
+        def __getattr__(self, name):
+            return getattr(self._cells, name)
+
+        def iter_rows(self):
+            for row in self._cells.iter_rows():
+                counted[0] += 1
+                yield row
+
     monkeypatch.setattr(ReadOnlyWorksheet, "_cells_by_row", counting)
+    monkeypatch.setattr(xlsx_sheet, "_calamine_rows",
+                        lambda file, sheet, cells, notes: original_calamine(file, sheet, CountedSheet(cells), notes))
     return counted
 
 
