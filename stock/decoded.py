@@ -16,6 +16,7 @@ True
 from __future__ import annotations
 
 from dataclasses import dataclass, replace
+from functools import lru_cache
 from decimal import Decimal
 from typing import Any, Literal
 
@@ -97,8 +98,7 @@ class Tolerance:
     def from_json(cls, data: dict[str, Any] | None, code: str | None = None) -> Tolerance | None:
         if data is None:
             return None
-        return cls(Decimal(str(data["minus"])), Decimal(str(data["plus"])), data["unit"],
-                   code=data.get("code", code))
+        return _tolerance(data["minus"], data["plus"], data["unit"], data.get("code", code))
 
 
 @dataclass(frozen=True)
@@ -136,6 +136,11 @@ class Dielectric:
     def from_json(cls, data: dict[str, Any] | None) -> Dielectric | None:
         if data is None:
             return None
+        return _dielectric(tuple(data.items()))
+
+    @classmethod
+    def _from_items(cls, items: tuple[tuple[str, Any], ...]) -> Dielectric:
+        data = dict(items)
         return cls(
             code=data["code"], family=data["family"], klass=data.get("class"),
             tempco_ppm_per_k=_dec(data.get("tempco_ppm_per_k")),
@@ -145,6 +150,18 @@ class Dielectric:
             change_plus_pct=_dec(data.get("change_plus_pct")),
             source=data.get("source", ""),
         )
+
+
+# Stored readings repeat their tolerances and dielectrics; both are frozen, so each distinct one
+# is built once when a store's JSON is read back (a find over a million bins reads thousands).
+@lru_cache(maxsize=1024)
+def _tolerance(minus: Any, plus: Any, unit: ToleranceUnit, code: str | None) -> Tolerance:
+    return Tolerance(_dec(minus), _dec(plus), unit, code=code)
+
+
+@lru_cache(maxsize=1024)
+def _dielectric(items: tuple[tuple[str, Any], ...]) -> Dielectric:
+    return Dielectric._from_items(items)
 
 
 @dataclass(frozen=True)
@@ -226,21 +243,25 @@ class Marking:
     @classmethod
     def from_json(cls, data: dict[str, Any]) -> Marking:
         """Rebuild a marking from :meth:`to_json` output (the store keeps that JSON)."""
+        # A find reads back one of these per candidate bin: empty lists skip their tuple builds.
+        get = data.get
+        tolerance, dielectric = get("tolerance"), get("dielectric")
+        alternatives, flags, unparsed = get("alternatives"), get("flags"), get("unparsed")
         return cls(
             text=data["text"],
-            capacitance_pf=_dec(data.get("capacitance_pf")),
-            tolerance=Tolerance.from_json(data.get("tolerance"), code=data.get("tolerance_code")),
-            voltage_v=_dec(data.get("voltage_v")),
-            voltage_kind=data.get("voltage_kind"),
-            dielectric=Dielectric.from_json(data.get("dielectric")),
-            safety_class=data.get("safety_class"),
-            polarity=data.get("polarity"),
-            rated_temp_c=_dec(data.get("rated_temp_c")),
-            alternatives=tuple(Alternative.from_json(a) for a in data.get("alternatives", [])),
-            flags=tuple(Flag(f["kind"], f["message"]) for f in data.get("flags", [])),
-            unparsed=tuple(data.get("unparsed", [])),
-            package=data.get("package"),
-            mounting=data.get("mounting"),
+            capacitance_pf=_dec(get("capacitance_pf")),
+            tolerance=None if tolerance is None else Tolerance.from_json(tolerance, code=get("tolerance_code")),
+            voltage_v=_dec(get("voltage_v")),
+            voltage_kind=get("voltage_kind"),
+            dielectric=None if dielectric is None else Dielectric.from_json(dielectric),
+            safety_class=get("safety_class"),
+            polarity=get("polarity"),
+            rated_temp_c=_dec(get("rated_temp_c")),
+            alternatives=tuple(Alternative.from_json(a) for a in alternatives) if alternatives else (),
+            flags=tuple(Flag(f["kind"], f["message"]) for f in flags) if flags else (),
+            unparsed=tuple(unparsed) if unparsed else (),
+            package=get("package"),
+            mounting=get("mounting"),
         )
 
 

@@ -140,17 +140,23 @@ def _query(store: Store, req: Requirement, lo: float | None, hi: float | None, *
 # The columns a single-part search needs, as plain tuples (no dict per row): bin, JSON, reserved.
 _CANDIDATE_SELECT = (
     "SELECT b.id, b.bin_key, b.location, b.on_hand, p.decoded_json, p.settled_json,"
-    " s.held AS reserved"
+    " s.held AS reserved, p.capacitance_pf AS shown_pf"
     " FROM parts p JOIN bins b ON b.id = p.bin_id JOIN bin_stock s ON s.bin_id = b.id")
 
 
-def candidates(store: Store, req: Requirement, *, to_measure: bool = False) -> list[Match]:
+def candidates(store: Store, req: Requirement, *, to_measure: bool = False,
+               limit: int | None = None) -> list[Match]:
     """The single parts that meet the requirement, best first (value error, grade, spare, bin).
 
     The SQL pre-filter takes the capacitance window and the indexed per-part filters; every row is
     then checked exactly with :func:`check_single`. With ``to_measure`` (a requirement with a
     tolerance only), the parts whose tolerance is not marked but whose nominal is in the window:
     no proven matches, parts to measure.
+
+    With ``limit``, at least the first ``limit`` of that same order (all of them when fewer qualify):
+    rows are visited nearest value first, from the stored value column, and only rows that can still
+    reach the answer are read back and checked. Value error leads the order, so once ``limit``
+    parts qualify, a row further from the target than the last one checked cannot enter it.
     """
     lo, hi = req.value_window()
     if to_measure:
@@ -163,17 +169,29 @@ def candidates(store: Store, req: Requirement, *, to_measure: bool = False) -> l
     sql = (f"SELECT * FROM ({_CANDIDATE_SELECT} WHERE {' AND '.join(where)})"
            " WHERE COALESCE(on_hand, 0) - reserved >= ?")
     target, qty = req.capacitance_pf, req.qty
-    found = []
-    for bin_id, bin_key, location, on_hand, decoded, settled, reserved in store.db.conn.execute(
-            sql, (*params, qty)):
+    rows: Any = store.db.conn.execute(sql, (*params, qty))
+    if limit is not None:
+        rows = sorted(((value_error(Decimal(repr(row[7])), target), row) for row in rows),
+                      key=lambda pair: pair[0])
+    else:
+        rows = ((None, row) for row in rows)
+    found: list[Match] = []
+    last_error = None
+    for error, (bin_id, bin_key, location, on_hand, decoded, settled, reserved, _pf) in rows:
+        if limit is not None and len(found) >= limit and error != last_error:
+            break                  # every row left is further from the target than the answer
+        last_error = error
         part = Stocked(bin_id, bin_key, location, on_hand, int(reserved), stored_marking(decoded, settled))
         if to_measure and tolerance_pct(part.marking) is not None:
             continue
         verdict = check_single(part, req, to_measure=to_measure)
         if verdict.ok:
             c = part.marking.capacitance_pf
+            match_error = value_error(c, target)
+            if error is not None and match_error != error:
+                limit = None       # the stored column disagrees with the reading: check every row
             found.append(Match(bin_id, bin_key, location, part.marking.text, c, part.available,
-                               verdict.grade, verdict.reasons, part.marking, value_error(c, target)))
+                               verdict.grade, verdict.reasons, part.marking, match_error))
     found.sort(key=lambda m: (m.value_error_pct, GRADE_RANK[m.grade], -(m.available - qty), m.bin_key))
     return found
 
@@ -278,8 +296,8 @@ def find(store: Store, req: Requirement, *, combine: bool = False, limit: int = 
     """
     if limit < 1:
         raise BadValue("--limit", str(limit), "a number of results of 1 or more")
-    matches = tuple(candidates(store, req)[:limit])
-    to_measure = tuple(candidates(store, req, to_measure=True)[:limit])
+    matches = tuple(candidates(store, req, limit=limit)[:limit])
+    to_measure = tuple(candidates(store, req, to_measure=True, limit=limit)[:limit])
     combos: list[Combination] = []
     search = None
     if combine and not req.is_mains():   # never a pair on an X/Y position (see _explain)

@@ -576,3 +576,41 @@ def _check_every_result(store: Store, parts, wanted, data, unmarked_at_usual: bo
             else:                                        # an unmarked part: its nominal at least
                 assert _in_window(net, net, r)
         assert _part_ok(m1, r, v1) and _part_ok(m2, r, v2)
+
+
+# A limit reads back only the rows that can reach the answer (nearest value first, from the stored
+# value column); what it returns must be exactly the head of the full, unlimited order. Values
+# repeat across bins (ties in value error, settled by grade, spare and bin), and parts near the
+# target crowd the window, so the early stop is tried at every boundary.
+near_part = st.fixed_dictionaries({
+    "pf": st.sampled_from(["100", "100", "100.5", "99.5", "100.9", "99.1", "101"]),
+    "tol": st.sampled_from(["1", "2", "5", None]),
+    "volts": st.sampled_from(["100", "50", None]),
+    "code": st.sampled_from(["C0G", "U2J", "X7R", None]),
+    "safety": st.just(None),
+    "on_hand": st.sampled_from([10, 3, 1, 0, None]),
+    "reserved": st.sampled_from([0, 0, 1]),
+})
+
+
+@settings(max_examples=120, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(parts=st.lists(near_part, min_size=1, max_size=16), limit=st.integers(1, 6),
+       tol=st.sampled_from([None, D(2), D(5)]), application=st.sampled_from([None, "tuned", "bypass"]),
+       qty=st.sampled_from([1, 2]))
+def test_a_limited_search_is_the_head_of_the_full_order(parts, limit, tol, application, qty):
+    from stock.matching.search import candidates
+
+    with open_store(":memory:") as store:
+        for i, p in enumerate(parts):
+            m = part(f"p{i}", p["pf"], tol=p["tol"], volts=p["volts"], code=p["code"])
+            bin_id = add_bin(store, f"N{i}", m, p["on_hand"])
+            if p["reserved"] and p["on_hand"]:
+                reserve(store, bin_id, p["reserved"])
+        r = Requirement(capacitance_pf=D(100), tol_pct=tol, application=application, qty=qty,
+                        allow_marginal=True)
+        for to_measure in (False, True):
+            every = candidates(store, r, to_measure=to_measure)
+            head = candidates(store, r, to_measure=to_measure, limit=limit)
+            assert [m.bin_key for m in head[:limit]] == [m.bin_key for m in every[:limit]]
+            assert len(head) >= min(limit, len(every))
+            assert head == every[:len(head)]
