@@ -214,6 +214,25 @@ BOM_MAINS = [
     ("F1", 1, "T500mA", "", "", "", "", "fuse", "5x20 slow"),
     ("BR1", 1, "W04", "", "", "", "", "bridge rectifier", ""),
 ]
+# The back shelf: bags bought from distributors, kept in boxes, listed by a helper who typed the
+# headers in his own words and copied each bag's description (typing slips included).
+BACK_SHELF_HEADERS = ["What the bag says", "Which box", "How many left", "Bought for"]
+BACK_SHELF = [
+    ["CAP CER 0.1UF 50V X7R 0805", "K1", 180, "decoupling"],
+    ["CAP CER 22PF 50V C0G 0603", "K2", 95, "crystal loads"],
+    ["CAP CER 4.7NF 100V X7R 1206", "K3", 60, ""],
+    ["CAP ALUM 220UF 20% 35V RADIAL 8x11.5", "K4", 14, "supply rebuilds"],
+    ["CAP ALUM 1000UF 20% 16V RADIAL 10x20", "K5", 6, ""],
+    ["CAP TANT 10UF 10% 16V 1206", "K6", 25, ""],
+    ["CAP FILM 0.47UF 275VAC X2 RADIAL", "K7", 8, "mains filter"],
+    ["CAP FILM 10NF 5% 100V POLYESTER RADIAL", "K8", 40, ""],
+    ["CAP MICA 100PF 5% 500V", "K9", 12, "transmitter"],
+    ["Capacitor 4n7 2.5% 63V polystyrene axial", "K10", 20, ""],
+    ["47uF 25V elctrolytic radial", "K11", 30, ""],
+    ["1OOn 63V MKT", "K12", 50, ""],
+    ["1k", "K13", 100, "resistors, wrong shelf"],
+]
+
 BOM_HEADERS = ["Ref", "Qty", "Value", "Tol", "Voltage", "Dielectric", "Use", "Type", "Notes"]
 
 
@@ -262,6 +281,12 @@ def build(out: Path = HERE) -> list[Path]:
         w.writerow(["Drawer", "Value", "Code", "WV", "Dielectric/Type", "Tol", "Qty", "Date code", "Remarks"])
         w.writerows(CABINET_C)
 
+    shelf = out / "back_shelf.csv"
+    with open(shelf, "w", newline="", encoding="utf-8") as fh:
+        w = csv.writer(fh)
+        w.writerow(BACK_SHELF_HEADERS)
+        w.writerows(BACK_SHELF)
+
     smd = out / "smd_drawers.csv"
     with open(smd, "w", newline="", encoding="utf-8") as fh:
         w = csv.writer(fh)
@@ -273,7 +298,7 @@ def build(out: Path = HERE) -> list[Path]:
         w.writerow(SUPPLY_HEADERS)
         w.writerows(BOM_SUPPLY)
 
-    written = [register, drawers, smd, supply]
+    written = [register, drawers, shelf, smd, supply]
     for name, rows in (("vfo_7mhz_bom.csv", BOM_VFO), ("mains_inlet_bom.csv", BOM_MAINS)):
         path = out / name
         with open(path, "w", newline="", encoding="utf-8") as fh:

@@ -69,6 +69,30 @@ BIN_ALIASES: dict[str, tuple[str, ...]] = {
     "polarity": ("polarity", "polarised", "polarized", "polar", "pol", "+ lead", "bipolar"),
     "rated_temp": ("rated temp", "rated temperature", "temp", "temperature", "max temp", "temp rating",
                    "temp range", "operating temp", "°c", "degrees"),
+    "bin_key": ("bin key",),      # the whole identity "<cabinet>/<location>", as exports write it
+}
+
+# One line per bin-sheet field, for `stock import --help`.
+FIELD_MEANINGS: dict[str, str] = {
+    "marking": "what is printed on the part: 104K 2A, 4n7 C0G, CAP CER 0.1UF 50V X7R 0603",
+    "value": "the capacitance: 4.7nF, 0.1uF, 4700 (a unit in the header: 'Value (pF)')",
+    "tolerance": "±5 %, 10%, J, K",
+    "voltage": "rated voltage: 50, 50V, 275VAC",
+    "dielectric": "C0G, X7R, polyester, MKP, tantalum, electrolytic",
+    "colours": "colour bands or dots: yellow violet orange",
+    "quantity": "pieces on hand (blank = not counted, not zero)",
+    "location": "the bin within its cabinet: A1, drawer 12",
+    "label": "the bin's label or a description (read for the value when nothing else is)",
+    "cabinet": "the cabinet or rack (default: the sheet or file name)",
+    "notes": "anything else about the bin",
+    "minimum": "reorder when fewer are on hand",
+    "package": "0805, radial 5x11, axial",
+    "mounting": "SMD or through-hole",
+    "date_code": "maker's date code: 1832, 2019-07",
+    "safety_class": "mains safety class: X2, Y1",
+    "polarity": "polarised or not, which lead is marked",
+    "rated_temp": "rated temperature: 105 °C",
+    "bin_key": "cabinet/location in one cell, as the inventory export writes it",
 }
 
 BOM_ALIASES: dict[str, tuple[str, ...]] = {
@@ -281,6 +305,9 @@ class HeaderMap:
         units: field → capacitance unit its header names ("pF", "nF" or "µF").
         notes: header → why it was left unmapped when that is worth saying (ambiguous, lost to
             another column for the same field, unmapped by ``--map FIELD=``).
+        also: field → further columns that carry the same field (a second value or marking
+            column); rows are read from the first filled one and the others cross-check it.
+        column_units: column index → capacitance unit its header names, for every column.
     """
 
     vocabulary: str
@@ -291,6 +318,24 @@ class HeaderMap:
     how: dict[str, str] = field(default_factory=dict)
     units: dict[str, str] = field(default_factory=dict)
     notes: dict[str, str] = field(default_factory=dict)
+    also: dict[str, tuple[int, ...]] = field(default_factory=dict)
+    column_units: dict[int, str] = field(default_factory=dict)
+    label_is_value: bool = False       # the label column is read for the value when nothing else is
+
+    def reading_order(self) -> tuple[tuple[str, int], ...]:
+        """The columns a row's value is read from, in order: marking columns, then value columns.
+
+        >>> map_headers(["Cap.", "Value (pF)", "Qty"]).reading_order()
+        (('value', 0), ('value', 1))
+        """
+        out = []
+        for name in READING_ORDER:
+            if name in self.field_to_index:
+                out.append((name, self.field_to_index[name]))
+                out.extend((name, i) for i in self.also.get(name, ()))
+        if self.label_is_value and "label" in self.field_to_index:
+            out.append(("label", self.field_to_index["label"]))
+        return tuple(out)
 
     def header_of(self, field_name: str) -> str | None:
         """The header mapped to a field, or None when no column carries it."""
@@ -303,8 +348,13 @@ class HeaderMap:
         return None if index is None or index >= len(cells) else cells[index]
 
     def describe(self) -> list[str]:
-        """One line per header in column order, e.g. ``"'Cap.' → value (fuzzy 88)"``."""
+        """One line per header in column order, e.g. ``"'Cap.' → value (fuzzy 88)"``, then the
+        order the value columns are read in when there is more than one."""
         by_index = {i: f for f, i in self.field_to_index.items()}
+        order = self.reading_order()
+        rank = {i: n for n, (_, i) in enumerate(order, start=1)}
+        for name, columns in self.also.items():
+            by_index.update({i: name for i in columns})
         lines = []
         for i, header in enumerate(self.headers):
             name = by_index.get(i)
@@ -312,12 +362,28 @@ class HeaderMap:
                 why = self.notes.get(header)
                 lines.append(f"{header!r} → not used" + (f" ({why})" if why else ""))
                 continue
-            how = self.how.get(name, "alias")
-            detail = f"fuzzy {self.scores[name]:.0f}" if how == "fuzzy" else how
-            if name in self.units:
-                detail += f", unit {self.units[name]}"
+            how = self.how.get(f"{name}@{i}") or self.how.get(name, "alias")
+            if self.field_to_index.get(name) != i:
+                how = self.how.get(f"{name}@{i}", "alias")
+            score = self.scores.get(f"{name}@{i}", self.scores.get(name, 0))
+            detail = f"fuzzy {score:.0f}" if how == "fuzzy" else how
+            if i in self.column_units:
+                detail += f", unit {self.column_units[i]}"
+            if len(order) > 1 and i in rank:
+                detail += f", read {_ORDINALS.get(rank[i], str(rank[i]) + 'th')}"
+            elif name == "label" and self.label_is_value:
+                detail += ", read for the value"
             lines.append(f"{header!r} → {name} ({detail})")
+        if len(order) > 1:
+            names = " then ".join(repr(self.headers[i]) for _, i in order)
+            lines.append(f"each row's value is read from {names}, the first one filled;"
+                         " a second filled one is cross-checked")
         return lines
+
+
+# Fields that carry a part's reading, in the order a row's columns are tried.
+READING_ORDER = ("marking", "value")
+_ORDINALS = {1: "1st", 2: "2nd", 3: "3rd"}
 
 
 def map_headers(headers: Iterable[str], vocabulary: Vocabulary = "bins",
@@ -355,6 +421,7 @@ def map_headers(headers: Iterable[str], vocabulary: Vocabulary = "bins",
     notes: dict[str, str] = {}
     taken: set[int] = set()
     blocked: set[str] = set()
+    also: dict[str, list[int]] = {}
 
     for field_name, header in (overrides or {}).items():
         if field_name not in fields:
@@ -362,6 +429,7 @@ def map_headers(headers: Iterable[str], vocabulary: Vocabulary = "bins",
                            f"FIELD=HEADER with FIELD one of {', '.join(fields)}")
         if header is None or not str(header).strip():
             blocked.add(field_name)
+            how[field_name] = "blocked"      # no column, by --map FIELD= (content mapping too)
             continue
         i = _find_header(headers, str(header), field_name)
         if i in taken:
@@ -390,6 +458,11 @@ def map_headers(headers: Iterable[str], vocabulary: Vocabulary = "bins",
             notes[headers[i]] = f"looks like {name}, but --map {name}= left it unmapped"
             continue
         if name in field_to_index:
+            if vocabulary == "bins" and name in READING_ORDER:
+                also.setdefault(name, []).append(i)     # every value-like column is read
+                scores[f"{name}@{i}"], how[f"{name}@{i}"] = guess.score, guess.how
+                taken.add(i)
+                continue
             notes[headers[i]] = f"also looks like {name}; {headers[field_to_index[name]]!r} was used"
             continue
         field_to_index[name], scores[name], how[name] = i, guess.score, guess.how
@@ -399,7 +472,9 @@ def map_headers(headers: Iterable[str], vocabulary: Vocabulary = "bins",
 
     unmapped = tuple(h for i, h in enumerate(headers) if i not in taken)
     ordered = dict(sorted(field_to_index.items(), key=lambda kv: kv[1]))
-    return HeaderMap(vocabulary, headers, ordered, unmapped, scores, how, units, notes)
+    column_units = {i: u for i, h in enumerate(headers) if (u := split_unit(h)[1])}
+    return HeaderMap(vocabulary, headers, ordered, unmapped, scores, how, units, notes,
+                     {k: tuple(sorted(v)) for k, v in also.items()}, column_units)
 
 
 def _find_header(headers: tuple[str, ...], wanted: str, field_name: str) -> int:

@@ -191,6 +191,8 @@ class Marking:
     alternatives: tuple[Alternative, ...] = ()
     flags: tuple[Flag, ...] = ()
     unparsed: tuple[str, ...] = ()
+    package: str | None = None          # package words as written: "0603", "RADIAL 6.3x11"
+    mounting: str | None = None         # "SMD" or "THT", read from the package words
 
     def with_flags(self, *extra: Flag) -> Marking:
         """A copy with more flags (frozen values are never changed in place)."""
@@ -215,6 +217,8 @@ class Marking:
             "alternatives": [a.to_json() for a in self.alternatives],
             "flags": [f.to_json() for f in self.flags],
             "unparsed": list(self.unparsed),
+            "package": self.package,
+            "mounting": self.mounting,
         }
 
     @classmethod
@@ -233,6 +237,8 @@ class Marking:
             alternatives=tuple(Alternative.from_json(a) for a in data.get("alternatives", [])),
             flags=tuple(Flag(f["kind"], f["message"]) for f in data.get("flags", [])),
             unparsed=tuple(data.get("unparsed", [])),
+            package=data.get("package"),
+            mounting=data.get("mounting"),
         )
 
 

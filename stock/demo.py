@@ -112,7 +112,11 @@ def run_demo(out: Path, echo: Callable[[str], None], run: Callable[[Sequence[str
     ``echo`` prints a line.
     """
     src = demo_source()
-    out.mkdir(parents=True, exist_ok=False)
+    try:
+        out.mkdir(parents=True, exist_ok=False)
+    except FileExistsError:
+        raise BadValue("--dir", str(out), "a folder that does not exist yet (the demo makes a fresh"
+                       " database there)") from None
     db = out / "shop.db"
     echo(f"demo shop: Lantern Bench Instruments; database and workbooks in {out}")
     failed = 0

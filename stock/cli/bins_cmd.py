@@ -57,6 +57,7 @@ def _show_text(d: dict[str, Any]) -> str:
                       ("marking", "marking"), ("value", "value"), ("tolerance", "tolerance"),
                       ("dielectric", "dielectric"), ("family", "family"), ("voltage", "voltage"),
                       ("safety class", "safety_class"), ("package", "package"),
+                      ("mounting", "mounting"),
                       ("notes", "notes"), ("date code", "date_code")):
         if d.get(key) not in (None, ""):
             lines.append(f"  {name:<13}{d[key]}")
@@ -68,8 +69,9 @@ def _show_text(d: dict[str, Any]) -> str:
     if decoded.get("polarity"):
         lines.append(f"  {'polarity':<13}{decoded['polarity']}: fit it the right way round")
     if d.get("safety_class"):
-        lines.append("  caution: a mains safety part; replace only with a part of the same or a"
-                     " higher class, and follow local codes and licensed practice")
+        from stock.markings.safety_classes import MAINS_CAUTION
+
+        lines.append(f"  caution: {MAINS_CAUTION}")
     on_hand = "not counted" if d["on_hand"] is None else d["on_hand"]
     lines.append(f"  {'on hand':<13}{on_hand}   available {d['available']}   reserved {d['reserved']}")
     if d.get("settled"):
@@ -108,10 +110,11 @@ def register(app: typer.Typer) -> None:
             typer.echo(json.dumps({"bins": rows}, ensure_ascii=False, indent=2))
             return
         typer.echo(text_table(
-            ["bin", "marking", "value", "tolerance", "dielectric", "voltage", "on hand",
+            ["bin", "marking", "value", "tolerance", "dielectric", "voltage", "package", "on hand",
              "available", "flags"],
             [[r["bin_key"], r["marking"], r["value"], r["tolerance"], r["dielectric"] or r["family"],
-              r["voltage"], r["on_hand"], r["available"], r["open_flags"]] for r in rows]))
+              r["voltage"], r["package_text"], r["on_hand"], r["available"], r["open_flags"]]
+             for r in rows]))
 
     @app.command("show", help=SHOW_HELP)
     def show_command(

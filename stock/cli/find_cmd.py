@@ -11,7 +11,7 @@ from stock.cli.context import state
 
 FIND_HELP = """Find parts on hand for a requirement: single parts, and with --combine parallel or series pairs.
 
-A part qualifies when its whole marked tolerance stays inside --tol, its tempco band inside the --tempco window, its rating (derated) covers --volts, its grade is fit for --use, and enough are available (on hand less reserved). When nothing does, the answer says what ruled out the nearest parts and which preferred value to buy.
+A part qualifies when its whole marked tolerance stays inside --tol, its tempco band inside the --tempco window, its rating (derated) covers --volts, its grade is fit for --use, and enough are available (on hand less reserved). With --tol, parts whose tolerance is not marked are no proven match: they are listed after the matches as parts to measure. A mains requirement (--use mains, --safety, --position) takes only X/Y parts whose class covers the position, never a pair. When nothing does, the answer says what ruled out the nearest parts and which preferred value to buy.
 
 Examples:
 
@@ -49,8 +49,16 @@ def _format_result(result) -> str:  # noqa: ANN001  (a stock.search.FindResult)
             facts.append(f"stands {fmt(c.voltage_v, 1)} V")
         lines.append(f"  {c.kind}: {parts} → {', '.join(facts)}")
         lines.extend(f"      {r}" for r in c.reasons)
+    if result.to_measure:
+        lines.append("to measure (tolerance not marked, so no proven match; measure before fitting):")
+    for m in result.to_measure:
+        where = f" at {m.location}" if m.location else ""
+        grade = f", {m.grade}" if m.grade else ""
+        lines.append(f"  bin {m.bin_key}{where}: {m.marking} = {format_capacitance(m.capacitance_pf)},"
+                     f" {m.available} available{grade}")
+        lines.extend(f"      {r}" for r in m.reasons)
     if not result.matches and not result.combinations:
-        lines.append("nothing on hand will do:")
+        lines.append("no proven match:" if result.to_measure else "nothing on hand will do:")
         lines.extend(f"  {e}" for e in result.explanation)
     if result.suggestion:
         lines.append(result.suggestion)
@@ -72,6 +80,8 @@ def register(app: typer.Typer) -> None:
         temp: Annotated[str | None, typer.Option("--temp", help="Temperature range LOW..HIGH in °C.")] = None,
         family: Annotated[str | None, typer.Option("--family", help="Dielectric family: ceramic, polypropylene, mica ...")] = None,
         safety: Annotated[str | None, typer.Option("--safety", help="Safety class needed: X1, X2, Y2 ...")] = None,
+        position: Annotated[str | None, typer.Option(
+            "--position", help="Mains position: line-line (X) or line-earth (Y).")] = None,
         qty: Annotated[int, typer.Option("--qty", help="How many are needed.")] = 1,
         combine: Annotated[bool, typer.Option("--combine", help="Also look for parallel and series pairs.")] = False,
         limit: Annotated[int, typer.Option("--limit", help="At most this many singles and pairs.")] = 10,
@@ -82,7 +92,7 @@ def register(app: typer.Typer) -> None:
 
         req = build_requirement(value=value, tol=tol, tempco=tempco, max_tempco=max_tempco, volts=volts,
                                 use=use, allow_marginal=allow_marginal, temp=temp, family=family,
-                                safety=safety, qty=qty)
+                                safety=safety, qty=qty, position=position)
         with open_store(state(ctx).db_path, create=False) as store:
             result = find(store, req, combine=combine, limit=limit)
         if as_json:

@@ -12,7 +12,8 @@ from stock.decoded import Marking
 from stock.physics.drift import (
     TankDrift, TimerDrift, format_frequency, parse_frequency, parse_inductance, parse_kelvin, parse_period,
 )
-from stock.physics.grading import APPLICATIONS, MAINS_CAUTION, REFERENCE_C, Budget, conditions_from_text, pm
+from stock.markings.safety_classes import MAINS_CAUTION, read_safety_class
+from stock.physics.grading import APPLICATIONS, REFERENCE_C, Budget, conditions_from_text, pm
 from stock.physics.applications import load_rules
 from stock.units import format_capacitance, format_number, format_tolerance, format_voltage
 
@@ -43,10 +44,13 @@ def _budget_lines(budget: Budget) -> list[str]:
             lines.append(f"  {label:<12} unknown")
         else:
             lines.append(f"  {label:<12} {pm(term.minus_pct, term.plus_pct):<14} {term.basis}")
+    drift = ("temperature", "ageing", "dc_bias")
     lines.append(f"  {'drift':<12} {pm(budget.drift_minus_pct, budget.drift_plus_pct):<14}"
-                 " temperature + ageing + DC bias")
+                 " temperature, ageing and DC bias compounded: (1 − a)(1 − b)… down, (1 + a)(1 + b)… up"
+                 f" (linear sum {pm(budget.linear_sum(drift), budget.linear_sum(drift, 'plus_pct'))})")
     lines.append(f"  {'total':<12} {pm(budget.total_minus_pct, budget.total_plus_pct):<14}"
-                 " tolerance included (a linear sum)")
+                 " tolerance included, compounded the same way"
+                 f" (linear sum {pm(budget.linear_sum(), budget.linear_sum(side='plus_pct'))})")
     if budget.voltage is not None:
         lines.append(f"  {'voltage':<12} {budget.voltage.word:<14} {budget.voltage.reason}")
     if budget.out_of_range:
@@ -63,6 +67,8 @@ def _explain(item: BinGrades) -> list[str]:
     first = next(iter(item.grades.values()))
     budget = first.budget
     lines = [f"bin {item.bin_key}: {item.marking.text} ({_describe_part(item.marking)})"]
+    if item.package:
+        lines.append(f"package: {item.package}")
     if budget is not None:
         lines.append(f"conditions: {budget.conditions.describe()} (reference +{format_number(REFERENCE_C)} °C)")
         lines.append("budget:")
@@ -74,14 +80,45 @@ def _explain(item: BinGrades) -> list[str]:
     return lines
 
 
+def _mains_word(item: BinGrades) -> str:
+    """The mains column: the word, and where a safety part may go (L–L line–line, L–E line–earth)."""
+    g = item.grades.get("mains")
+    if g is None:
+        return ""
+    reading = read_safety_class(item.marking.safety_class) if item.marking.safety_class else None
+    if g.word != "fit" or reading is None:
+        return g.word
+    part_ac = item.marking.voltage_v if item.marking.voltage_kind == "AC" else None
+    mains = g.budget.conditions.working_v if g.budget is not None else None
+    where = reading.positions(part_ac, mains)
+    return g.word + " " + "/".join({"line-line": "L–L", "line-earth": "L–E"}[p] for p in where)
+
+
 def _table(items: list[BinGrades]) -> list[str]:
     key_w = max([3] + [len(i.bin_key) for i in items])
     mark_w = min(24, max([7] + [len(i.marking.text) for i in items]))
-    head = f"{'bin':<{key_w}}  {'marking':<{mark_w}}  " + "  ".join(f"{a:<8}" for a in APPLICATIONS)
+    widths = {a: (11 if a == "mains" else 9) for a in APPLICATIONS}
+    head = f"{'bin':<{key_w}}  {'marking':<{mark_w}}  " + "  ".join(f"{a:<{widths[a]}}" for a in APPLICATIONS)
     lines = [head.rstrip()]
+    doubts: list[str] = []
     for i in items:
-        words = "  ".join(f"{i.grades[a].word:<8}" for a in APPLICATIONS if a in i.grades)
-        lines.append(f"{i.bin_key:<{key_w}}  {i.marking.text[:mark_w]:<{mark_w}}  {words}".rstrip())
+        cells = []
+        for a in APPLICATIONS:
+            if a not in i.grades:
+                continue
+            word = _mains_word(i) if a == "mains" else i.grades[a].word
+            cells.append(f"{word + ('*' if i.grades[a].doubts else ''):<{widths[a]}}")
+        lines.append(f"{i.bin_key:<{key_w}}  {i.marking.text[:mark_w]:<{mark_w}}  {'  '.join(cells)}".rstrip())
+        said: dict[str, list[str]] = {}
+        for a, g in i.grades.items():
+            for d in g.doubts:
+                said.setdefault(d, []).append(a)
+        doubts += [f"  {i.bin_key}: {d} ({', '.join(apps)})" for d, apps in said.items()]
+    if doubts:
+        lines.append("* doubts (graded on what is known; settle or measure to clear them):")
+        lines += doubts
+    if any("mains" in i.grades for i in items):
+        lines.append("mains: L–L line–line (X), L–E line–earth (Y); --position line-line|line-earth grades one")
     return lines
 
 
@@ -122,6 +159,8 @@ def register(app: typer.Typer) -> None:
         temp: Annotated[Optional[str], _opt("--temp", text="Operating range in °C, LOW..HIGH (default 0..50).")] = None,
         volts: Annotated[Optional[str], _opt("--volts", text="DC working voltage (counts DC bias, derating).")] = None,
         years: Annotated[Optional[str], _opt("--years", text="Service life in years (default 10).")] = None,
+        position: Annotated[Optional[str], _opt("--position", text=(
+            "Mains position: line-line (X) or line-earth (Y); default: the positions each part may take."))] = None,
         explain: Annotated[Optional[str], _opt("--explain", text="Print one bin's whole budget, term by term.")] = None,
         rules: Annotated[Optional[Path], _opt("--rules", text=(
             "A TOML file overriding the application table (default: stock-grading.toml beside the database)."))] = None,
@@ -129,11 +168,12 @@ def register(app: typer.Typer) -> None:
     ) -> None:
         """Grade parts for each application: fit, marginal, unfit or unknown, from their worst-case budget.
 
-        Example: stock grade --temp -10..60 --volts 12;  stock grade --explain A3
+        Example: stock grade --temp -10..60 --volts 12;  stock grade --explain A3;
+        stock grade --position line-earth
         """
         from stock.cli.context import state
 
-        conditions = conditions_from_text(temp, volts, years)
+        conditions = conditions_from_text(temp, volts, years, position)
         db_path = state(ctx).db_path
         table = load_rules(rules, db_path=db_path)
         refs = [explain] if explain else (bins or None)

@@ -55,11 +55,15 @@ def plan_command(
     sheet: Annotated[str | None, typer.Option("--sheet", help="The workbook sheet holding the BOM.")] = None,
     mapping: Annotated[list[str] | None, typer.Option("--map", help="FIELD=HEADER: which column holds a field (repeatable).")] = None,
     as_json: Annotated[bool, typer.Option("--json", help="Print the plan as JSON.")] = False,
+    force: Annotated[bool, typer.Option("--force", help="Plan with a sheet that looks like a bin sheet all the same.")] = False,
 ) -> None:
     from stock.kitting.bom import parse_mappings
     from stock.kitting.planner import kit_options, plan_kit
     from stock.kitting.pick_list import plan_text
 
+    if not force:
+        from stock.inventory.sheet_plan import refuse_bin_sheet_as_bom
+        refuse_bin_sheet_as_bom(bom, sheet)
     options = kit_options(boards, temp=temp, spare=spare, combine=combine, allow=allow or ())
     with _store(ctx) as store:
         plan = plan_kit(store, bom, options, sheet=sheet, overrides=parse_mappings(mapping or ()))

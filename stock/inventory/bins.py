@@ -100,7 +100,7 @@ def _fmt_tol(minus: float | None, plus: float | None, unit: str | None) -> str |
 _LIST_SQL = """
 SELECT b.id, b.bin_key, b.cabinet, b.location, b.label, b.on_hand, b.minimum,
        p.marking, p.capacitance_pf, p.tol_minus, p.tol_plus, p.tol_unit, p.dielectric_code,
-       p.family, p.voltage_v, p.voltage_kind, p.safety_class,
+       p.family, p.voltage_v, p.voltage_kind, p.safety_class, p.package, p.mounting,
        s.held AS reserved, s.available, COALESCE(f.open_flags, 0) AS open_flags
 FROM bins b
 JOIN bin_stock s ON s.bin_id = b.id
@@ -128,12 +128,29 @@ def _summary(r: dict[str, Any]) -> dict[str, Any]:
         "family": r["family"],
         "voltage": _fmt_volt(r["voltage_v"], r["voltage_kind"]),
         "safety_class": r["safety_class"],
+        "package": r["package"],
+        "mounting": r["mounting"],
+        "package_text": package_text(r["package"], r["mounting"]),
         "on_hand": on_hand,
         "reserved": r["reserved"],
         "available": r["available"],
         "minimum": r["minimum"],
         "open_flags": r["open_flags"],
     }
+
+
+def package_text(package: str | None, mounting: str | None) -> str:
+    """A part's package in a few words (``0805``, ``through-hole radial, D5 × L11 mm``), or "".
+
+    >>> package_text("RADIAL 5x11", "THT"), package_text(None, "SMD"), package_text(None, None)
+    ('through-hole radial, D5 × L11 mm', 'SMD', '')
+    """
+    if not package:
+        return {"THT": "through-hole"}.get(mounting or "", mounting or "")
+    from stock.markings.packages import read_package
+
+    facts = read_package(package)
+    return facts.describe() if facts.known else package
 
 
 def list_bins(store: Store) -> list[dict[str, Any]]:

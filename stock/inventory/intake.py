@@ -23,7 +23,7 @@ from __future__ import annotations
 
 import hashlib
 import json
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from json.encoder import encode_basestring_ascii
 from pathlib import Path
@@ -31,10 +31,9 @@ from typing import Any
 
 from stock.decoded import Marking
 from stock.store.flag_kinds import QUARANTINE_FIXES
-from stock.errors import BadSheet
 from stock.inventory.row_reading import (MARKING_FIELDS, MAX_COUNT, PART_COLUMNS, READING_FIELDS, RowReader,
-                               bin_key, cell_text, decode_cached, normalise, part_columns,
-                               read_quantity)
+                               bin_key, cell_text, decode_cached, normalise, package_facts,
+                               part_columns, read_quantity)
 from stock.store.database import Store, now
 
 BATCH = 2000
@@ -63,6 +62,8 @@ class SheetReport:
     mapping: tuple[str, ...] = ()
     notes: tuple[str, ...] = ()
     import_id: int | None = None
+    skipped: str | None = None
+
 
     def to_json(self) -> dict[str, Any]:
         return {
@@ -71,6 +72,7 @@ class SheetReport:
             "new_bins": self.new_bins, "updated_bins": self.updated_bins,
             "count_movements": self.count_movements, "flags_raised": self.flags_raised,
             "same_file": self.same_file, "mapping": list(self.mapping), "notes": list(self.notes),
+            "skipped": self.skipped,
         }
 
 
@@ -148,6 +150,8 @@ class _SheetIntake:
         self._forms: dict[int, tuple[Marking, tuple[Any, ...], str]] = {}
         self._flag_forms: dict[str, tuple[Marking, tuple[tuple[str, str, str], ...], str]] = {}
         self._ref = f"import:{import_id}"
+        self.exported = None              # ExportedFacts when the sheet is our own export
+        self.settled: list[tuple[int, Marking]] = []
         self._where = json.dumps({"sheet": raw_sheet.sheet, "file": path.name})[1:-1]
 
     def _existing_for(self, cabinet_key: str) -> dict[str, _Existing]:
@@ -228,11 +232,12 @@ class _SheetIntake:
             quantity = None
             problems.append(("bad-quantity", str(exc)))
         f = reader.texts(cells)
-        text, marking, value_text, claimed = reader.reading(f)
-        if marking is None or (marking.capacitance_pf is None
-                               and not any(a.capacitance_pf is not None for a in marking.alternatives)):
-            problems.append(("no-capacitance", f"no capacitance could be read from {text!r}" if text
-                             else "no capacitance could be read: the row has no marking or value"))
+        text, marking, claims = reader.reading(f)
+        settled = False
+        if self.exported is not None:
+            marking, settled = self.exported.marking(cells, marking, text)
+        if marking is None or marking.capacitance_pf is None:
+            problems.append(("no-capacitance", _no_capacitance(text, marking)))
         if problems:
             self._quarantine(number, cells, problems)
             return
@@ -244,6 +249,9 @@ class _SheetIntake:
         if cabinet_key is None:
             cabinet_key = self._cabinet_keys[cabinet] = normalise(cabinet)
         key = f"{cabinet_key}/{normalise(location or label or text)}"
+        if f.get("bin_key"):
+            key, cabinet_key = _stated_key(f["bin_key"], cabinet_key)
+            self._cabinet_keys[cabinet] = cabinet_key
         first = self.seen.get(key)
         if first is not None:
             where = f"row {first[1]}" + (f" of sheet {first[0]!r}" if first[0] != self.sheet.sheet else "")
@@ -252,9 +260,11 @@ class _SheetIntake:
             return
         self.seen[key] = (self.sheet.sheet, number)
 
-        marking, extra_flags = reader.cross_check(key, text, marking, value_text, claimed, label)
-        self._store(number, cells, f, key, cabinet, label, location or None, text,
-                    marking, extra_flags, quantity)
+        marking, extra_flags = reader.cross_check(key, text, marking, claims, label)
+        bin_id = self._store(number, cells, f, key, cabinet, label, location or None, text,
+                             marking, extra_flags, quantity)
+        if settled and bin_id is not None:
+            self.settled.append((bin_id, marking))
 
     def _flags_for(self, key: str, text: str, marking: Marking,
                    extra: list[tuple[str, str, str]], quantity: int | None,
@@ -283,7 +293,7 @@ class _SheetIntake:
 
     def _store(self, number: int, cells: tuple[Any, ...], f: dict[str, str], key: str,
                cabinet: str, label: str, location: str | None, text: str,
-               marking: Marking, extra: list[tuple[str, str, str]], quantity: int | None) -> None:
+               marking: Marking, extra: list[tuple[str, str, str]], quantity: int | None) -> int | None:
         in_cabinet = self._existing_for(self._cabinet_keys[cabinet])
         existing = in_cabinet.get(key)
         notes = f.get("notes")
@@ -292,8 +302,11 @@ class _SheetIntake:
             minimum = read_quantity(self.reader.raw_cell(cells, "minimum"))
         except ValueError:
             minimum = None  # a bad minimum is no reason to lose the row; the raw cell is kept
-        package = f.get("package")
-        mounting = f.get("mounting")
+        package, mounting, conflict = package_facts(f.get("package"), f.get("mounting"),
+                                                    marking.package, marking.mounting)
+        if conflict:
+            extra = [*extra, ("conflicting-readings", f"bin {key!r}: {conflict}",
+                              f"{key}|package-conflict|{package}|{mounting}")]
         known = quantity if existing is None or quantity is not None else existing.on_hand
         flags, reasons = self._flags_for(key, text, marking, extra, known)
         source_id = self._next_id("source_rows")
@@ -330,6 +343,7 @@ class _SheetIntake:
                 self._flags.append((bin_id, source_id, kind, message, details, fp, self.stamp))
         self._sources.append((source_id, self.import_id, self.sheet.sheet, number,
                               self.reader.raw_json(cells, self._extra), status, reasons, bin_id))
+        return bin_id if existing is None else None
 
     def _update(self, old: _Existing, label: str, location: str | None, notes: str | None,
                 minimum: int | None, date_code: str | None, text: str, marking: Marking,
@@ -393,6 +407,29 @@ class _SheetIntake:
             self._flags.clear()
 
 
+def _stated_key(stated: str, cabinet_key: str) -> tuple[str, str]:
+    """A bin key given in its own column (our export's ``Bin``): the key and its cabinet part."""
+    key = normalise(stated)
+    if key.startswith(cabinet_key + "/"):
+        return key, cabinet_key
+    return key, key.partition("/")[0]
+
+
+def _no_capacitance(text: str, marking: Marking | None) -> str:
+    """Why a row holds no capacitance, naming what its text was read as instead."""
+    if not text:
+        return "no capacitance could be read: the row has no marking or value"
+    if marking is not None:
+        other = [a.reason for a in marking.alternatives if a.capacitance_pf is not None]
+        if marking.voltage_v is not None and other:
+            from stock.units import format_voltage
+            return (f"no capacitance could be read from {text!r}: it reads as a voltage code"
+                    f" ({format_voltage(marking.voltage_v, marking.voltage_kind)}), not a value"
+                    f" (at a stretch {other[0].split(': ', 1)[-1]}); give the capacitance with its"
+                    " unit, e.g. 1nF")
+    return f"no capacitance could be read from {text!r}"
+
+
 def _reasons_json(reasons: list[tuple[str, str]]) -> str:
     """The ``reasons_json`` of a source row: a list of {kind, message}."""
     if not reasons:
@@ -412,43 +449,44 @@ def file_sha256(path: Path) -> str:
     return digest.hexdigest()
 
 
-def _check_readable(raw_sheet: Any, header_map: Any, path: Path) -> None:
-    if not any(f in header_map.field_to_index for f in READING_FIELDS):
-        found = ", ".join(repr(cell_text(h)) for h in raw_sheet.headers if cell_text(h)) or "none"
-        raise BadSheet(str(path), f"no column carries a value or marking (headers found: {found})",
-                       sheet=raw_sheet.sheet, row=raw_sheet.header_row,
-                       hint="a column such as 'Marking', 'Value' or 'Colours', or --map marking=HEADER")
-
-
 def _sheet_notes(raw_sheet: Any) -> tuple[str, ...]:
     """What the reader found worth telling while reading (rows below a long blank run not read ...)."""
     return tuple(getattr(raw_sheet, "notes", None) or ())
 
 
 def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
-                overrides: dict[str, str] | None = None, dry_run: bool = False,
-                progress: Callable[[int], None] | None = None) -> ImportReport:
+                overrides: dict[str, str] | Sequence[Any] | None = None, dry_run: bool = False,
+                progress: Callable[[int], None] | None = None, force: bool = False,
+                keep_mapping: bool = False, forget_mapping: bool = False,
+                check_map: bool = True) -> ImportReport:
     """Import one CSV or XLSX file (every sheet, or ``sheet``) in one transaction.
 
     Args:
         store: the open store.
         path: the file.
         sheet: import only this sheet of a workbook.
-        overrides: ``{field: header}`` from ``--map`` to correct the automatic header mapping.
+        overrides: ``--map`` rules (:class:`~stock.inventory.sheet_plan.MapRule`), or a plain
+            ``{field: header}`` that applies to every sheet having the header.
         dry_run: do everything, then roll back; the report says what would have changed.
         progress: called with the number of rows done so far, every few hundred rows.
+        force: import a sheet that looks like a BOM all the same.
+        keep_mapping: keep each sheet's mapping for its headers (a ``--map`` is kept anyway).
+        forget_mapping: drop the mapping kept for each sheet's headers before reading it.
+        check_map: refuse a ``--map`` rule that no sheet of this file has (the CLI checks
+            across all the files of one command instead).
 
     Returns:
-        An :class:`ImportReport` with one :class:`SheetReport` per sheet.
+        An :class:`ImportReport` with one :class:`SheetReport` per sheet (skipped sheets too).
 
     Raises:
-        BadSheet: the file cannot be read, or no column carries a value or marking. The store is
-            unchanged.
+        BadSheet: the file cannot be read, no sheet has a column that holds values, or a sheet
+            looks like a BOM. The store is unchanged.
     """
-    from importers.headers import map_headers
     from importers.sheet import read_sheets
+    from stock.inventory.sheet_plan import unmatched_error, unmatched_rules
 
     path = Path(path)
+    rules = _as_rules(overrides)
     sheets = read_sheets(path, sheet)
     sha = file_sha256(path)
     reports: list[SheetReport] = []
@@ -459,40 +497,26 @@ def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
         conn.execute(f"PRAGMA cache_size = -{IMPORT_CACHE_KIB}")  # this connection only
     try:
         with store.writing():
+            if check_map:
+                left = unmatched_rules(rules, [(path, s.sheet, s.headers) for s in sheets])
+                if left:
+                    raise unmatched_error(left[0], [(path, s.sheet, s.headers) for s in sheets])
             ids = {t: store.one(f"SELECT COALESCE(MAX(id), 0) AS n FROM {t}")["n"]
                    for t in ("bins", "source_rows")}
             touched: list[int] = []
+            skipped: list[Any] = []
             for raw_sheet in sheets:
-                header_map = map_headers(raw_sheet.headers, vocabulary="bins",
-                                         overrides=overrides or {})
-                _check_readable(raw_sheet, header_map, path)
-                mapping = tuple(header_map.describe())
-                before = store.one(
-                    "SELECT rows FROM imports WHERE sha256 = ? AND sheet IS ? ORDER BY id DESC LIMIT 1",
-                    (sha, raw_sheet.sheet))
-                if before is not None:
-                    reports.append(SheetReport(str(path), raw_sheet.sheet, rows=before["rows"],
-                                               unchanged=before["rows"], same_file=True,
-                                               mapping=mapping))
+                plan = _plan(store, path, raw_sheet, rules, force, keep_mapping, forget_mapping)
+                if plan.skip is not None:
+                    skipped.append(plan)
+                    reports.append(SheetReport(str(path), raw_sheet.sheet, skipped=plan.skip))
                     continue
-                cur = store.db.conn.execute(
-                    "INSERT INTO imports (path, file_name, sha256, sheet, at, mapping_json)"
-                    " VALUES (?, ?, ?, ?, ?, ?)",
-                    (str(path.resolve()), path.name, sha, raw_sheet.sheet, now(),
-                     json.dumps(list(mapping), ensure_ascii=False)))
-                intake = _SheetIntake(store, path, raw_sheet, header_map, cur.lastrowid, seen, ids,
-                                      progress)
-                intake.run()
-                c = intake.counts
-                store.db.conn.execute(
-                    "UPDATE imports SET rows = ?, stored = ?, quarantined = ?, flagged = ?,"
-                    " unchanged = ? WHERE id = ?",
-                    (c["rows"], c["stored"], c["quarantined"], c["flagged"], c["unchanged"],
-                     cur.lastrowid))
-                touched.extend(intake.touched)
-                reports.append(SheetReport(str(path), raw_sheet.sheet, mapping=mapping,
-                                           notes=_sheet_notes(raw_sheet),
-                                           import_id=None if dry_run else cur.lastrowid, **c))
+                report, bins = _import_sheet(store, path, sha, plan, seen, ids, progress, dry_run)
+                reports.append(report)
+                touched.extend(bins)
+            if len(skipped) == len(sheets):
+                from stock.inventory.sheet_plan import refuse_unreadable
+                refuse_unreadable(path, skipped)
             if touched and not dry_run:
                 from stock.inventory.stored_grades import refresh_stored_grades
                 from stock.inventory.stock_checks import raise_stock_flags
@@ -505,6 +529,67 @@ def import_file(store: Store, path: str | Path, *, sheet: str | None = None,
     finally:
         conn.execute(f"PRAGMA cache_size = {cache}")
     return ImportReport(str(path), tuple(reports), dry_run=dry_run)
+
+
+def _as_rules(overrides: dict[str, str] | Sequence[Any] | None) -> tuple[Any, ...]:
+    from stock.inventory.sheet_plan import MapRule
+
+    if not overrides:
+        return ()
+    if isinstance(overrides, dict):
+        return tuple(MapRule(None, k, v) for k, v in overrides.items())
+    return tuple(overrides)
+
+
+def _plan(store: Store, path: Path, raw_sheet: Any, rules: Sequence[Any], force: bool,
+          keep_mapping: bool, forget_mapping: bool) -> Any:
+    """The sheet's plan (mapping by header, memory and content; or why it is skipped)."""
+    from stock.inventory.sheet_plan import plan_sheet
+
+    if forget_mapping:
+        from stock.inventory.remembered_mappings import forget_mapping as forget
+        forget(store, [cell_text(h) for h in raw_sheet.headers])
+    return plan_sheet(store, path, raw_sheet, rules, force=force, keep_mapping=keep_mapping)
+
+
+def _import_sheet(store: Store, path: Path, sha: str, plan: Any, seen: dict[str, tuple[str | None, int]],
+                  ids: dict[str, int], progress: Callable[[int], None] | None,
+                  dry_run: bool) -> tuple[SheetReport, list[int]]:
+    """Store the rows of one planned sheet; its report and the bins it touched."""
+    raw_sheet, header_map = plan.sheet, plan.header_map
+    mapping = tuple(header_map.describe())
+    notes = _sheet_notes(raw_sheet) + (("read as this store's own inventory export",)
+                                       if plan.exported else ())
+    before = store.one(
+        "SELECT rows FROM imports WHERE sha256 = ? AND sheet IS ? ORDER BY id DESC LIMIT 1",
+        (sha, raw_sheet.sheet))
+    if before is not None:
+        return SheetReport(str(path), raw_sheet.sheet, rows=before["rows"], unchanged=before["rows"],
+                           same_file=True, mapping=mapping), []
+    cur = store.db.conn.execute(
+        "INSERT INTO imports (path, file_name, sha256, sheet, at, mapping_json)"
+        " VALUES (?, ?, ?, ?, ?, ?)",
+        (str(path.resolve()), path.name, sha, raw_sheet.sheet, now(),
+         json.dumps(list(mapping), ensure_ascii=False)))
+    intake = _SheetIntake(store, path, raw_sheet, header_map, cur.lastrowid, seen, ids, progress)
+    if plan.exported:
+        from stock.inventory.own_exports import ExportedFacts
+        intake.exported = ExportedFacts([cell_text(h) for h in raw_sheet.headers])
+    intake.run()
+    if intake.settled:
+        from stock.inventory.own_exports import settle_from_export
+        settle_from_export(store, intake.settled, path.name, cur.lastrowid)
+    if plan.keep:
+        from stock.inventory.remembered_mappings import remember_mapping
+        remember_mapping(store, [cell_text(h) for h in raw_sheet.headers], header_map)
+        notes += ("mapping kept for these headers; the next import uses it (--forget-mapping drops it)",)
+    c = intake.counts
+    store.db.conn.execute(
+        "UPDATE imports SET rows = ?, stored = ?, quarantined = ?, flagged = ?,"
+        " unchanged = ? WHERE id = ?",
+        (c["rows"], c["stored"], c["quarantined"], c["flagged"], c["unchanged"], cur.lastrowid))
+    return SheetReport(str(path), raw_sheet.sheet, mapping=mapping, notes=notes,
+                       import_id=None if dry_run else cur.lastrowid, **c), intake.touched
 
 
 __all__ = ["BATCH", "MARKING_FIELDS", "MAX_COUNT", "QUARANTINE_FIXES", "READING_FIELDS",

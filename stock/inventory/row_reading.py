@@ -40,6 +40,9 @@ MARKING_FIELDS = ("marking", "colours", "dielectric", "tolerance", "voltage", "s
 READING_FIELDS = ("marking", "value", "colours")
 READINGS_REMEMBERED = 65536  # distinct readings kept per sheet (memory stays bounded)
 
+# (where, text, value in pF or None) of each other value column filled in a row.
+Claims = tuple[tuple[str, str, "Decimal | None"], ...]
+
 # The flat parts columns, in the order of :func:`part_columns`.
 PART_COLUMNS = ("capacitance_pf", "tol_minus", "tol_plus", "tol_unit", "tol_code", "voltage_v",
                 "voltage_kind", "dielectric_code", "family", "class", "tempco_ppm_per_k",
@@ -173,6 +176,43 @@ def agreed_by_claim(marking: Marking, where: str, raw: str) -> Marking:
     return replace(marking, flags=kept, alternatives=marking.alternatives + (note,))
 
 
+@lru_cache(maxsize=4096)
+def package_facts(package: str | None, mounting: str | None, said_package: str | None,
+                  said_mounting: str | None) -> tuple[str | None, str | None, str | None]:
+    """The part's package and mounting from its columns and from its marking or description.
+
+    Args:
+        package, mounting: the package and mounting columns' text (None when blank).
+        said_package, said_mounting: what the marking or description said (``Marking.package``).
+
+    Returns:
+        (package text, the mounting column as typed or else ``SMD``/``THT`` as decoded,
+        disagreement or None). The columns win; a column and a description that disagree on mounting or chip size give
+        the disagreement, to be raised as a flag.
+
+    >>> package_facts("0805", None, None, None)
+    ('0805', 'SMD', None)
+    >>> package_facts(None, "THT", "0603", "SMD")[2]
+    "the mounting column says THT, the marking or description says SMD ('0603')"
+    """
+    from stock.markings.packages import read_package
+
+    column = read_package(" ".join(t for t in (package, mounting) if t)) if (package or mounting) else None
+    said = read_package(said_package) if said_package else None
+    # a mounting column is kept as typed ("radial" says more than THT); else the decoded mounting
+    chosen_mounting = mounting or (column.mounting if column is not None else None) or said_mounting
+    conflict = None
+    if column is not None and said is not None:
+        where = "mounting" if mounting else "package"
+        if column.mounting and said_mounting and column.mounting != said_mounting:
+            conflict = (f"the {where} column says {column.mounting}, the marking or description says"
+                        f" {said_mounting} ({said_package!r})")
+        elif column.chip_size and said.chip_size and column.chip_size != said.chip_size:
+            conflict = (f"the package column says {column.chip_size}, the marking or description says"
+                        f" {said.chip_size}")
+    return package or said_package, chosen_mounting, conflict
+
+
 def label_value(label: str) -> tuple[str, Decimal] | None:
     """A capacitance written in a bin label ("10nF", "Box 4n7 C0G"), if it states one.
 
@@ -216,8 +256,22 @@ class RowReader:
         self.headers = headers
         self._header_keys = [encode_basestring(h) + ": " for h in headers]
         self._text_fields = [(n, i) for n, i in self.index.items() if n not in ("quantity", "minimum")]
-        self._reading_fields = tuple(n for n in (*MARKING_FIELDS, "value") if n in self.index)
-        self._readings: dict[tuple[str | None, ...], tuple[str, Marking | None, str, Decimal | None]] = {}
+        column_units = dict(getattr(header_map, "column_units", None) or {})
+        # Every column that may carry the value, in the order tried: (field name in texts(),
+        # is it a marking column, its unit, how a cross-check names it).
+        self._order: list[tuple[str, bool, str | None, str]] = []
+        order = header_map.reading_order() if hasattr(header_map, "reading_order") else \
+            tuple((n, self.index[n]) for n in ("marking", "value") if n in self.index)
+        for n, i in order:
+            name = n if self.index.get(n) == i else f"{n}@{i}"
+            if name != n:
+                self._text_fields.append((name, i))
+            unit = self.units.get(n) if name == n else column_units.get(i)
+            where = {"value": "the value column", "label": "the label"}.get(name, f"the {headers[i]!r} column")
+            self._order.append((name, n == "marking", unit, where))
+        self._reading_fields = tuple(n for n in (*MARKING_FIELDS, "value") if n in self.index) + \
+            tuple(name for name, _, _, _ in self._order if "@" in name or name == "label")
+        self._readings: dict[tuple[str | None, ...], tuple[str, Marking | None, Claims]] = {}
 
     def texts(self, cells: tuple[Any, ...]) -> dict[str, str]:
         """The non-blank text of each mapped field of a row (the hot path: one pass, no lookups)."""
@@ -240,29 +294,34 @@ class RowReader:
         i = self.index.get(name)
         return None if i is None or i >= len(cells) else cells[i]
 
-    def reading(self, f: dict[str, str]) -> tuple[str, Marking | None, str, Decimal | None]:
-        """(marking text, its decoding or None, the explicit value text or "", that value in pF).
+    def reading(self, f: dict[str, str]) -> tuple[str, Marking | None, Claims]:
+        """(marking text, its decoding or None, the other value columns' claims).
 
-        Remembered per distinct combination of the reading fields' texts, so the decoding of a
-        repeated marking is one and the same object (the store turns it into columns once).
+        Each claim is (where, the text, its value in pF or None). Remembered per distinct
+        combination of the reading fields' texts, so the decoding of a repeated marking is one
+        and the same object (the store turns it into columns once).
         """
         key = tuple(f.get(n) for n in self._reading_fields)
         found = self._readings.get(key)
         if found is None:
-            text, colours, value_text = self.marking_text(f)
+            text, colours, claimed = self.marking_text(f)
             text, marking = self.decode(text, colours)
-            claimed = decode_cached(value_text).capacitance_pf if value_text else None
-            found = (text, marking, value_text, claimed)
+            claims = tuple((where, raw, decode_cached(raw).capacitance_pf) for where, raw in claimed)
+            found = (text, marking, claims)
             if len(self._readings) < READINGS_REMEMBERED:
                 self._readings[key] = found
         return found
 
-    def marking_text(self, f: dict[str, str]) -> tuple[str, str, str]:
-        """(marking text to decode, the colours column's text or "", the explicit value or "")."""
+    def marking_text(self, f: dict[str, str]) -> tuple[str, str, tuple[tuple[str, str], ...]]:
+        """(marking text to decode, the colours column's text or "", the other value columns).
+
+        The first filled column of the reading order (marking columns, then value columns) is
+        the marking; every other filled one is a claim, (where, text), to cross-check it with.
+        """
         pieces = []
         for name in MARKING_FIELDS:
             text = f.get(name)
-            if not text or name == "colours":
+            if not text or name in ("colours", "marking"):
                 continue
             if name == "voltage":
                 text = with_unit(text, self.units.get(name) or "V")
@@ -274,16 +333,17 @@ class RowReader:
                 text = _POLARITY_WORDS.get(text.casefold(), text)
                 if not text:
                     continue
-            elif name == "marking":
-                text = with_unit(text, self.units.get(name))
             pieces.append(text)
-        value = f.get("value", "")
-        if value:
-            value = with_unit(value, self.units.get("value"))
+        filled = [(is_marking, with_unit(t, unit), where)
+                  for name, is_marking, unit, where in self._order if (t := f.get(name))]
+        if len(filled) > 1 and filled[-1][2] == "the label":
+            filled.pop()       # a label is read only when nothing else is; otherwise it cross-checks
         colours = f.get("colours", "")
-        if value and "marking" not in f and not colours:
-            return " ".join([value, *pieces]), "", ""  # the value column is the marking
-        return " ".join(pieces), colours, value
+        if not filled or (colours and not filled[0][0]):
+            # colour bands give the value; every value column cross-checks them
+            return " ".join(pieces), colours, tuple((w, t) for _, t, w in filled)
+        first = filled[0][1]
+        return " ".join([first, *pieces]), colours, tuple((w, t) for _, t, w in filled[1:])
 
     @staticmethod
     def decode(text: str, colours: str) -> tuple[str, Marking | None]:
@@ -294,26 +354,13 @@ class RowReader:
         rest = decode_cached(text) if text else None
         if rest is not None and rest.capacitance_pf is not None:
             return full, rest.with_flags(*_colours_unused(colours))
-        bands = _decode_colours_cached(colours)
-        if rest is None:
-            return full, bands
-        merged = replace(
-            bands, text=full,
-            tolerance=bands.tolerance or rest.tolerance,
-            voltage_v=bands.voltage_v or rest.voltage_v,
-            voltage_kind=bands.voltage_kind or rest.voltage_kind,
-            dielectric=bands.dielectric or rest.dielectric,
-            safety_class=bands.safety_class or rest.safety_class,
-            polarity=bands.polarity or rest.polarity,
-            rated_temp_c=bands.rated_temp_c or rest.rated_temp_c,
-            flags=bands.flags + tuple(x for x in rest.flags if x.kind not in ("unreadable",)),
-            unparsed=bands.unparsed + rest.unparsed)
-        return full, merged
+        from stock.markings.decoder import merge_colours
+        return full, merge_colours(_decode_colours_cached(colours), rest, full)
 
     @staticmethod
-    def cross_check(key: str, text: str, marking: Marking, value_text: str, claimed: Decimal | None,
+    def cross_check(key: str, text: str, marking: Marking, claimed: Claims,
                     label: str) -> tuple[Marking, list[tuple[str, str, str]]]:
-        """Compare the marking's reading with an explicit value and a label; keep the marking's.
+        """Compare the marking's reading with the other value columns and a label; keep the marking's.
 
         Returns the marking (with an alternative and a ``label-conflict`` flag per disagreement)
         and the (kind, message, fingerprint) of each disagreement.
@@ -322,9 +369,7 @@ class RowReader:
         nominal = marking.capacitance_pf
         if nominal is None:
             return marking, found
-        claims: list[tuple[str, str, Decimal]] = []
-        if claimed is not None:
-            claims.append(("the value column", value_text, claimed))
+        claims: list[tuple[str, str, Decimal]] = [(w, raw, pf) for w, raw, pf in claimed if pf is not None]
         if label:
             said = label_value(label)
             if said is not None:
@@ -365,5 +410,6 @@ class RowReader:
 
 
 __all__ = ["MARKING_FIELDS", "MAX_COUNT", "PART_COLUMNS", "READING_FIELDS", "RowReader", "bin_key",
-           "cell_text", "decode_cached", "label_value", "normalise", "part_columns", "read_quantity",
+           "cell_text", "decode_cached", "label_value", "normalise", "package_facts", "part_columns",
+           "read_quantity",
            "same_value", "with_unit"]

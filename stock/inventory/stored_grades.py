@@ -24,8 +24,8 @@ def _row_marking(row: dict[str, Any]) -> Marking:
     return part_marking(row)
 
 
-_PART_SQL = ("SELECT b.id AS bin_id, b.bin_key, b.location, b.label, p.decoded_json, p.settled_json"
-             " FROM parts p JOIN bins b ON b.id = p.bin_id")
+_PART_SQL = ("SELECT b.id AS bin_id, b.bin_key, b.location, b.label, p.decoded_json, p.settled_json,"
+             " p.package FROM parts p JOIN bins b ON b.id = p.bin_id")
 
 
 @dataclass(frozen=True)
@@ -37,12 +37,15 @@ class BinGrades:
     location: str | None
     marking: Marking
     grades: dict[str, Grade] = field(default_factory=dict)
+    package: str | None = None
 
     def to_json(self) -> dict[str, Any]:
         return {"bin_id": self.bin_id, "bin_key": self.bin_key, "location": self.location,
                 "marking": self.marking.text,
                 "grades": {n: g.word for n, g in self.grades.items()},
-                "reasons": {n: list(g.reasons) for n, g in self.grades.items()}}
+                "reasons": {n: list(g.reasons) for n, g in self.grades.items()},
+                "doubts": {n: list(g.doubts) for n, g in self.grades.items() if g.doubts},
+                "package": self.package}
 
 
 def _parts(store, bin_refs: Iterable[str] | None) -> list[dict[str, Any]]:
@@ -66,7 +69,11 @@ def grade_bins(store, bin_refs: Iterable[str] | None = None, conditions: Conditi
         NotFound: a bin reference matches nothing, or its bin holds no part.
     """
     rules = rules or load_rules(db_path=store.path)
-    return [BinGrades(r["bin_id"], r["bin_key"], r["location"], m, grade_all(m, conditions, rules=rules))
+    # a settled reading (or a measured --value) removes the unmarked-tolerance doubt; the package
+    # column gives the case size the DC-bias model needs
+    return [BinGrades(r["bin_id"], r["bin_key"], r["location"], m,
+                      grade_all(m, conditions, rules=rules, measured=bool(r.get("settled_json")),
+                                case_size=r.get("package")), r.get("package"))
             for r in _parts(store, bin_refs) for m in (_row_marking(r),)]
 
 
@@ -113,7 +120,7 @@ def refresh_stored_grades(store, bin_ids: Iterable[int] | None = None) -> int:
     ids = sorted(set(int(i) for i in bin_ids))
     if not ids:
         return 0
-    set_ids: dict[str, int] = {}   # many bins hold the same marking: grade it once
+    set_ids: dict[tuple[str, bool, str | None], int] = {}   # many bins hold the same marking: grade it once
     sets: list[tuple[int, str, str, str]] = []
     graded = 0
     with store.writing():
@@ -122,18 +129,24 @@ def refresh_stored_grades(store, bin_ids: Iterable[int] | None = None) -> int:
         conn.execute("CREATE TEMP TABLE grade_sets (set_id INTEGER, application TEXT, grade TEXT,"
                      " reasons_json TEXT)")
         conn.execute("CREATE TEMP TABLE graded_bins (bin_id INTEGER PRIMARY KEY, set_id INTEGER)")
-        cursor = conn.execute("SELECT bin_id, decoded_json, settled_json FROM parts WHERE bin_id IN"
+        cursor = conn.execute("SELECT bin_id, decoded_json, settled_json, package FROM parts WHERE bin_id IN"
                               " (SELECT value FROM json_each(?)) ORDER BY bin_id", (json.dumps(ids),))
         while chunk := cursor.fetchmany(5000):
             members = []
-            for bin_id, decoded, settled in chunk:
-                set_id = set_ids.get(settled or decoded)
+            for bin_id, decoded, settled, package in chunk:
+                key = (settled or decoded, bool(settled), package)
+                set_id = set_ids.get(key)
                 if set_id is None:
-                    set_id = set_ids[settled or decoded] = len(set_ids)
+                    set_id = set_ids[key] = len(set_ids)
                     marking = _row_marking({"decoded_json": decoded, "settled_json": settled})
-                    # only the deciding reasons are stored; `stock grade --explain` recomputes the rest
-                    sets += [(set_id, name, g.word, json.dumps(list(g.reasons[:g.deciding]), ensure_ascii=False))
-                             for name, g in grade_all(marking, Conditions(), rules=rules).items()]
+                    graded_set = grade_all(marking, Conditions(), rules=rules, measured=bool(settled),
+                                           case_size=package)
+                    # only the deciding reasons (and the doubts) are stored; `stock grade --explain`
+                    # recomputes the rest
+                    sets += [(set_id, name, g.word, json.dumps(
+                                list(g.reasons[:g.deciding]) + [f"doubt: {d}" for d in g.doubts],
+                                ensure_ascii=False))
+                             for name, g in graded_set.items()]
                 members.append((bin_id, set_id))
             conn.executemany("INSERT INTO temp.graded_bins VALUES (?, ?)", members)
             graded += len(chunk)

@@ -3,7 +3,7 @@
 The rules (common practice, no published source, except where a standard is named):
 
 - A mains line takes only parts carrying its IEC 60384-14 class or one that covers it
-  (:func:`stock.search.safety_covers`); a part without a class never goes there. No allowance
+  (:func:`stock.markings.safety_classes.covers`); a part without a class never goes there. No allowance
   relaxes this.
 - A tuned line never takes a Class 2 ceramic, nor a part whose dielectric is unknown.
 - A polarised part never goes on a CAD footprint named as unpolarised (``C_0805_2012Metric``;
@@ -82,14 +82,15 @@ def check_part(line: BomLine, marking: Marking, capacitance_pf: Decimal | None,
     dielectric = marking.dielectric
     # Mains and tuned rules first: no allowance relaxes them.
     if line.safety_class:
-        from stock.matching.search import safety_classes, safety_covers
+        from stock.markings.safety_classes import covers
 
         if not marking.safety_class:
             return Verdict(f"not safety-rated; the mains line needs {line.safety_class}")
-        have = safety_classes(marking.safety_class)
-        if not all(safety_covers(have, c) for c in safety_classes(line.safety_class)):
-            return Verdict(f"rated {marking.safety_class}, which does not cover {line.safety_class}"
-                           " (IEC 60384-14)")
+        cover = covers(marking.safety_class, line.safety_class,
+                       marking.voltage_v if marking.voltage_kind == "AC" else None,
+                       line.voltage_v if line.voltage_kind == "AC" else None)
+        if not cover.ok:
+            return Verdict(f"rated {marking.safety_class}: {cover.reason} (IEC 60384-14)")
         if marking.safety_class.upper() != line.safety_class.upper():
             notes.append(f"{marking.safety_class} for {line.safety_class}: a class that covers it"
                          " (IEC 60384-14)")
@@ -332,10 +333,9 @@ def cautions_for(store: Any, lines: Any) -> tuple[str, ...]:
                         " they can hold a dangerous charge long after power is removed; discharge"
                         " each through a suitable resistor and check with a meter before handling.")
     if mains:
-        cautions.append("Mains positions (" + "; ".join(mains) + "): fit only parts carrying the X/Y"
-                        " safety class named, or one that covers it (IEC 60384-14); never a"
-                        " non-safety part. Work on mains equipment can kill: defer to local codes"
-                        " and licensed practice.")
+        from stock.markings.safety_classes import MAINS_CAUTION
+
+        cautions.append("Mains positions (" + "; ".join(mains) + "): " + MAINS_CAUTION + ".")
     return tuple(cautions)
 
 

@@ -30,10 +30,12 @@ class PickRow:
     value: str
     count: int
     refs: tuple[str, ...]
+    package: str = ""               # the bin's package in words ("0805", "through-hole radial …")
 
     def to_json(self) -> dict[str, Any]:
         return {"location": self.location, "bin": self.bin_key, "marking": self.marking,
-                "value": self.value, "count": self.count, "refs": list(self.refs)}
+                "value": self.value, "count": self.count, "refs": list(self.refs),
+                "package": self.package}
 
 
 @dataclass(frozen=True)
@@ -56,6 +58,17 @@ class PickList:
                 "cautions": list(self.cautions)}
 
 
+def _package_words(part: Any) -> str:
+    """A bin's package as the picker reads it: the decoded facts, else the text as given."""
+    from stock.markings.packages import read_package
+
+    text = " ".join(t for t in ((part or {}).get("package"), (part or {}).get("mounting")) if t)
+    if not text:
+        return ""
+    facts = read_package(text)
+    return facts.describe() if facts.known else text
+
+
 def pick_list(store: Store, plan: int | str | KitPlan) -> PickList:
     """The pick list of a plan, one row per bin in natural location order.
 
@@ -74,14 +87,15 @@ def pick_list(store: Store, plan: int | str | KitPlan) -> PickList:
     rows = []
     for bin_id, entry in by_bin.items():
         alloc = entry["alloc"]
-        part = store.one("SELECT capacitance_pf FROM parts WHERE bin_id = ?", (bin_id,))
+        part = store.one("SELECT capacitance_pf, package, mounting FROM parts WHERE bin_id = ?",
+                         (bin_id,))
         value = ""
         if part and part["capacitance_pf"] is not None:
             from decimal import Decimal
 
             value = format_capacitance(Decimal(str(part["capacitance_pf"])))
         rows.append(PickRow(alloc.location, alloc.bin_key, alloc.marking, value, entry["count"],
-                            tuple(entry["refs"])))
+                            tuple(entry["refs"]), _package_words(part)))
     rows.sort(key=lambda r: (natural_key(r.location), natural_key(r.bin_key)))
     return PickList(kit.id, kit.status, kit.boards, tuple(rows), kit.cautions)
 
@@ -90,10 +104,10 @@ def pick_list_text(pl: PickList) -> str:
     """Tab-separated rows under a header, then the cautions."""
     out = [f"# pick list for plan {pl.plan} ({pl.boards} board{'s' if pl.boards != 1 else ''},"
            f" {pl.status}): {pl.total} parts from {len(pl.rows)} bins",
-           "location\tbin\tmarking\tvalue\tcount\trefs"]
+           "location\tbin\tmarking\tvalue\tcount\trefs\tpackage"]
     for r in pl.rows:
         out.append(f"{r.location or '-'}\t{r.bin_key}\t{r.marking}\t{r.value}\t{r.count}\t"
-                   f"{' '.join(r.refs)}")
+                   f"{' '.join(r.refs)}\t{r.package}")
     out.extend(f"CAUTION: {c}" for c in pl.cautions)
     return "\n".join(out)
 

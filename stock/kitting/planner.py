@@ -149,10 +149,10 @@ def _search_safety(wanted: str | None) -> str | None:
 
     :func:`stock.kit_rules.check_part` then checks every class named.
     """
-    from stock.matching.search import safety_classes
+    from stock.markings.safety_classes import read_safety_class
 
-    classes = sorted(safety_classes(wanted), key=lambda c: (c[0] != "Y", c))
-    return classes[0] if classes else None
+    reading = read_safety_class(wanted) if wanted else None
+    return reading.code if reading else None
 
 
 def describe_line(line: BomLine, options: KitOptions, qty: int = 1) -> str:
@@ -226,9 +226,12 @@ def _listed(what: str, items: list[str]) -> str:
     return f"{what}: " + "; ".join(items[:3]) + (" ..." if len(items) > 3 else "")
 
 
-def _pool(store: Store, line: BomLine, options: KitOptions,
-          req: Any) -> tuple[list[Candidate], list[str], list[str]]:
-    """The bins that may feed a line, and why the others may not (the rules, the footprint)."""
+def _pool(store: Store, line: BomLine, options: KitOptions, req: Any,
+          to_measure: bool = False) -> tuple[list[Candidate], list[str], list[str]]:
+    """The bins that may feed a line, and why the others may not (the rules, the footprint).
+
+    With ``to_measure``, the bins whose tolerance is not marked for a line that names one.
+    """
     from stock.markings.packages import fits
     from stock.matching.search import candidates
 
@@ -236,11 +239,13 @@ def _pool(store: Store, line: BomLine, options: KitOptions,
     misfits: list[str] = []
     pool: list[Candidate] = []
     doubts = _doubts(store)
-    matches = candidates(store, req)
+    matches = candidates(store, req, to_measure=to_measure)
     packages = _packages(store, [m.bin_id for m in matches]) if line.package is not None else {}
+    # a part to measure passes the line's tolerance rule as "tolerance unknown"; its note says so
+    allow = options.allow | {"looser-tolerance"} if to_measure else options.allow
     for match in matches:
         marking = match.decoded if match.decoded is not None else _marking_of(store, match.bin_id)[0]
-        verdict = check_part(line, marking, match.capacitance_pf, options.allow)
+        verdict = check_part(line, marking, match.capacitance_pf, allow)
         if verdict.refused:
             refused.append(f"{match.bin_key} ({match.marking}): {verdict.refused}")
             continue
@@ -266,22 +271,44 @@ def _pool(store: Store, line: BomLine, options: KitOptions,
     return pool, refused, misfits
 
 
+def _tol_text(value: Decimal | None) -> str:
+    from stock.units import format_number
+
+    return "no tolerance" if value is None else f"±{format_number(value)} %"
+
+
 def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
              notes: list[str]) -> dict[int, int]:
-    """Bins and quantities of single parts for a line (at most ``need``), with their notes."""
+    """Bins and quantities of single parts for a line (at most ``need``), with their notes.
+
+    Proven parts first; where a line names a tolerance and they fall short, parts whose tolerance
+    is not marked fill the rest, each noted as a part to measure.
+    """
     req = _search_requirement(line, options)
     pool, refused, misfits = _pool(store, line, options, req)
     taken: dict[int, int] = {}
     chosen = choose_bins(need, pool)
-    for cand, qty in chosen:
+    left = need - sum(qty for _, qty in chosen)
+    measured: list[tuple[Candidate, int]] = []
+    if left > 0 and req.tol_pct is not None:
+        extra, _, _ = _pool(store, line, options, req, to_measure=True)
+        measured = choose_bins(left, extra) if extra else []
+    for cand, qty in chosen + measured:
         taken[cand.bin_id] = qty
         if cand.package_doubt or cand.package_fit:
             notes.append(f"{cand.bin_key}: {cand.package_doubt or cand.package_fit}")
         if cand.doubts:
             notes.append(f"{cand.bin_key}: used although it has open flags ({', '.join(cand.doubts)});"
                          " see `stock flags`")
+        if (cand, qty) in measured:
+            notes.append(f"{cand.bin_key}: filled with parts to measure: its tolerance is not marked;"
+                         f" measure each before fitting (the line asks {_tol_text(line.tol_pct)})")
+            continue
         verdict = check_part(line, cand.marking, cand.capacitance_pf, options.allow)
         notes.extend(f"{cand.bin_key}: {note}" for note in verdict.notes)
+        if cand.marking.tolerance is None and line.application not in ("bypass", "bulk", "mains"):
+            notes.append(f"{cand.bin_key}: tolerance not marked: parts to measure before fitting where"
+                         " the value matters")
         if cand.grade == "marginal":
             why = next((r for r in cand.grade_reasons if r.startswith("marginal")),
                        f"marginal for {line.application}")

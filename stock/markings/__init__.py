@@ -4,7 +4,7 @@
 ``voltage_codes`` (EIA voltage codes), ``ceramic_codes`` (EIA-198 Class 1/2), ``families``
 (film, mica, electrolytic … by name), ``safety_classes`` (IEC 60384-14), ``colour_words`` /
 ``colour_codes`` / ``mica_codes`` / ``colours`` (colour bands and dots), ``preferred_values``
-(IEC 60063), ``packages`` (chip sizes, mounting, body and pitch from package or footprint
-text), ``typed_values`` (values typed on the command line), ``decoder``
+(IEC 60063), ``packages`` (chip sizes, mounting, body and pitch from package, footprint
+or description text), ``typed_values`` (values typed on the command line), ``decoder``
 (``decode(text) -> Marking``, never raises). Nothing here knows of the store.
 """

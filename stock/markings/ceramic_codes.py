@@ -114,12 +114,13 @@ CLASS2_CHANGE: dict[str, tuple[Decimal, Decimal]] = {
 CLASS2_DISPUTED_CHANGE: dict[str, tuple[Decimal, Decimal]] = {"S": (Decimal(20), Decimal(20))}
 
 # Old industry names -> nominal α ppm/K and the EIA code usually meant (§1d). Tolerance is left
-# unknown except for NP0, which every source equates with C0G.
+# unknown except for NP0, which every source equates with C0G. N033 is S1G (3.3 × −10): the
+# Wikipedia-style "H2G" is no code, H being no EIA figure letter (§1a); derived from the table.
 OLD_CLASS1_NAMES: dict[str, tuple[Decimal, str]] = {
     "P100": (Decimal(100), "M7G"),
     "NP0": (Decimal(0), "C0G"),
     "N030": (Decimal(-30), "B2G"),
-    "N033": (Decimal(-33), "H2G"),
+    "N033": (Decimal(-33), "S1G"),
     "N075": (Decimal(-75), "U1G"),
     "N080": (Decimal(-80), "L2G"),
     "N150": (Decimal(-150), "P2G"),
@@ -265,11 +266,35 @@ def _read_old_name(code: str) -> DielectricReading | None:
     return DielectricReading(code, chosen, alternatives)
 
 
+def assumed_tempco_tolerance(alpha: Decimal) -> tuple[Decimal, str]:
+    """The tolerance on α a worst case assumes for a tempco given without one, and why.
+
+    The one table for it: an old name's EIA-198 equivalent (:data:`OLD_CLASS1_NAMES`, the published
+    one where a second is only remembered: N150 is P2G in S1, P2H from memory); an α no name
+    carries takes the tolerance of the next name of larger magnitude (common practice, no
+    published source), ±1000 ppm/K past N4700. :func:`usual_tempco_tolerance` reads the same table.
+
+    >>> assumed_tempco_tolerance(Decimal(-750)), assumed_tempco_tolerance(Decimal(-2200))[0]
+    ((Decimal('120'), 'as U2J, the EIA-198 code N750 is sold as'), Decimal('500'))
+    >>> assumed_tempco_tolerance(Decimal(-150))[0], assumed_tempco_tolerance(Decimal(-4700))[0]
+    (Decimal('30'), Decimal('1000'))
+    """
+    by_size = sorted(OLD_CLASS1_NAMES.items(), key=lambda item: abs(item[1][0]))
+    for name, (tempco, eia) in by_size:
+        if abs(tempco) >= abs(alpha):
+            how = (f"as {eia}, the EIA-198 code {name} is sold as" if tempco == alpha
+                   else f"as {eia} ({name}), the next old name in size")
+            return CLASS1_TOLERANCE[eia[2]], how
+    return CLASS1_TOLERANCE["M"], "±1000 ppm/K past N4700 (common practice, no published source)"
+
+
 def usual_tempco_tolerance(code: str) -> tuple[Decimal, str] | None:
     """The tolerance on α an old name is usually sold with: that of its EIA-198 equivalent.
 
     Returns (± ppm/K, the EIA code) for a name in :data:`OLD_CLASS1_NAMES`, or for a bare tempco
     that one of them names (``-750 ppm/K``); None for anything else.
+
+    The same table as :func:`assumed_tempco_tolerance` (grading, search and compensation agree).
 
     >>> usual_tempco_tolerance("N150"), usual_tempco_tolerance("N750"), usual_tempco_tolerance("P100")
     ((Decimal('30'), 'P2G'), (Decimal('120'), 'U2J'), (Decimal('30'), 'M7G'))
@@ -353,5 +378,5 @@ def decode_dielectric(token: str) -> Dielectric | None:
 
 
 __all__ = ["CLASS1_FIGURE", "CLASS1_MULTIPLIER", "CLASS1_TOLERANCE", "CLASS2_CHANGE", "CLASS2_HIGH",
-           "CLASS2_LOW", "OLD_CLASS1_NAMES", "DielectricReading", "decode_dielectric", "read_dielectric",
-           "usual_tempco_tolerance"]
+           "CLASS2_LOW", "OLD_CLASS1_NAMES", "DielectricReading",
+           "assumed_tempco_tolerance", "decode_dielectric", "read_dielectric", "usual_tempco_tolerance"]

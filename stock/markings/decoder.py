@@ -19,6 +19,11 @@ Flag kinds raised here: ``unreadable``, ``unparsed``, ``unit-assumed``, ``ambigu
 >>> decode("X2 0.1uF 275VAC").safety_class, decode("10uF 16V tantalum +").polarity
 ('X2', 'positive-marked')
 
+Distributor descriptions are read word by word; the package words go to the package decoder:
+
+>>> summary(decode("CAP ALUM 100UF 20% 25V RADIAL"))
+'100 µF ±20 %  25 V DC  aluminium-electrolytic (−40…+105 °C, +10/−20 %)  negative-marked  through-hole radial'
+
 Text made only of colours goes to the colour decoder (:mod:`stock.colour_codes`):
 
 >>> format_capacitance(decode("yellow violet brown").capacitance_pf)
@@ -29,7 +34,7 @@ from __future__ import annotations
 
 import re
 import unicodedata
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from decimal import Decimal
 from functools import lru_cache
 
@@ -37,7 +42,8 @@ from stock.markings.ceramic_codes import read_dielectric
 from stock.markings.colour_codes import looks_like_colours
 from stock.markings.colours import decode_colours
 from stock.decoded import Alternative, Dielectric, Flag, Marking, Tolerance
-from stock.markings.families import PHRASE_WORDS, read_family
+from stock.markings.families import PHRASE_WORDS, read_family, read_misspelt_family
+from stock.markings.packages import CHIP_SIZES, read_package
 from stock.markings.safety_classes import CAUTION, read_safety_class
 from stock.markings.tolerance_codes import read_explicit_tolerance, read_tolerance_letter
 from stock.units import (format_capacitance, format_number, format_temperature, format_temperature_range,
@@ -80,8 +86,14 @@ _POLARITY_TOKENS = {"+": "positive-marked", "(+)": "positive-marked", "+ve": "po
 _COMMON_RATED_TEMPS = frozenset({70, 85, 105, 125, 130, 135, 150, 175, 200})
 _STRIP = "'\"*:_=!?#"
 # EIA chip sizes printed on reels and typed in sheets: a size, never a value (common practice).
-_CASE_SIZES = frozenset({"01005", "0201", "0402", "0603", "0805", "1206", "1210", "1806", "1808", "1812",
-                         "2010", "2220", "2225", "2512"})
+_CASE_SIZES = frozenset(CHIP_SIZES)
+# Words that only say the thing is a capacitor (distributor descriptions: "CAP CER 0.1UF ...");
+# "film" alone names no film kind, so it states no family. Common practice, no published source.
+KIND_WORDS = frozenset({"cap", "caps", "capacitor", "capacitors", "condenser", "film", "films", "fixed"})
+# A digit then a lower-case unit prefix ("1n", "1p") is a value as people type it; the EIA
+# voltage codes are printed in capitals (EIA-198 code list, from memory).
+_LOWER_UNIT_LETTERS = frozenset("pnu")
+_O_AFTER_DIGIT = re.compile(r"(?<=[0-9])[Oo]")
 
 
 @dataclass
@@ -101,6 +113,7 @@ class _Facts:
     polarity: str | None = None
     temperatures: list[tuple[str, Decimal, bool]] = field(default_factory=list)
     unparsed: list[str] = field(default_factory=list)
+    package_words: list[str] = field(default_factory=list)
     alternatives: list[Alternative] = field(default_factory=list)
     flags: list[Flag] = field(default_factory=list)
 
@@ -182,7 +195,27 @@ def _context_family(tokens: list[str]) -> str | None:
     return None
 
 
+def _zero_for_letter_o(token: str) -> str | None:
+    """``1OOn`` → ``100n``, ``1O4`` → ``104``: a letter O typed after a digit, when the result reads.
+
+    Only when the token is no dielectric code (``NPO`` has its own spelling table) and the
+    corrected text is a value or a voltage.
+    """
+    if not _O_AFTER_DIGIT.search(token) or read_dielectric(token) is not None:
+        return None
+    fixed = token
+    while _O_AFTER_DIGIT.search(fixed):
+        fixed = _O_AFTER_DIGIT.sub("0", fixed)
+    if read_value(fixed) is None and read_voltage(fixed) is None:
+        return None
+    return fixed
+
+
 def _classify(token: str, facts: _Facts, family: str | None) -> None:
+    fixed = _zero_for_letter_o(token)
+    if fixed is not None:
+        facts.flags.append(Flag("spelling-corrected", f"{token}: read as {fixed} (letter O for digit zero)"))
+        token = fixed
     upper = token.upper()
     safety = read_safety_class(token)
     if safety is not None:
@@ -213,11 +246,15 @@ def _classify(token: str, facts: _Facts, family: str | None) -> None:
         return
     code = voltage_code_value(upper)
     if code is not None:
-        facts.voltage_codes.append((token, code))
+        value = read_value(token, family=family) if token[-1] in _LOWER_UNIT_LETTERS else None
+        if value is not None:
+            facts.values.append((token, value))
+        else:
+            facts.voltage_codes.append((token, code))
         return
     if token in _CASE_SIZES:
-        facts.unparsed.append(token)
-        facts.flags.append(Flag("unparsed", f"{token}: an EIA chip size, not a value"))
+        facts.package_words.append(token)
+        facts.unparsed.append(token)     # in its place among the words the package decoder reads
         return
     value = read_value(token, family=family)
     if value is not None:
@@ -226,7 +263,31 @@ def _classify(token: str, facts: _Facts, family: str | None) -> None:
     if len(token) == 1 and token.isalpha() and read_tolerance_letter(token, None) is not None:
         facts.letters.append(upper)
         return
+    if token.lower() in KIND_WORDS:
+        return
+    misspelt = read_misspelt_family(token)
+    if misspelt is not None:
+        facts.dielectrics.append((token, misspelt.dielectric, misspelt.alternatives, misspelt.flags))
+        return
     facts.unparsed.append(token)
+
+
+def _value_without_neighbour(facts: _Facts, family: str | None) -> bool:
+    """A lone ``1N`` or ``1P``: a voltage code stands beside a value, so with no value beside it
+    the token is read as the value its unit letter says, and the voltage code kept as a doubt."""
+    for token, volts in facts.voltage_codes:
+        value = read_value(token, family=family)
+        if value is None or value.chosen.form != "with-unit":
+            continue
+        facts.values.append((token, value))
+        facts.voltage_codes = [(t, v) for t, v in facts.voltage_codes if t != token]
+        facts.alternatives.append(Alternative(reason=f"{token}: voltage code {format_voltage(volts, 'DC')}",
+                                              voltage_v=volts))
+        facts.flags.append(Flag("ambiguous-code", f"{token}: read as {format_capacitance(value.chosen.capacitance_pf)},"
+                                                  f" since no value stands beside it; as a voltage code it"
+                                                  f" is {format_voltage(volts, 'DC')}"))
+        return True
+    return False
 
 
 _FORM_RANK = {"with-unit": 0, "letter-and-digit": 1, "r-decimal": 1, "three-digit": 2, "literal-pF": 2,
@@ -251,6 +312,8 @@ def _settle_value(facts: _Facts, family: str | None) -> tuple[Decimal | None, st
                                                           f"{format_voltage(volts, None)}"))
         facts.voltage_codes = [(t, v) for t, v in facts.voltage_codes
                                if not any(t == vt for vt, _ in facts.values)]
+    elif not facts.values and facts.voltage_codes and _value_without_neighbour(facts, family):
+        pass
     elif not facts.values and facts.voltage_codes:
         for token, volts in facts.voltage_codes:
             value = read_value(token, family=family)
@@ -381,6 +444,34 @@ def _settle_temperature(facts: _Facts) -> Decimal | None:
     return celsius
 
 
+def _settle_package(facts: _Facts) -> tuple[str | None, str | None]:
+    """Chip sizes and the words no code table took, read by the package decoder.
+
+    Words it uses (``RADIAL``, ``SMD``, ``5x11``, ``through hole``) leave ``unparsed``; the
+    package is kept as those words, as written, and the mounting as ``SMD`` or ``THT``.
+    """
+    if not facts.unparsed:
+        return None, None
+    facts_read = read_package(" ".join(facts.unparsed))
+    if not facts_read.known:
+        if facts.package_words:   # a chip size the package decoder set aside (e.g. two sizes)
+            facts.flags.append(Flag("unparsed", f"{' '.join(facts.package_words)}: an EIA chip size,"
+                                                " not a value"))
+        return None, None
+    left = list(facts_read.unparsed)
+    used, unparsed = [], []
+    for word in facts.unparsed:
+        if word not in facts.package_words and word.strip(".-") in left:
+            left.remove(word.strip(".-"))
+            unparsed.append(word)
+        else:
+            used.append(word)
+    facts.unparsed = unparsed
+    facts.alternatives.extend(Alternative(reason=f"package: {n}") for n in facts_read.notes
+                              if "not used" in n)
+    return " ".join(used), facts_read.mounting
+
+
 def _decode(text: str) -> Marking:
     if len(text) > MAX_MARKING_CHARS:
         return Marking(text=text[:MAX_MARKING_CHARS], flags=(Flag(
@@ -407,14 +498,70 @@ def _decode(text: str) -> Marking:
     if polarity is None and fam in USUAL_POLARITY:
         polarity, why = USUAL_POLARITY[fam]
         facts.flags.append(Flag("polarity-assumed", f"no polarity mark in the text; {why} — check the part"))
+    package, mounting = _settle_package(facts)
     if facts.unparsed:
         facts.flags.append(Flag("unparsed", "not understood: " + " ".join(facts.unparsed)))
-    if all(v is None for v in (pf, tolerance, volts, dielectric, safety, polarity, rated)):
+    if all(v is None for v in (pf, tolerance, volts, dielectric, safety, polarity, rated, package)):
         facts.flags.append(Flag("unreadable", "nothing in the marking could be read"))
     return Marking(text=text, capacitance_pf=pf, tolerance=tolerance, voltage_v=volts, voltage_kind=kind,
                    dielectric=dielectric, safety_class=safety, polarity=polarity, rated_temp_c=rated,
                    alternatives=tuple(facts.alternatives), flags=tuple(facts.flags),
-                   unparsed=tuple(facts.unparsed))
+                   unparsed=tuple(facts.unparsed), package=package, mounting=mounting)
+
+
+def merge_colours(bands: Marking, rest: Marking | None, text: str) -> Marking:
+    """Colour bands read beside printed or typed facts (a tolerance, a voltage) as one marking.
+
+    The bands give the value; the rest fills in what the bands do not say, and a tolerance
+    stated in words wins over the one three bands leave to be assumed.
+
+    >>> m = merge_colours(decode("yellow violet brown"), decode("5%"), "yellow violet brown 5%")
+    >>> format_capacitance(m.capacitance_pf), format_tolerance(m.tolerance)
+    ('470 pF', '±5 %')
+    """
+    if rest is None:
+        return replace(bands, text=text)
+    assumed = "tolerance-assumed" in bands.flag_kinds()
+    tolerance = (rest.tolerance or bands.tolerance) if assumed else (bands.tolerance or rest.tolerance)
+    flags = tuple(f for f in bands.flags if not (assumed and rest.tolerance and f.kind == "tolerance-assumed"))
+    return replace(
+        bands, text=text, tolerance=tolerance,
+        voltage_v=bands.voltage_v or rest.voltage_v,
+        voltage_kind=bands.voltage_kind or rest.voltage_kind,
+        dielectric=bands.dielectric or rest.dielectric,
+        safety_class=bands.safety_class or rest.safety_class,
+        polarity=bands.polarity or rest.polarity,
+        rated_temp_c=bands.rated_temp_c or rest.rated_temp_c,
+        flags=flags + tuple(x for x in rest.flags if x.kind not in ("unreadable",)),
+        unparsed=bands.unparsed + rest.unparsed,
+        package=rest.package, mounting=rest.mounting)
+
+
+_COLOUR_RUN_MIN = 3
+
+
+def _colour_run(text: str) -> tuple[str, str] | None:
+    """(colour words, the rest) when a run of colour words stands among other words."""
+    words = text.split()
+    if len(words) <= _COLOUR_RUN_MIN:
+        return None
+    for size in range(len(words) - 1, _COLOUR_RUN_MIN - 1, -1):
+        for start in range(0, len(words) - size + 1):
+            run = " ".join(words[start:start + size])
+            if looks_like_colours(run):
+                return run, " ".join(words[:start] + words[start + size:])
+    return None
+
+
+def _decode_mixed(text: str) -> Marking | None:
+    """``5% yellow violet brown``: colour bands joined with typed facts, as a sheet's columns are."""
+    found = _colour_run(text)
+    if found is None:
+        return None
+    bands = decode_colours(found[0])
+    if bands.capacitance_pf is None:
+        return None
+    return merge_colours(bands, _decode(found[1]), text)
 
 
 @lru_cache(maxsize=8192)
@@ -422,7 +569,10 @@ def _decode_cached(text: str) -> Marking:
     try:
         if looks_like_colours(text):  # every word a colour: the colour code, not the printed codes
             return decode_colours(text)
-        return _decode(text)
+        marking = _decode(text)
+        if marking.capacitance_pf is None and marking.unparsed:
+            return _decode_mixed(text) or marking
+        return marking
     except Exception as exc:  # noqa: BLE001 - a decoder fault must not stop an import of many rows
         return Marking(text=text[:MAX_MARKING_CHARS],
                        flags=(Flag("unreadable", f"the decoder failed on this text ({type(exc).__name__})"),))
@@ -498,6 +648,8 @@ def summary(m: Marking) -> str:
         parts.append(f"{format_temperature(m.rated_temp_c, signed=False)} rated")
     if m.polarity:
         parts.append(m.polarity)
+    if m.package:
+        parts.append(read_package(m.package).describe())
     return "  ".join(parts) if parts else "(nothing decoded)"
 
 
@@ -521,7 +673,7 @@ DEFER_CAUTION = "Defer to the equipment's service information and to local codes
 def cautions(m: Marking) -> tuple[str, ...]:
     """The safety cautions a person handling this part should read (mains, polarity, stored charge).
 
-    >>> cautions(decode("X2 0.1uF 275VAC"))[0].startswith("Mains safety capacitor")
+    >>> cautions(decode("X2 0.1uF 275VAC"))[0].startswith("mains work can kill")
     True
     """
     out = []
@@ -537,4 +689,4 @@ def cautions(m: Marking) -> tuple[str, ...]:
 
 __all__ = ["CHARGE_CAUTION", "DEFER_CAUTION", "MAX_MARKING_CHARS", "POLARISED_CAUTION",
            "POLARISED_FOR_PLAIN_CAUTION", "POLARITY_MARKS_CAUTION", "RETUNE_CAUTION", "USUAL_POLARITY",
-           "cautions", "decode", "describe_dielectric", "summary"]
+           "cautions", "decode", "describe_dielectric", "merge_colours", "summary"]

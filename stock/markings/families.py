@@ -26,7 +26,12 @@ from stock.decoded import FAMILIES, Alternative, Dielectric, Flag
 
 @dataclass(frozen=True)
 class FamilyFigures:
-    """Typical figures of a family: α ± tolerance (ppm/K) and/or a change window over a range."""
+    """Typical figures of a family: α ± tolerance (ppm/K) and/or a change window over a range.
+
+    ``linear`` says whether the window may be scaled down to a narrower range (a roughly linear
+    curve) or holds whole (the cold end of an electrolytic). The one table of these figures: the
+    grading physics (:mod:`stock.physics.stability`) reads them from here.
+    """
 
     tempco: Decimal | None
     tempco_tol: Decimal | None
@@ -35,41 +40,60 @@ class FamilyFigures:
     change_minus_pct: Decimal | None
     change_plus_pct: Decimal | None
     source: str
+    linear: bool = True
 
 
 def _d(text: str | None) -> Decimal | None:
     return None if text is None else Decimal(text)
 
 
-def _figures(tempco, tol, low, high, minus, plus, source) -> FamilyFigures:  # noqa: ANN001
-    return FamilyFigures(_d(tempco), _d(tol), _d(low), _d(high), _d(minus), _d(plus), source)
+def _figures(tempco, tol, low, high, minus, plus, source, linear=True) -> FamilyFigures:  # noqa: ANN001
+    return FamilyFigures(_d(tempco), _d(tol), _d(low), _d(high), _d(minus), _d(plus), source, linear)
 
 
-# family -> typical figures: (α, ±α, low °C, high °C, −ΔC %, +ΔC %, source).
+# family -> typical figures: (α, ±α, low °C, high °C, −ΔC %, +ΔC %, source). Keys of the shared
+# reference (capacitor-codes.md §6c, §8a): S32 film makers' comparison table, S33 polystyrene
+# article, S34 silver-mica overview, S68 film text, S70 polystyrene white paper. Where sources
+# disagree the figure spans them all (a worst case), and the comment says so.
 FAMILY_FIGURES: dict[str, FamilyFigures] = {
     "ceramic": _figures(None, None, None, None, None, None, "no class given"),
-    "polystyrene": _figures("-125", "50", "-40", "85", None, None,
-                            "α −125 ppm/K (polystyrene article); max +85 °C (maker's white paper); "
-                            "±50 ppm/K from memory (−100…−200)"),
+    # S33 −125 ppm/K; memory −100…−200: −150 ± 50 spans both. Max +85 °C: S70; −40 °C from memory
+    "polystyrene": _figures("-150", "50", "-40", "85", None, None,
+                            "α −125 ppm/K (S33) and −100…−200 (memory): −150 ± 50 spans both; max +85 °C (S70)"),
+    # S32 ΔC ±2.5 % over −55…+105 °C; linear, negative (S68); α −200 ± 100 from memory (−100…−300)
     "polypropylene": _figures("-200", "100", "-55", "105", "2.5", "2.5",
-                              "WIMA film table (ΔC ±2.5 % over −55…+105 °C); α from memory (−100…−300)"),
+                              "ΔC ±2.5 % over −55…+105 °C (S32); linear, negative (S68); α from memory"),
+    # S32 ΔC ±5 %; α +400 ppm/K from memory, positive and only roughly linear
     "polyester": _figures("400", "200", "-55", "125", "5", "5",
-                          "WIMA film table (ΔC ±5 %); α +400 ppm/K from memory, non-linear"),
+                          "ΔC ±5 % over −55…+125 °C (S32); α +400 ± 200 ppm/K from memory"),
     "polyethylene-naphthalate": _figures("200", "100", "-55", "125", "5", "5",
-                                         "WIMA film table (ΔC ±5 %); α from memory"),
+                                         "ΔC ±5 % (S32); α +200 ± 100 ppm/K from memory"),
     "polyphenylene-sulfide": _figures("0", "100", "-55", "140", "1.5", "1.5",
-                                      "WIMA film table (ΔC ±1.5 % over −55…+140 °C); α from memory"),
-    "polycarbonate": _figures("50", "100", "-55", "125", None, None, "from memory (small, flat)"),
-    "ptfe": _figures(None, None, "-55", "200", "3", "1", "film text (ΔC +1/−3 % over range); range from memory"),
-    "mica": _figures("50", "25", "-55", "125", None, None, "silver mica overview (+35…+75 ppm/K)"),
-    "glass": _figures("140", "25", "-55", "125", None, None, "from memory"),
-    "paper": _figures(None, None, "-40", "85", "10", "10", "from memory (paper/oil, ±10 % over range)"),
-    "tantalum": _figures(None, None, "-55", "125", "10", "10", "WIMA comparison (ΔC ±10 % over −55…+125 °C)"),
-    "tantalum-polymer": _figures(None, None, "-55", "105", "20", "20", "from memory (±10…20 %)"),
+                                      "ΔC ±1.5 % over −55…+140 °C (S32); α 0 ± 100 ppm/K from memory"),
+    # memory: "small, ±50…+100 ppm/K, flat": +50 ± 100 spans −50…+150
+    "polycarbonate": _figures("50", "100", "-55", "125", None, None,
+                              "from memory (small and flat, about −50…+100 ppm/K): +50 ± 100"),
+    # S68 +1/−3 % over the range; the range is from memory: some parts are rated to +200 °C, but the
+    # window is known only to +125 °C, so the rated range stops there
+    "ptfe": _figures(None, None, "-55", "125", "3", "1",
+                     "ΔC +1/−3 % over range (S68); range −55…+125 °C from memory"),
+    # S34 +35…+75 ppm/K typical; the old military characteristic E allows −20…+100 ppm/K (from
+    # memory of MIL-PRF-39001 Table I, reference §6): +40 ± 60 spans it
+    "mica": _figures("40", "60", "-55", "125", None, None,
+                     "typical +35…+75 ppm/K (S34); characteristic E −20…+100 ppm/K (from memory): +40 ± 60"),
+    "glass": _figures("140", "25", "-55", "125", None, None, "from memory (+140 ± 25 ppm/K)"),
+    "paper": _figures(None, None, "-40", "85", "10", "10",
+                      "common practice, no published source (paper/oil about ±10 % over range)", linear=False),
+    "tantalum": _figures(None, None, "-55", "125", "10", "10",
+                         "ΔC ±10 % over −55…+125 °C, roughly linear (S32)"),
+    "tantalum-polymer": _figures(None, None, "-55", "105", "20", "20", "from memory (±10…20 %: the wider)"),
     "aluminium-electrolytic": _figures(None, None, "-40", "105", "20", "10",
-                                       "from memory (−10…−20 % at −40 °C, +5…+10 % at +105 °C)"),
-    "bipolar-electrolytic": _figures(None, None, "-40", "85", "20", "10", "from memory (as aluminium)"),
-    "double-layer": _figures(None, None, "-25", "70", "30", "20", "from memory (large, non-linear)"),
+                                       "from memory (−10…−20 % at −40 °C, +5…+10 % at +105 °C)", linear=False),
+    "bipolar-electrolytic": _figures(None, None, "-40", "85", "20", "10", "from memory (as aluminium)",
+                                     linear=False),
+    # memory: large and non-linear, capacitance falls in the cold; the wider of two recollections
+    "double-layer": _figures(None, None, "-25", "70", "30", "20",
+                             "from memory (about −20…−30 % cold, +10…+20 % hot: the wider)", linear=False),
 }
 
 # Names and abbreviations (lower case, spaces and hyphens removed) -> family. Common practice
@@ -87,20 +111,27 @@ FAMILY_NAMES: dict[str, str] = {
     "polyphenylenesulphide": "polyphenylene-sulfide",
     "polycarbonate": "polycarbonate", "mkc": "polycarbonate", "kc": "polycarbonate", "pc": "polycarbonate",
     "ptfe": "ptfe", "teflon": "ptfe",
-    "mica": "mica", "silvermica": "mica", "sm": "mica",
+    "mica": "mica", "silvermica": "mica", "sm": "mica", "micas": "mica",
     "glass": "glass",
     "paper": "paper", "oilpaper": "paper", "mp": "paper", "paperinoil": "paper", "waxpaper": "paper",
-    "tantalum": "tantalum", "tant": "tantalum", "ta": "tantalum", "tantal": "tantalum",
+    "metallisedpaper": "paper",
+    "tantalum": "tantalum", "tant": "tantalum", "tantalium": "tantalum", "ta": "tantalum", "tantal": "tantalum",
     "mno2": "tantalum", "tantalummno2": "tantalum",
     "tantalumpolymer": "tantalum-polymer", "polymertantalum": "tantalum-polymer",
     "aluminiumelectrolytic": "aluminium-electrolytic", "aluminumelectrolytic": "aluminium-electrolytic",
     "electrolytic": "aluminium-electrolytic", "elco": "aluminium-electrolytic", "elko": "aluminium-electrolytic",
     "alu": "aluminium-electrolytic", "ecap": "aluminium-electrolytic", "elyt": "aluminium-electrolytic",
+    # distributor descriptions: "CAP ALUM 100UF 25V", "CAP ELEC 47UF" (common practice, no published source)
+    "alum": "aluminium-electrolytic", "aluminium": "aluminium-electrolytic",
+    "aluminum": "aluminium-electrolytic", "elec": "aluminium-electrolytic",
+    "electrolytics": "aluminium-electrolytic", "aluelectrolytic": "aluminium-electrolytic",
+    "alel": "aluminium-electrolytic",
     "bipolar": "bipolar-electrolytic", "bipolarelectrolytic": "bipolar-electrolytic",
     "bp": "bipolar-electrolytic", "nonpolar": "bipolar-electrolytic", "np": "bipolar-electrolytic",
     "nonpolarelectrolytic": "bipolar-electrolytic",
     "doublelayer": "double-layer", "supercap": "double-layer", "supercapacitor": "double-layer",
-    "edlc": "double-layer", "ultracap": "double-layer",
+    "edlc": "double-layer", "ultracap": "double-layer", "ultracapacitor": "double-layer",
+    "goldcap": "double-layer",
 }
 # Abbreviations whose reading is disputed: name -> (other family, reason).
 DISPUTED_NAMES: dict[str, tuple[str, str]] = {
@@ -156,6 +187,40 @@ def _key(text: str) -> str:
     return key
 
 
+# A misspelt family word is matched against the longer names only (short abbreviations such as
+# "pp" or "ks" are too close to every other short word). The cutoff is a judgement call.
+FUZZY_MIN_LENGTH = 5
+FUZZY_CUTOFF = 85
+
+
+@lru_cache(maxsize=4096)
+def read_misspelt_family(token: str) -> FamilyReading | None:
+    """A family word with a typing slip (``elctrolytic``), read with rapidfuzz and flagged.
+
+    Only whole words of letters, at least :data:`FUZZY_MIN_LENGTH` long, are compared, and only
+    against names as long; None when no name is close enough.
+
+    >>> r = read_misspelt_family("elctrolytic")
+    >>> r.dielectric.family, r.flags[0].kind
+    ('aluminium-electrolytic', 'spelling-corrected')
+    >>> read_misspelt_family("plastic") is None
+    True
+    """
+    from rapidfuzz import fuzz, process   # imported late: it costs start-up time
+
+    word = token.lower()
+    if len(word) < FUZZY_MIN_LENGTH or not word.isalpha() or word in FAMILY_NAMES:
+        return None
+    found = process.extractOne(word, _FUZZY_NAMES, scorer=fuzz.ratio, score_cutoff=FUZZY_CUTOFF)
+    if found is None:
+        return None
+    name = found[0]
+    reading = read_family(name)
+    assert reading is not None
+    flag = Flag("spelling-corrected", f"{token}: read as {name} ({reading.dielectric.family})")
+    return FamilyReading(token, reading.dielectric, reading.alternatives, (flag, *reading.flags))
+
+
 @lru_cache(maxsize=4096)
 def read_family(token: str) -> FamilyReading | None:
     """A family name or abbreviation, with alternatives and flags; None when it names no family.
@@ -178,6 +243,9 @@ def read_family(token: str) -> FamilyReading | None:
     return FamilyReading(token, chosen)
 
 
+_FUZZY_NAMES = [n for n in FAMILY_NAMES if len(n) >= FUZZY_MIN_LENGTH]
+
+
 def decode_family(token: str) -> Dielectric | None:
     """The family a name or abbreviation stands for, with its typical figures; None when it is none.
 
@@ -189,4 +257,4 @@ def decode_family(token: str) -> Dielectric | None:
 
 
 __all__ = ["DISPUTED_NAMES", "FAMILY_FIGURES", "FAMILY_NAMES", "FamilyFigures", "FamilyReading",
-           "decode_family", "family_dielectric", "read_family"]
+           "decode_family", "family_dielectric", "read_family", "read_misspelt_family"]

@@ -8,7 +8,7 @@ A token printed on a capacitor (or typed in a cell) can give its value in pF in 
   (×10⁷ pF would be 470 µF for ``477``), so 7 is read as ×10⁷ with a flag unless the part is polarised.
 - **Letter-and-digit code** (IEC 60062 "RKM"): the letter p/n/u(µ)/m/F stands for the decimal
   point and the prefix: ``4n7`` = 4.7 nF, ``p47`` = 0.47 pF, ``u1`` = 0.1 µF. ``R`` is the decimal
-  point in pF on small parts (``4R7`` = 4.7 pF, common practice). Old ERIE/US practice used ``K`` as
+  point in pF on small parts (``4R7`` = 4.7 pF, common practice). Older US practice used ``K`` as
   ×1000 pF (``3K3`` = 3.3 nF).
 - **Value with unit**: pF, nF, µF/uF, mF (millifarad), and on older parts MFD/MF (microfarad) and
   MMFD/µµF (micro-microfarad = pF).
@@ -61,7 +61,7 @@ RKM_EXPONENT: dict[str, int] = {
     "m": 9,    # milli  IEC 60062
     "f": 12,   # farad  IEC 60062
     "r": 0,    # decimal point in pF, common practice, no published standard
-    "k": 3,    # ×1000 pF, old ERIE/US practice (from memory of ERIE catalogue notes)
+    "k": 3,    # ×1000 pF, older US practice (from memory of older US catalogue notes)
 }
 
 # Unit words after a number -> power of ten of the unit in pF. Keys are lower case.
@@ -222,11 +222,13 @@ def _rkm_candidates(body: str, letter: str | None) -> list[ValueCandidate]:
     if unit == "k":
         if not fraction:
             return []   # "47K" is a value-plus-tolerance question, handled by the caller
-        return [ValueCandidate(pf, "letter-and-digit", f"{body}: K as ×1000 pF (old ERIE practice)", letter)]
+        return [ValueCandidate(pf, "letter-and-digit", f"{body}: K as ×1000 pF (older US practice)", letter)]
     if unit == "f" and match[2] == "f":
         return []       # lower-case f alone is not the farad letter
     if match[2] == "M" and not fraction:
         return []       # "473M": a trailing capital M is the ±20 % tolerance letter, not milli
+    if match[2] == "F" and not fraction and _THREE_DIGIT.fullmatch(whole):
+        return []       # "101F": the code 101 with the ±1 % letter F (IEC 60062), not 101 farads
     form = "r-decimal" if unit == "r" else "letter-and-digit"
     source = "R as the decimal point in pF" if unit == "r" else "IEC 60062 letter-and-digit code"
     return [ValueCandidate(pf, form, f"{body}: {source}", letter)]
@@ -252,6 +254,8 @@ def _unit_candidates(token: str, flags: list[Flag]) -> list[ValueCandidate]:
                 ValueCandidate(milli, "with-unit", f"{token}: mF = millifarad (SI)")]
     if key in ("f",) and unit == "f":
         return []
+    if unit == "F" and _THREE_DIGIT.fullmatch(match[1]):
+        return []       # "101F": the code 101 with the ±1 % letter F (IEC 60062), not 101 farads
     return [ValueCandidate(_scaled(number, UNIT_EXPONENT[key]), "with-unit", f"{token}: value with unit")]
 
 
@@ -281,15 +285,15 @@ def _unitless_candidates(body: str, letter: str | None, family: str | None,
                            letter)]
 
 
-def _erie_candidates(body: str, letter: str | None, flags: list[Flag],
-                     primary: list[ValueCandidate]) -> list[ValueCandidate]:
-    """``47K``: IEC reads 47 pF ±10 %; old ERIE practice reads K as ×1000 pF (47 nF)."""
+def _k_multiplier_candidates(body: str, letter: str | None, flags: list[Flag],
+                             primary: list[ValueCandidate]) -> list[ValueCandidate]:
+    """``47K``: IEC reads 47 pF ±10 %; older US practice reads K as ×1000 pF (47 nF)."""
     if letter != "K" or not body.isdigit() or len(body) > 3 or (len(body) == 3 and body[2] != "0"):
         return []
-    erie = _scaled(Decimal(body), 3)
+    k_reading = _scaled(Decimal(body), 3)
     flags.append(Flag("ambiguous-code", f"{body}K: read as {_fmt(primary[0].capacitance_pf)} ±10 % "
-                                        f"(IEC 60062); old ERIE practice reads K as ×1000 pF ({_fmt(erie)})"))
-    return [ValueCandidate(erie, "letter-and-digit", f"{body}K: K as ×1000 pF (old ERIE practice)")]
+                                        f"(IEC 60062); older US practice reads K as ×1000 pF ({_fmt(k_reading)})"))
+    return [ValueCandidate(k_reading, "letter-and-digit", f"{body}K: K as ×1000 pF (older US practice)")]
 
 
 @lru_cache(maxsize=8192)
@@ -328,7 +332,7 @@ def read_value(token: str, *, family: str | None = None) -> ValueReading | None:
                           or _rkm_candidates(body, letter)
                           or _unitless_candidates(body, letter, family, flags))
             if candidates:
-                candidates += _erie_candidates(body, letter, flags, candidates)
+                candidates += _k_multiplier_candidates(body, letter, flags, candidates)
                 break
     if not candidates:
         return None

@@ -13,17 +13,20 @@ What "meets" means, constraint by constraint:
   within :data:`NOMINAL_MATCH_PCT` of the target (closer than any two E96 neighbours, so a single part
   must carry the value asked for, while a pair may land 1 % off).
 - **Tempco window.** The part's whole band ``α ± tol`` must lie in the window; a part whose tolerance
-  on α is not marked (old names such as N750) is judged on its nominal α, and says so. A part with no
-  linear tempco (Class 2 ceramics, electrolytics) never meets a window.
+  on α is not marked (old names such as N750) takes the tolerance grading assumes (that of the
+  EIA-198 code it is sold as, :func:`stock.markings.ceramic_codes.assumed_tempco_tolerance`), for
+  single parts and pairs alike, and says so. A part with no linear tempco (Class 2 ceramics,
+  electrolytics) never meets a window.
 - **Voltage.** The rated voltage must reach the working voltage (for a series pair, each part's share,
   V₁ = V·C₂/(C₁ + C₂)), within the derating rules of :func:`stock.grading.worst_case`; "marginal"
   derating passes only with ``allow_marginal``.
 - **Application.** The grade (:func:`stock.grading.grade`) must be "fit" ("marginal" too with
   ``allow_marginal``).
-- **Safety.** A mains position or a named class never accepts a part without an X/Y class. A class
-  substitutes for another when its IEC 60384-14 impulse test is at least as severe for the same or a
-  stricter position: X1 for X2/X3; a Y class for an X one (a Y part is tested for line-to-earth, the
-  stricter position); Y1 for every Y; Y2 for Y3/Y4 (see :data:`SAFETY_SUBSTITUTES`).
+- **Safety.** A mains position or a named class never accepts a part without an X/Y class, and
+  never a pair. A class stands in for another by the one IEC 60384-14 rule of
+  :func:`stock.markings.safety_classes.covers` (Y may take X, never the reverse; impulse test at
+  least as severe; AC rating reaching the position's). A mains position with no class named takes
+  any X/Y part for line–line and a Y part for line–earth (``position``).
 - **Quantity.** Available = on hand less reservations of plans not yet pulled or dropped, and it must
   cover the quantity; a pair takes ``qty`` of each part, or ``2 × qty`` from one bin used twice.
 
@@ -40,35 +43,21 @@ from functools import cached_property, lru_cache
 from typing import Any
 
 from stock.physics import combining
-from stock.markings.ceramic_codes import decode_dielectric, read_dielectric, usual_tempco_tolerance
+from stock.markings.ceramic_codes import assumed_tempco_tolerance, decode_dielectric, read_dielectric
 from stock.decoded import FAMILIES, Dielectric, Marking, Tolerance
 from stock.errors import BadValue
-from stock.physics.grading import APPLICATIONS, Conditions, grade, worst_case
+from stock.markings.safety_classes import (MAINS_CAUTION, POSITION_NAMES, SUBCLASSES, covers, positions_text,
+                                           read_safety_class)
+from stock.physics.grading import APPLICATIONS, POSITIONS, Conditions, grade, worst_case
 from stock.units import format_capacitance, format_tolerance
 
 NOMINAL_MATCH_PCT = Decimal(1)  # common practice, no published source: "the same value" within 1 %
 DEFAULT_BUY_TOL_PCT = Decimal(10)  # E12, when the requirement names no tolerance
 _HUNDRED = Decimal(100)
 
-# IEC 60384-14 subclasses, each with the ones it may replace (impulse test at least as severe, same or
-# stricter position: Y1 8 kV, Y2 5 kV, X1 4 kV, X2 and Y4 2.5 kV, X3 and Y3 none; figures from the
-# reference tables of the standard's subclasses).
-SAFETY_SUBSTITUTES: dict[str, frozenset[str]] = {
-    "X1": frozenset({"X1", "X2", "X3"}),
-    "X2": frozenset({"X2", "X3"}),
-    "X3": frozenset({"X3"}),
-    "Y1": frozenset({"Y1", "Y2", "Y3", "Y4", "X1", "X2", "X3"}),
-    "Y2": frozenset({"Y2", "Y3", "Y4", "X1", "X2", "X3"}),
-    "Y3": frozenset({"Y3", "X3"}),
-    "Y4": frozenset({"Y4", "X2", "X3"}),
-}
-SAFETY_CAUTION = ("Mains position: use only X/Y safety-rated parts of the class the position needs, "
-                  "discharge before handling, and defer to local codes and licensed practice.")
-
 _WINDOW = re.compile(r"^\s*([+\-−]?\d+(?:\.\d+)?)\s*(?:±|\+/-|\+-)\s*(\d+(?:\.\d+)?)\s*(?:ppm(?:/K)?)?\s*$",
                      re.IGNORECASE)
 _RANGE = re.compile(r"^\s*([+\-−]?\d+(?:\.\d+)?)\s*(?:\.\.|…)\s*([+\-−]?\d+(?:\.\d+)?)\s*$")
-_SAFETY = re.compile(r"([XY])\s*([1-4])", re.IGNORECASE)
 
 
 def _dec(text: str) -> Decimal:
@@ -127,34 +116,8 @@ def parse_tempco_window(text: str) -> tuple[Decimal, Decimal]:
     diel = reading.dielectric if reading else None
     if diel is None or diel.tempco_ppm_per_k is None:
         raise BadValue("--tempco", raw, expected)
-    tol = diel.tempco_tol_ppm_per_k
-    if tol is None:  # an old name: take the tolerance of the EIA code it is usually sold as
-        usual = usual_tempco_tolerance(diel.code)
-        tol = usual[0] if usual else None
-    if tol is None:
-        raise BadValue("--tempco", raw, f"a window such as {fmt(diel.tempco_ppm_per_k)}±60: "
-                                        f"{text.strip()} names a tempco but no tolerance on it")
+    tol = tempco_tolerance(diel)  # an old name: the tolerance of the EIA code it is sold as
     return diel.tempco_ppm_per_k - tol, diel.tempco_ppm_per_k + tol
-
-
-def safety_classes(text: str | None) -> frozenset[str]:
-    """The IEC 60384-14 subclasses a marking's safety text names: "X1Y2" -> {"X1", "Y2"}.
-
-    >>> sorted(safety_classes("X1 Y2"))
-    ['X1', 'Y2']
-    """
-    if not text:
-        return frozenset()
-    return frozenset(f"{a.upper()}{b}" for a, b in _SAFETY.findall(text))
-
-
-def safety_covers(part_classes: frozenset[str], needed: str) -> bool:
-    """Whether a part's classes include one that may stand in the needed position.
-
-    >>> safety_covers(frozenset({"Y2"}), "X2"), safety_covers(frozenset({"X2"}), "Y2")
-    (True, False)
-    """
-    return any(needed in SAFETY_SUBSTITUTES.get(c, frozenset()) for c in part_classes)
 
 
 MAX_WORKING_V = Decimal(1_000_000)   # past 1 MV a working voltage is a typing slip (common practice)
@@ -177,6 +140,7 @@ class Requirement:
     dielectric_code: str | None = None
     safety_class: str | None = None
     qty: int = 1
+    position: str | None = None     # "line-line" or "line-earth" for a mains position
 
     def __post_init__(self) -> None:
         if self.capacitance_pf <= 0:
@@ -191,8 +155,10 @@ class Requirement:
             raise BadValue("--use", self.application, "one of " + ", ".join(APPLICATIONS))
         if self.family is not None and self.family not in FAMILIES:
             raise BadValue("--family", self.family, "one of " + ", ".join(FAMILIES))
-        if self.safety_class is not None and self.safety_class not in SAFETY_SUBSTITUTES:
-            raise BadValue("--safety", self.safety_class, "one of " + ", ".join(SAFETY_SUBSTITUTES))
+        if self.safety_class is not None and read_safety_class(self.safety_class) is None:
+            raise BadValue("--safety", self.safety_class, "one of " + ", ".join(SUBCLASSES) + " or a dual class such as X1Y2")
+        if self.position is not None and self.position not in POSITIONS:
+            raise BadValue("--position", self.position, "one of " + ", ".join(POSITIONS))
         if (self.tempco_min is not None and self.tempco_max is not None
                 and self.tempco_min > self.tempco_max):
             raise BadValue("--tempco", f"{self.tempco_min}..{self.tempco_max}",
@@ -236,19 +202,22 @@ class Requirement:
         return (lo if lo is not None else Decimal("-Infinity"), hi if hi is not None else Decimal("Infinity"))
 
     def needed_safety(self) -> str | None:
-        """The safety subclass a part must cover; a mains position with none named needs at least X3."""
+        """The safety class a part must cover, when the requirement names one (``X2``, ``X1Y2``)."""
         if self.safety_class:
-            return self.safety_class
-        return "X3" if self.application == "mains" else None
+            return read_safety_class(self.safety_class).code
+        return None
 
     def mains_position(self) -> str | None:
-        """The position a named safety class implies: X → line–line, Y → line–earth (IEC 60384-14)."""
+        """The mains position: as given, else the one a named class implies (X → line–line, Y →
+        line–earth, IEC 60384-14); None for a mains job that names neither."""
+        if self.position:
+            return self.position
         if not self.safety_class:
             return None
         return "line-earth" if "Y" in self.safety_class.upper() else "line-line"
 
     def is_mains(self) -> bool:
-        return self.application == "mains" or self.safety_class is not None
+        return self.application == "mains" or self.safety_class is not None or self.position is not None
 
     def describe(self) -> str:
         """The requirement in words, for ordering: "150 pF ±5 %, 0±30 ppm/K, ≥ 50 V, fit for tuned"."""
@@ -270,6 +239,8 @@ class Requirement:
             words.append(f"≥ {fmt(self.working_v)} V")
         if self.safety_class:
             words.append(f"safety class {self.safety_class}")
+        if self.position:
+            words.append(POSITION_NAMES[self.position])
         if self.application:
             word = "fit or marginal" if self.allow_marginal else "fit"
             words.append(f"{word} for {self.application}")
@@ -288,7 +259,8 @@ class Requirement:
             "application": self.application, "allow_marginal": self.allow_marginal,
             "temp_min_c": f(self.conditions.temp_min_c), "temp_max_c": f(self.conditions.temp_max_c),
             "family": self.family, "dielectric_code": self.dielectric_code,
-            "safety_class": self.safety_class, "qty": self.qty, "description": self.describe(),
+            "safety_class": self.safety_class, "qty": self.qty, "position": self.position,
+            "description": self.describe(),
         }
 
 
@@ -355,13 +327,13 @@ def check_part(m: Marking, req: Requirement, *, working_v: Decimal | None) -> Ve
             return Verdict(False, (f"{diel.code if diel else 'dielectric not marked'}, not {wanted.code}",),
                            "dielectric")
         reasons.append(f"{diel.code} serves as {wanted.code}" if diel.code != wanted.code else diel.code)
-    needed = req.needed_safety()
-    if needed:
-        have = safety_classes(m.safety_class)
-        if not safety_covers(have, needed):
-            why = f"class {m.safety_class} does not cover {needed}" if have else "no X/Y safety class"
-            return Verdict(False, (f"{why} (IEC 60384-14)",), "safety")
-        reasons.append(f"safety class {m.safety_class} covers {needed} (IEC 60384-14)")
+    if req.is_mains():
+        refused = _safety_refusal(m, req)
+        if refused is not None:
+            return Verdict(False, (refused,), "safety")
+        needed = req.needed_safety()
+        if needed:
+            reasons.append(covers(m.safety_class, needed, *_ac_ratings(m, req)).reason)
     cond = req.conditions
     if m.rated_temp_c is not None and cond.temp_max_c > m.rated_temp_c:
         return Verdict(False, (f"rated to {_signed(m.rated_temp_c)} °C, below {_signed(cond.temp_max_c)} °C",),
@@ -386,9 +358,34 @@ def check_part(m: Marking, req: Requirement, *, working_v: Decimal | None) -> Ve
             return Verdict(False, tuple(g.reasons[:2]) or (f"{word} for {req.application}",),
                            "application", word)
         reasons.append(g.reasons[0] if g.reasons else f"{word} for {req.application}")
+        reasons.extend(f"doubt: {d}" for d in g.doubts)
     if not reasons and word is None:
         return _PASSED
     return Verdict(True, tuple(reasons), None, word)
+
+
+def _ac_ratings(m: Marking, req: Requirement) -> tuple[Decimal | None, Decimal | None]:
+    """The part's marked AC rating and the position's AC working voltage (a mains ``--volts``)."""
+    part_ac = m.voltage_v if m.voltage_kind == "AC" else None
+    return part_ac, req.working_v
+
+
+def _safety_refusal(m: Marking, req: Requirement) -> str | None:
+    """Why a part may not take this mains position (the real cause), or None when it may."""
+    needed = req.needed_safety()
+    if needed:
+        verdict = covers(m.safety_class, needed, *_ac_ratings(m, req))
+        return None if verdict.ok else verdict.reason
+    have = read_safety_class(m.safety_class) if m.safety_class else None
+    if have is None:
+        return "no X/Y safety class (IEC 60384-14): never across the mains or to earth"
+    where = req.mains_position()
+    if where == "line-earth" and "line-earth" not in have.positions():
+        return f"{have.code} is an X class: a line–earth position needs a Y class (IEC 60384-14)"
+    part_ac = _ac_ratings(m, req)[0]
+    if where == "line-line" and "line-line" not in have.positions(part_ac, req.working_v):
+        return f"{have.code} may not take a line–line position: {positions_text(have.code, part_ac, req.working_v)}"
+    return None
 
 
 def tolerance_pct(m: Marking) -> tuple[Decimal, Decimal] | None:
@@ -436,14 +433,27 @@ def check_tempco(m: Marking, req: Requirement) -> Verdict:
     if diel is None or diel.tempco_ppm_per_k is None:
         what = diel.code if diel else "dielectric not marked"
         return Verdict(False, (f"{what}: no linear tempco",), "tempco")
-    alpha, tol = diel.tempco_ppm_per_k, diel.tempco_tol_ppm_per_k
-    a_lo, a_hi = alpha - (tol or 0), alpha + (tol or 0)
+    alpha, tol = diel.tempco_ppm_per_k, tempco_tolerance(diel)
+    a_lo, a_hi = alpha - tol, alpha + tol
+    note = ("" if diel.tempco_tol_ppm_per_k is not None else
+            f" (tolerance on α not marked: ±{fmt(tol)} assumed, {assumed_tempco_tolerance(alpha)[1]})")
     if a_lo < window[0] or a_hi > window[1]:
-        return Verdict(False, (f"{diel.code} α {fmt(alpha)}" + (f"±{fmt(tol)}" if tol is not None else "")
-                               + f" ppm/K outside {window_text(window)}",), "tempco")
-    note = "" if tol is not None else " (no tolerance on α marked: nominal judged)"
-    return Verdict(True, (f"α {fmt(alpha)}" + (f"±{fmt(tol)}" if tol is not None else "")
-                          + f" ppm/K within {window_text(window)}{note}",))
+        return Verdict(False, (f"{diel.code} α {fmt(alpha)}±{fmt(tol)} ppm/K outside {window_text(window)}{note}",),
+                       "tempco")
+    return Verdict(True, (f"α {fmt(alpha)}±{fmt(tol)} ppm/K within {window_text(window)}{note}",))
+
+
+def tempco_tolerance(diel: Dielectric | None) -> Decimal:
+    """The tolerance on α a check uses: the marked one, else the one assumed everywhere (never 0).
+
+    >>> tempco_tolerance(decode_dielectric("N750")), tempco_tolerance(decode_dielectric("C0G"))
+    (Decimal('120'), Decimal('30'))
+    """
+    if diel is None or diel.tempco_ppm_per_k is None:
+        return Decimal(0)
+    if diel.tempco_tol_ppm_per_k is not None:
+        return diel.tempco_tol_ppm_per_k
+    return assumed_tempco_tolerance(diel.tempco_ppm_per_k)[0]
 
 
 @lru_cache(maxsize=256)
@@ -457,12 +467,28 @@ def window_text(window: tuple[Decimal, Decimal]) -> str:
     return f"{fmt(lo)}…{fmt(hi)} ppm/K"
 
 
-def check_single(part: Stocked, req: Requirement) -> Verdict:
-    """Every constraint a single part must meet, in the order an explanation reports them."""
+def check_nominal(m: Marking, req: Requirement) -> Verdict:
+    """For a part with no marked tolerance: whether its nominal lies in the requirement's window.
+
+    Such a part is no proven match for a tolerance; it is a part to measure.
+    """
+    c = m.capacitance_pf
+    lo, hi = req.value_window()
+    if c is None or not lo <= c <= hi:
+        return Verdict(False, ("value outside the window",), "value")
+    return Verdict(True, (f"{_cap_text(c)} nominal, tolerance not marked: measure it before fitting"
+                          f" (it must read {_cap_text(lo)}…{_cap_text(hi)})",))
+
+
+def check_single(part: Stocked, req: Requirement, *, to_measure: bool = False) -> Verdict:
+    """Every constraint a single part must meet, in the order an explanation reports them.
+
+    With ``to_measure``, the value check is :func:`check_nominal` (a part with no marked tolerance).
+    """
     reasons: list[str] = []
     word = None
     m = part.marking
-    for check in (check_value, check_tempco):
+    for check in ((check_nominal, check_tempco) if to_measure else (check_value, check_tempco)):
         verdict = check(m, req)
         if not verdict.ok:
             return verdict
@@ -482,7 +508,7 @@ def check_single(part: Stocked, req: Requirement) -> Verdict:
 def build_requirement(*, value: str, tol: str | None = None, tempco: str | None = None,
                       max_tempco: str | None = None, volts: str | None = None, use: str | None = None,
                       allow_marginal: bool = False, temp: str | None = None, family: str | None = None,
-                      safety: str | None = None, qty: int = 1) -> Requirement:
+                      safety: str | None = None, qty: int = 1, position: str | None = None) -> Requirement:
     """A requirement from the words a user typed (``stock find`` options), each checked.
 
     ``tempco`` given as a code (C0G, N750) also asks for that dielectric or its equivalent.
@@ -523,10 +549,12 @@ def build_requirement(*, value: str, tol: str | None = None, tempco: str | None 
         working_v=conditions.working_v, application=use.strip().lower() if use else None,
         allow_marginal=allow_marginal, conditions=replace(conditions, working_v=None),
         family=fam, dielectric_code=code,
-        safety_class=safety.strip().upper() if safety else None, qty=qty)
+        safety_class=safety.strip().upper() if safety else None, qty=qty,
+        position=position.strip().lower() if position else None)
 
 
-__all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION", "SAFETY_SUBSTITUTES",
-           "Requirement", "Stocked", "Verdict", "build_requirement", "check_part", "check_single",
-           "check_tempco", "check_value", "parse_tempco_window", "safety_classes", "safety_covers",
-           "tolerance_pct", "window_text"]
+SAFETY_CAUTION = MAINS_CAUTION  # one caution text per hazard: the safety table's
+
+__all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION",
+           "Requirement", "Stocked", "Verdict", "build_requirement", "check_nominal", "check_part", "check_single",
+           "check_tempco", "check_value", "parse_tempco_window", "tempco_tolerance", "tolerance_pct", "window_text"]

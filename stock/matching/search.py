@@ -27,10 +27,12 @@ from stock.inventory.bins import part_marking, stored_marking
 from stock.decoded import Marking
 from stock.errors import BadValue
 from stock.markings.preferred_values import nearest, series_for_tolerance
-from stock.matching.requirement import (DEFAULT_BUY_TOL_PCT, NOMINAL_MATCH_PCT, SAFETY_CAUTION, SAFETY_SUBSTITUTES,
+from stock.markings.ceramic_codes import assumed_tempco_tolerance
+from stock.matching.requirement import (DEFAULT_BUY_TOL_PCT, NOMINAL_MATCH_PCT, SAFETY_CAUTION,
                                Requirement, Stocked, Verdict, build_requirement, check_part,
                                check_single, check_tempco, check_value, fmt, parse_tempco_window,
-                               safety_classes, safety_covers, tolerance_pct, window_text)
+                               tempco_tolerance, tolerance_pct, window_text)
+from stock.physics.stability import assumed_tempco_tol
 from stock.store.database import Store
 from stock.units import format_capacitance
 
@@ -109,11 +111,13 @@ class FindResult:
     explanation: tuple[str, ...]
     suggestion: str | None
     cautions: tuple[str, ...] = ()
+    to_measure: tuple[Match, ...] = ()   # no marked tolerance: not proven, named after the matches
 
     def to_json(self) -> dict[str, Any]:
         """The ``stock find --json`` shape (stable contract)."""
         return {"requirement": self.requirement.to_json(),
                 "matches": [m.to_json() for m in self.matches],
+                "to_measure": [m.to_json() for m in self.to_measure],
                 "combinations": [c.to_json() for c in self.combinations],
                 "explanation": list(self.explanation), "suggestion": self.suggestion,
                 "cautions": list(self.cautions)}
@@ -154,7 +158,7 @@ def _where(req: Requirement, lo: float | None, hi: float | None, *, strict: bool
     if req.family:
         where.append("p.family = ?")
         params.append(req.family)
-    if req.needed_safety():
+    if req.is_mains():
         where.append("p.safety_class IS NOT NULL")
     window = req.tempco_window()
     if window is not None:
@@ -205,14 +209,22 @@ _CANDIDATE_SELECT = (
     " FROM parts p JOIN bins b ON b.id = p.bin_id JOIN bin_stock s ON s.bin_id = b.id")
 
 
-def candidates(store: Store, req: Requirement) -> list[Match]:
+def candidates(store: Store, req: Requirement, *, to_measure: bool = False) -> list[Match]:
     """The single parts that meet the requirement, best first (value error, grade, spare, bin).
 
     The SQL pre-filter takes the capacitance window and the indexed per-part filters; every row is
-    then checked exactly with :func:`check_single`.
+    then checked exactly with :func:`check_single`. With ``to_measure`` (a requirement with a
+    tolerance only), the parts whose tolerance is not marked but whose nominal is in the window:
+    no proven matches, parts to measure.
     """
     lo, hi = req.value_window()
-    where, params = _where(req, float(lo), float(hi), strict=True, single=True)
+    if to_measure:
+        if req.tol_pct is None:
+            return []
+        where, params = _where(replace(req, tol_pct=None), float(lo), float(hi), strict=True, single=True)
+        where.append("(p.tol_minus IS NULL OR p.tol_plus IS NULL)")
+    else:
+        where, params = _where(req, float(lo), float(hi), strict=True, single=True)
     sql = (f"SELECT * FROM ({_CANDIDATE_SELECT} WHERE {' AND '.join(where)})"
            " WHERE COALESCE(on_hand, 0) - reserved >= ?")
     target, qty = req.capacitance_pf, req.qty
@@ -220,7 +232,9 @@ def candidates(store: Store, req: Requirement) -> list[Match]:
     for bin_id, bin_key, location, on_hand, decoded, settled, reserved in store.db.conn.execute(
             sql, (*params, qty)):
         part = Stocked(bin_id, bin_key, location, on_hand, int(reserved), stored_marking(decoded, settled))
-        verdict = check_single(part, req)
+        if to_measure and tolerance_pct(part.marking) is not None:
+            continue
+        verdict = check_single(part, req, to_measure=to_measure)
         if verdict.ok:
             c = part.marking.capacitance_pf
             found.append(Match(bin_id, bin_key, location, part.marking.text, c, part.available,
@@ -255,7 +269,7 @@ _POOL_SQL = (
     "SELECT p.capacitance_pf, p.bin_id,"
     " CASE WHEN p.tol_unit = 'pF' THEN p.tol_minus * 100.0 / p.capacitance_pf ELSE p.tol_minus END,"
     " CASE WHEN p.tol_unit = 'pF' THEN p.tol_plus * 100.0 / p.capacitance_pf ELSE p.tol_plus END,"
-    " p.tempco_ppm_per_k, COALESCE(p.tempco_tol_ppm_per_k, 0.0), p.voltage_v,"
+    " p.tempco_ppm_per_k, p.tempco_tol_ppm_per_k, p.voltage_v,"
     " s.available, p.family, p.safety_class IS NOT NULL"
     " FROM parts p JOIN bin_stock s ON s.bin_id = p.bin_id"
     " WHERE p.capacitance_pf > 0 AND s.available > 0"
@@ -273,6 +287,12 @@ def _pool_rows(store: Store) -> tuple[list[tuple[Any, ...]], dict[Any, combining
     return cached[1], cached[2]
 
 
+def _alpha_tol(alpha: float | None, tol: float | None) -> float:
+    if tol is not None:
+        return tol
+    return 0.0 if alpha is None else float(assumed_tempco_tol(Decimal(str(alpha))))
+
+
 class _PairSearch:
     """Pairs for one requirement: a float index first, then exact checks (cached per part and voltage)."""
 
@@ -286,12 +306,13 @@ class _PairSearch:
 
     def _index(self) -> combining.PairIndex:
         req = self.req
-        signature = (req.family, req.needed_safety() is not None, req.qty)
+        signature = (req.family, req.is_mains(), req.qty)
         rows, indexes = _pool_rows(self.store)
         if signature not in indexes:
-            qty, family, safety = req.qty, req.family, req.needed_safety() is not None
+            qty, family, safety = req.qty, req.family, req.is_mains()
+            # an α with no marked tolerance takes the one the exact check assumes (never 0)
             indexes[signature] = combining.PairIndex(
-                (c, bin_id, t_minus, t_plus, alpha, alpha_tol, volts, available >= 2 * qty)
+                (c, bin_id, t_minus, t_plus, alpha, _alpha_tol(alpha, alpha_tol), volts, available >= 2 * qty)
                 for c, bin_id, t_minus, t_plus, alpha, alpha_tol, volts, available, fam, has_safety in rows
                 if available >= qty and (family is None or fam == family) and (has_safety or not safety))
         return indexes[signature]
@@ -351,6 +372,37 @@ class _PairSearch:
                 f"{format_capacitance(b.marking.capacitance_pf)} ({b.bin_key})")
 
 
+def _pair_tempco(kind: str, c1: Decimal, d1: Any, c2: Decimal, d2: Any, req: Requirement,
+                 reasons: list[str]) -> tuple[Decimal | None, Verdict | None]:
+    """The pair's net tempco, and a refusal when it misses the window (reasons appended to).
+
+    An unmarked tolerance on α takes the one assumed everywhere (never 0), and the reason says so.
+    """
+    a1 = d1.tempco_ppm_per_k if d1 else None
+    a2 = d2.tempco_ppm_per_k if d2 else None
+    net = combining.pair_tempco(kind, c1, a1, c2, a2) if a1 is not None and a2 is not None else None  # type: ignore[arg-type]
+    window = req.tempco_window()
+    if window is None:
+        return net, None
+    if net is None:
+        return None, Verdict(False, ("a part has no linear tempco",), "tempco")
+    t1, t2 = tempco_tolerance(d1), tempco_tolerance(d2)
+    spread = combining.pair_tempco_spread(kind, c1, t1, c2, t2)  # type: ignore[arg-type]
+    assumed = [f"{d.code} ±{fmt(t)} ppm/K assumed ({assumed_tempco_tolerance(d.tempco_ppm_per_k)[1]})"
+               for d, t in ((d1, t1), (d2, t2)) if d.tempco_tol_ppm_per_k is None]
+    if assumed:
+        reasons.append("tolerance on α not marked: " + "; ".join(dict.fromkeys(assumed)))
+    if net - spread < window[0] or net + spread > window[1]:
+        return net, Verdict(False, (f"net tempco {fmt(net)}±{fmt(spread)} ppm/K outside {window_text(window)}",)
+                            + tuple(reasons[-1:] if assumed else ()), "tempco")
+    weights = (f"{fmt(c1)}·{fmt(a1)} + {fmt(c2)}·{fmt(a2)}" if kind == "parallel"
+               else f"{fmt(c2)}·{fmt(a1)} + {fmt(c1)}·{fmt(a2)}")
+    mix = f"{d1.code} with {d2.code}: " if d1.code != d2.code else ""
+    reasons.append(f"{mix}net tempco ({weights}) / {fmt(c1 + c2)} = {fmt(net)}±{fmt(spread)} ppm/K, "
+                   f"within {window_text(window)}")
+    return net, None
+
+
 def check_pair(kind: str, a: Stocked, b: Stocked, req: Requirement, *,
                verdict: Any = None) -> Combination | Verdict:
     """Check a pair exactly against every constraint; a :class:`Combination` if it meets them all.
@@ -392,24 +444,9 @@ def check_pair(kind: str, a: Stocked, b: Stocked, req: Requirement, *,
         return Verdict(False, (f"{format_capacitance(value)} is not {format_capacitance(req.capacitance_pf)}",),
                        "value")
     d1, d2 = a.marking.dielectric, b.marking.dielectric
-    a1 = d1.tempco_ppm_per_k if d1 else None
-    a2 = d2.tempco_ppm_per_k if d2 else None
-    net = combining.pair_tempco(kind, c1, a1, c2, a2) if a1 is not None and a2 is not None else None  # type: ignore[arg-type]
-    window = req.tempco_window()
-    if window is not None:
-        if net is None:
-            return Verdict(False, ("a part has no linear tempco",), "tempco")
-        t1 = (d1.tempco_tol_ppm_per_k or Decimal(0)) if d1 else Decimal(0)
-        t2 = (d2.tempco_tol_ppm_per_k or Decimal(0)) if d2 else Decimal(0)
-        spread = combining.pair_tempco_spread(kind, c1, t1, c2, t2)  # type: ignore[arg-type]
-        if net - spread < window[0] or net + spread > window[1]:
-            return Verdict(False, (f"net tempco {fmt(net)}±{fmt(spread)} ppm/K outside {window_text(window)}",),
-                           "tempco")
-        weights = (f"{fmt(c1)}·{fmt(a1)} + {fmt(c2)}·{fmt(a2)}" if kind == "parallel"
-                   else f"{fmt(c2)}·{fmt(a1)} + {fmt(c1)}·{fmt(a2)}")
-        mix = f"{d1.code} with {d2.code}: " if d1.code != d2.code else ""
-        reasons.append(f"{mix}net tempco ({weights}) / {fmt(c1 + c2)} = {fmt(net)}±{fmt(spread)} ppm/K, "
-                       f"within {window_text(window)}")
+    net, failed = _pair_tempco(kind, c1, d1, c2, d2, req, reasons)
+    if failed is not None:
+        return failed
     v1 = v2 = req.working_v
     if req.working_v is not None and kind == "series":
         v1, v2 = combining.series_voltage_split(req.working_v, c1, c2)  # type: ignore[arg-type]
@@ -457,7 +494,10 @@ def _explain(store: Store, req: Requirement, pairs: _PairSearch | None) -> tuple
     for c, checked in groups.items():
         causes: dict[str, list[tuple[Stocked, Verdict]]] = {}
         for part, verdict in checked:
-            causes.setdefault(verdict.failed or "none", []).append((part, verdict))
+            cause = verdict.failed or "none"
+            if cause == "safety":   # each safety reason names its own cause: never group them
+                cause = f"safety: {verdict.reasons[0]}"
+            causes.setdefault(cause, []).append((part, verdict))
         for cause, members in causes.items():
             n = len(members)
             codes = sorted({p.marking.dielectric.code if p.marking.dielectric else "dielectric not marked"
@@ -470,7 +510,10 @@ def _explain(store: Store, req: Requirement, pairs: _PairSearch | None) -> tuple
             bins = ", ".join(p.bin_key for p, _ in members[:5]) + (" …" if n > 5 else "")
             lines.append(f"{n} part{'s' if n > 1 else ''} at {format_capacitance(c)}, {what} "
                          f"(bin{'s' if n > 1 else ''} {bins}): {reason}")
-    if pairs is not None:
+    if req.is_mains():
+        lines.append("no pair may fill an X/Y position: in series on AC the smaller part carries nearly"
+                     " all the voltage, and a pair carries no safety rating (IEC 60384-14)")
+    elif pairs is not None:
         if pairs.nearest_rejected is not None:
             lines.append(pairs.nearest_rejected[1])
         else:
@@ -513,9 +556,10 @@ def find(store: Store, req: Requirement, *, combine: bool = False, limit: int = 
     if limit < 1:
         raise BadValue("--limit", str(limit), "a number of results of 1 or more")
     matches = tuple(candidates(store, req)[:limit])
+    to_measure = tuple(candidates(store, req, to_measure=True)[:limit])
     combos: list[Combination] = []
     search = None
-    if combine:
+    if combine and not req.is_mains():   # never a pair on an X/Y position (see _explain)
         search = _PairSearch(store, req)
         for kind in combining.PAIR_KINDS:
             combos.extend(search.search(kind, limit))
@@ -527,11 +571,11 @@ def find(store: Store, req: Requirement, *, combine: bool = False, limit: int = 
     if not matches and not combos:
         explanation = _explain(store, req, search)
         suggestion = _suggestion(req)
-    return FindResult(req, matches, tuple(combos), explanation, suggestion, _cautions(req, matches))
+    return FindResult(req, matches, tuple(combos), explanation, suggestion, _cautions(req, matches),
+                      to_measure)
 
 
-__all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION", "SAFETY_SUBSTITUTES",
+__all__ = ["DEFAULT_BUY_TOL_PCT", "NOMINAL_MATCH_PCT", "SAFETY_CAUTION",
            "Combination", "FindResult", "Match", "PairPart", "Requirement", "Stocked", "Verdict",
            "build_requirement", "candidates", "check_pair", "check_part", "check_single", "check_tempco",
-           "check_value", "find", "linear_tempco_parts", "parse_tempco_window", "safety_classes",
-           "safety_covers"]
+           "check_value", "find", "linear_tempco_parts", "parse_tempco_window"]

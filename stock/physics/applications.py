@@ -18,7 +18,11 @@ PATH``, or ``stock-grading.toml`` next to the database), read by :func:`load_rul
 - ``min_capacitance_pf``: below it the part is ``unfit`` (a reservoir needs capacitance).
 - ``safety``: ``None``, or ``"X/Y"``: only a part carrying an IEC 60384-14 class may be fit.
   ``position`` says which: ``"line-line"`` (X or Y), ``"line-earth"`` (Y only), ``"any"`` (the
-  default: a part must serve either, so an X-only part is at best ``marginal``).
+  default: a safety part is graded for the positions it may take, and the reason names them; a
+  ``--position`` given to ``grade`` or ``find`` overrides it).
+- ``needs_marked_tolerance``: ``false`` (the default) grades a part whose tolerance is not marked
+  on its stability and carries "tolerance not marked" as a doubt; ``true`` makes it ``unknown``
+  until the tolerance is marked or the value measured (a shop that wants proof).
 
 The numbers are common practice of the trade, no published source, unless a comment says so.
 A Y part may take an X position: Y parts are tested to a higher impulse voltage and must fail
@@ -48,7 +52,8 @@ from stock.errors import BadValue
 OVERRIDE_FILE_NAME = "stock-grading.toml"
 WORDS = ("fit", "marginal", "unfit")
 KINDS: tuple[str, ...] = ("ceramic-1", "ceramic-2") + tuple(f for f in FAMILIES if f != "ceramic")
-POSITIONS = ("any", "line-line", "line-earth")
+POSITIONS = ("line-line", "line-earth")   # the mains positions a build may name
+_TABLE_POSITIONS = ("any",) + POSITIONS
 
 _FILMS = ("polystyrene", "polypropylene", "polyester", "polyethylene-naphthalate",
           "polyphenylene-sulfide", "polycarbonate", "ptfe")
@@ -163,6 +168,7 @@ class Rule:
     min_capacitance_pf: Decimal | None
     safety: str | None
     position: str
+    needs_marked_tolerance: bool = False
 
     def kind_word(self, kind: str) -> str:
         return self.kinds.get(kind, "unfit")
@@ -185,7 +191,7 @@ class Rules:
 
 _NUMBER_KEYS = ("drift_fit_pct", "drift_marginal_pct", "total_fit_pct", "total_marginal_pct")
 _KEYS = (("description", "sides", "kinds", "polarised", "value_critical", "min_capacitance_pf",
-          "safety", "position") + _NUMBER_KEYS)
+          "safety", "position", "needs_marked_tolerance") + _NUMBER_KEYS)
 
 
 def _decimal(value: Any, what: str) -> Decimal:
@@ -212,8 +218,9 @@ def _build(name: str, row: dict[str, Any], where: str) -> Rule:
     for kind, word in row["kinds"].items():
         _choice(kind, KINDS, f"{at} kinds")
         kinds[kind] = _choice(word, WORDS, f"{at} kinds.{kind}")
-    if not isinstance(row["value_critical"], bool):
-        raise BadValue(f"{at} value_critical", str(row["value_critical"]), "true or false")
+    for flag in ("value_critical", "needs_marked_tolerance"):
+        if not isinstance(row.get(flag, False), bool):
+            raise BadValue(f"{at} {flag}", str(row[flag]), "true or false")
     minimum = row["min_capacitance_pf"]
     numbers = {k: _decimal(row[k], f"{at} {k}") for k in _NUMBER_KEYS}
     for stem in ("drift", "total"):
@@ -228,7 +235,8 @@ def _build(name: str, row: dict[str, Any], where: str) -> Rule:
         value_critical=row["value_critical"],
         min_capacitance_pf=None if minimum in (None, "", 0) else _decimal(minimum, f"{at} min_capacitance_pf"),
         safety=None if row["safety"] in (None, "", "none") else _choice(row["safety"], ("X/Y",), f"{at} safety"),
-        position=_choice(row["position"], POSITIONS, f"{at} position"),
+        position=_choice(row["position"], _TABLE_POSITIONS, f"{at} position"),
+        needs_marked_tolerance=row.get("needs_marked_tolerance", False),
     )
 
 
@@ -256,7 +264,7 @@ def table_version(table: dict[str, dict[str, Any]], model_version: str) -> str:
     return hashlib.sha256(text.encode()).hexdigest()[:16]
 
 
-MODEL_VERSION = "grading-1"  # bump when the budget arithmetic changes
+MODEL_VERSION = "grading-2"  # bump when the budget arithmetic changes
 
 
 def load_rules(path: str | Path | None = None, *, db_path: str | Path | None = None) -> Rules:

@@ -271,13 +271,27 @@ _SLACK = 1e-9  # relative margin so float rounding never drops a pair the exact 
 _EMPTY = (1.0, 0.0)
 
 
+def _down(x: float) -> float:
+    """x moved a little towards −∞ (a lower bound loosened, whatever its sign)."""
+    return x - _SLACK * (abs(x) + 1.0)
+
+
+def _up(x: float) -> float:
+    """x moved a little towards +∞ (an upper bound loosened, whatever its sign)."""
+    return x + _SLACK * (abs(x) + 1.0)
+
+
 def _linear(a: float, b: float, lo: float, hi: float) -> tuple[float, float]:
-    """Narrow [lo, hi] to the x with a·x + b ≤ 0."""
+    """Narrow [lo, hi] to the x with a·x + b ≤ 0, the bound loosened by the slack either way.
+
+    With a > 0 the bound −b/a is an upper one, with a < 0 a lower one: each is moved outward, so
+    float rounding never drops an x the exact check keeps (a pair exactly on the window's edge).
+    """
     margin = _SLACK * (abs(b) + 1.0)
     if a > 0:
-        return lo, min(hi, (-b + margin) / a)
+        return lo, min(hi, _up((-b + margin) / a))
     if a < 0:
-        return max(lo, (-b - margin) / a), hi
+        return max(lo, _down((-b + margin) / a)), hi
     return (lo, hi) if b <= margin else _EMPTY
 
 
@@ -319,12 +333,12 @@ def _tolerance_interval(parallel: bool, c1: float, m1: float, p1: float, m2: flo
     if f_lo <= 0:
         return _EMPTY
     if parallel:  # lo1 + C₂·f_lo ≥ lo and hi1 + C₂·f_hi ≤ hi
-        return max(x_lo, (lo - lo1) / f_lo * (1 - _SLACK)), min(x_hi, (hi - hi1) / f_hi * (1 + _SLACK))
+        return max(x_lo, _down((lo - lo1) / f_lo)), min(x_hi, _up((hi - hi1) / f_hi))
     if lo1 <= lo:  # the low corner of a series pair is below either part's low limit
         return _EMPTY
-    x_lo = max(x_lo, lo1 * lo / (lo1 - lo) / f_lo * (1 - _SLACK))
+    x_lo = max(x_lo, _down(lo1 * lo / (lo1 - lo) / f_lo))
     if hi1 > hi:
-        x_hi = min(x_hi, hi1 * hi / (hi1 - hi) / f_hi * (1 + _SLACK))
+        x_hi = min(x_hi, _up(hi1 * hi / (hi1 - hi) / f_hi))
     return x_lo, x_hi
 
 

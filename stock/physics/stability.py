@@ -11,33 +11,40 @@ confirmed by a published page, ``# common practice, no published source`` a rule
   hours since their last heating above the Curie point (:data:`AGEING_PER_DECADE_PCT`).
   Counted from the 1000 h referee time at which makers state the tolerance
   (:data:`AGEING_REFERENCE_HOURS`): 10 years ≈ 87 660 h ≈ 1.94 decades past it.
-- DC bias: Class 2 ceramics lose capacitance under DC; :func:`dc_bias_loss_pct` is a rough linear
-  model (loss grows with working/rated voltage). A datasheet curve always overrides it.
+- DC bias: Class 2 ceramics lose capacitance under DC; :func:`dc_bias_loss_pct` is a rough model
+  by case size and the working/rated voltage ratio (steep at first, then flattening). A datasheet
+  curve always overrides it.
 - Derating: :data:`DERATING` says what fraction of the rated voltage each family customarily
   carries.
 
 >>> ageing_loss_pct("X7R", 2, Decimal(10))
-Decimal('3.886')
->>> dc_bias_loss_pct("X7R", Decimal(100000), Decimal(25), Decimal(50))
-Decimal('20.0')
+Decimal('7.772')
+>>> dc_bias_loss_pct("X7R", Decimal(10_000_000), Decimal(5), Decimal(10), "0805")
+Decimal('50.2')
+>>> dc_bias_loss_pct("X7R", Decimal(10_000_000), Decimal(5), Decimal(10), "1206")
+Decimal('21.2')
 """
 
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass, replace
 from decimal import Decimal
 from typing import Any
 
 from stock.decoded import Dielectric
+from stock.markings.ceramic_codes import assumed_tempco_tolerance
+from stock.markings.families import FAMILY_FIGURES
 from stock.units import format_number, format_temperature_range
 
 REFERENCE_C = Decimal(25)     # the reference temperature of every tempco and window
 HOURS_PER_YEAR = Decimal("8766")  # 365.25 days × 24 h
 
-# Class 2 tolerances are stated at a referee time of 1000 h after the last heating (soldering
-# resets the clock): from memory of EIA-521 / IEC 60384-9 ageing annex practice (S38 describes
-# the logarithmic law and de-ageing). Ageing before that time is inside the tolerance.
+# Class 2 tolerances are stated at a referee time of 1000 h after the last heating (EIA-198-1F;
+# from memory of EIA-521 / IEC 60384-9 ageing annex practice, S38 describes the logarithmic law
+# and de-ageing). Soldering resets the clock: before 1000 h the part sits above its nominal
+# (de-aged, see DEAGEING_DECADES), after it the ageing loss accrues below.
 AGEING_REFERENCE_HOURS = Decimal(1000)
 
 
@@ -46,8 +53,8 @@ class FamilyDrift:
     """Typical temperature behaviour of a family named in words (not a ceramic code).
 
     Either a linear tempco (``tempco_ppm_per_k`` ± ``tempco_tol_ppm_per_k``) or a change window
-    (``change_minus_pct``/``change_plus_pct``) over ``temp_min_c``…``temp_max_c``. ``linear`` says
-    whether a window may be scaled down to a narrower range (roughly linear curve) or applies
+    (``change_minus_pct``/``change_plus_pct``) over ``temp_min_c``…``temp_max_c``, or both. ``linear``
+    says whether a window may be scaled down to a narrower range (roughly linear curve) or applies
     whole (non-linear: the cold end of an electrolytic).
     """
 
@@ -62,66 +69,12 @@ class FamilyDrift:
     source: str = ""
 
 
-def _d(text: str) -> Decimal:
-    return Decimal(text)
-
-
-# Typical temperature figures per family. Sources are the keys of the shared reference's list
-# (capacitor-codes.md §8a): S32 = WIMA film comparison table, S33 polystyrene article, S34 silver
-# mica overview, S68 film capacitor text.
+# The one family table lives with the names (stock.markings.families, each figure sourced there);
+# this is the same table in the shape the budget reads.
 FAMILY_DRIFT: dict[str, FamilyDrift] = {
-    # S33 gives −125 ppm/K, memory −100…−200: −150 ± 50 covers both; max +85 °C (S70)
-    "polystyrene": FamilyDrift("polystyrene", _d("-40"), _d("85"), _d("-150"), _d("50"),
-                               source="S33 (−125 ppm/K) and memory (−100…−200 ppm/K)"),
-    # linear negative (S68); −200 ± 100 ppm/K from memory; S32 says ±2.5 % over −55…+105 °C
-    "polypropylene": FamilyDrift("polypropylene", _d("-55"), _d("105"), _d("-200"), _d("100"),
-                                 source="S68 (linear, negative); α from memory"),
-    # S32: ±5 % over −55…+125 °C; positive and only roughly linear (memory)
-    "polyester": FamilyDrift("polyester", _d("-55"), _d("125"), change_minus_pct=_d("5"),
-                             change_plus_pct=_d("5"), source="S32 (±5 % over range)"),
-    # S32: ±5 % over −55…+125 °C
-    "polyethylene-naphthalate": FamilyDrift("polyethylene-naphthalate", _d("-55"), _d("125"),
-                                            change_minus_pct=_d("5"), change_plus_pct=_d("5"),
-                                            source="S32 (±5 % over range)"),
-    # S32: ±1.5 % over −55…+140 °C, very flat
-    "polyphenylene-sulfide": FamilyDrift("polyphenylene-sulfide", _d("-55"), _d("140"),
-                                         change_minus_pct=_d("1.5"), change_plus_pct=_d("1.5"),
-                                         source="S32 (±1.5 % over −55…+140 °C)"),
-    # from memory: small and flat, 0…+100 ppm/K, taken as 0 ± 100
-    "polycarbonate": FamilyDrift("polycarbonate", _d("-55"), _d("125"), _d("0"), _d("100"),
-                                 source="from memory (0…+100 ppm/K)"),
-    # S68: +1/−3 % over the range; range −55…+125 °C from memory
-    "ptfe": FamilyDrift("ptfe", _d("-55"), _d("125"), change_minus_pct=_d("3"),
-                        change_plus_pct=_d("1"), source="S68 (+1/−3 % over range)"),
-    # S34: +35…+75 ppm/K, about +50 on average: +55 ± 20 covers the span
-    "mica": FamilyDrift("mica", _d("-55"), _d("125"), _d("55"), _d("20"),
-                        source="S34 (+35…+75 ppm/K)"),
-    # from memory: glass (CY) +140 ± 25 ppm/K
-    "glass": FamilyDrift("glass", _d("-55"), _d("125"), _d("140"), _d("25"),
-                         source="from memory (+140 ± 25 ppm/K)"),
-    # common practice, no published source: paper/oil about ±10 % over −40…+85 °C, non-linear
-    "paper": FamilyDrift("paper", _d("-40"), _d("85"), change_minus_pct=_d("10"),
-                         change_plus_pct=_d("10"), linear=False,
-                         source="common practice, no published source"),
-    # S32: ±10 % over −55…+125 °C, roughly linear and positive
-    "tantalum": FamilyDrift("tantalum", _d("-55"), _d("125"), change_minus_pct=_d("10"),
-                            change_plus_pct=_d("10"), source="S32 (±10 % over −55…+125 °C)"),
-    # from memory: similar to MnO2, ±10…20 %; the wider figure taken
-    "tantalum-polymer": FamilyDrift("tantalum-polymer", _d("-55"), _d("105"),
-                                    change_minus_pct=_d("20"), change_plus_pct=_d("20"),
-                                    source="from memory (±10…20 %)"),
-    # from memory: −10…−20 % at −40 °C, +5…+10 % at +105 °C; non-linear (cold end)
-    "aluminium-electrolytic": FamilyDrift("aluminium-electrolytic", _d("-40"), _d("105"),
-                                          change_minus_pct=_d("20"), change_plus_pct=_d("10"),
-                                          linear=False, source="from memory (−20 % cold, +10 % hot)"),
-    # from memory: as aluminium electrolytics
-    "bipolar-electrolytic": FamilyDrift("bipolar-electrolytic", _d("-40"), _d("85"),
-                                        change_minus_pct=_d("20"), change_plus_pct=_d("10"),
-                                        linear=False, source="from memory (as aluminium)"),
-    # from memory: double-layer parts about ±20 % over −25…+70 °C, capacitance falls in the cold
-    "double-layer": FamilyDrift("double-layer", _d("-25"), _d("70"), change_minus_pct=_d("20"),
-                                change_plus_pct=_d("10"), linear=False,
-                                source="from memory (about −20/+10 %)"),
+    name: FamilyDrift(name, f.temp_min_c, f.temp_max_c, f.tempco, f.tempco_tol, f.change_minus_pct,
+                      f.change_plus_pct, f.linear, f.source)
+    for name, f in FAMILY_FIGURES.items() if name != "ceramic"
 }
 
 def temperature_figures(dielectric) -> FamilyDrift | None:
@@ -132,7 +85,7 @@ def temperature_figures(dielectric) -> FamilyDrift | None:
 
     >>> from stock.decoded import Dielectric
     >>> temperature_figures(Dielectric("mica", "mica")).tempco_ppm_per_k
-    Decimal('55')
+    Decimal('40')
     """
     if dielectric is None:
         return None
@@ -151,46 +104,53 @@ def temperature_figures(dielectric) -> FamilyDrift | None:
 
 
 def assumed_tempco_tol(alpha: Decimal) -> Decimal:
-    """A tempco tolerance for an α given without one (an old name: NP0, N750, P100).
+    """A tempco tolerance for an α given without one (an old name: N750, P100).
 
-    Capacitor-codes.md §1d: the old names map to α only. The widest tolerance customary for that α
-    in EIA-198 codes is taken. Common practice, no published source.
+    The one table: :func:`stock.markings.ceramic_codes.assumed_tempco_tolerance` (the tolerance of
+    the EIA-198 code the old name is sold as).
 
-    >>> assumed_tempco_tol(Decimal(0)), assumed_tempco_tol(Decimal(-750)), assumed_tempco_tol(Decimal(-1500))
-    (Decimal('60'), Decimal('120'), Decimal('250'))
+    >>> assumed_tempco_tol(Decimal(-150)), assumed_tempco_tol(Decimal(-750)), assumed_tempco_tol(Decimal(-2200))
+    (Decimal('30'), Decimal('120'), Decimal('500'))
     """
-    size = abs(alpha)
-    return Decimal(60) if size <= 150 else Decimal(120) if size <= 750 else Decimal(250)
+    return assumed_tempco_tolerance(alpha)[0]
 
 
-# Class 2/3 ceramic ageing, % capacitance lost per decade of hours. S35 (RCD FAQ, maxima);
-# disagreements: S36 gives X7R ~2.5 %, X5R 5–7 %; S37 gives X7R 1–3 %. The S35 maxima are used.
+# Class 2/3 ceramic ageing, % capacitance lost per decade of hours. A worst-case budget takes the
+# high end of the published ranges: X7R/X5R 1.5…4 %, Z5U 4…6 %, Y5V 6…10 % per decade-hour (maker
+# ageing notes, S36, S37, S38); S35 gives maxima X7R 2, X5R 2.5, Z5U 7, Y5V 7 %. The larger of the two
+# is used: X7R 4, X5R 4, Z5U 7 (S35), Y5V 10.
 AGEING_PER_DECADE_PCT: dict[str, Decimal] = {
-    "X7R": Decimal("2"),    # S35
-    "X5R": Decimal("2.5"),  # S35
-    "Z5U": Decimal("7"),    # S35
-    "Y5V": Decimal("7"),    # S35
+    "X7R": Decimal("4"),    # top of the published 1.5…4 % range
+    "X5R": Decimal("4"),    # top of the published 1.5…4 % range (S36 says 5–7 %: see below)
+    "Z5U": Decimal("7"),    # S35 maximum, above the 4…6 % range
+    "Y5V": Decimal("10"),   # top of the published 6…10 % range
 }
 
 # By the EIA-198 change letter, for Class 2 codes not listed above: windows up to ±15 % age like
-# X5R, wider windows like the high-K Z5U/Y5V. From memory of maker ageing tables (S36, S37 ranges).
+# X7R/X5R, wider windows like the high-K Z5U/Y5V. From memory of maker ageing tables (S36, S37).
 AGEING_BY_CHANGE_LETTER_PCT: dict[str, Decimal] = {
-    "A": Decimal("2.5"), "B": Decimal("2.5"), "C": Decimal("2.5"), "D": Decimal("2.5"),
-    "E": Decimal("2.5"), "F": Decimal("2.5"), "P": Decimal("2.5"), "R": Decimal("2.5"),
-    "L": Decimal("2.5"),
-    "S": Decimal("5"),      # ±22 %: between the two groups (from memory)
-    "T": Decimal("5"),      # +22/−33 % (from memory)
-    "U": Decimal("7"),      # +22/−56 % (as Z5U, S35)
-    "V": Decimal("7"),      # +22/−82 % (as Y5V, S35)
+    "A": Decimal("4"), "B": Decimal("4"), "C": Decimal("4"), "D": Decimal("4"),
+    "E": Decimal("4"), "F": Decimal("4"), "P": Decimal("4"), "R": Decimal("4"),
+    "L": Decimal("4"),
+    "S": Decimal("6"),      # ±22 %: between the two groups (from memory)
+    "T": Decimal("6"),      # +22/−33 % (from memory)
+    "U": Decimal("7"),      # +22/−56 % (as Z5U)
+    "V": Decimal("10"),     # +22/−82 % (as Y5V)
 }
-AGEING_UNKNOWN_CLASS2_PCT = Decimal("7")  # a Class 2 part of unknown code: the worst listed rate
+AGEING_UNKNOWN_CLASS2_PCT = Decimal("10")  # a Class 2 part of unknown code: the worst listed rate
+
+# After soldering (heat above the Curie point) a Class 2 part is de-aged: its value starts above
+# the 1000 h nominal and ages down. Maker post-solder limits of about +18/−10 % for a ±10 % X7R (from
+# memory of maker ageing notes, S38) put it up to about 8 % above nominal: taken as the ageing rate
+# over the two decades from 10 h after soldering to the 1000 h referee time (8 % at X7R's 4 %).
+DEAGEING_DECADES = Decimal(2)
 
 
 def ageing_rate_pct(code: str | None, klass: int | None) -> Decimal:
     """% per decade-hour a ceramic loses with age; 0 for Class 1 (S35: C0G none).
 
     >>> ageing_rate_pct("X7R", 2), ageing_rate_pct("X6S", 2), ageing_rate_pct("C0G", 1)
-    (Decimal('2'), Decimal('5'), Decimal('0'))
+    (Decimal('4'), Decimal('6'), Decimal('0'))
     """
     if klass != 2:
         return Decimal(0)
@@ -218,35 +178,86 @@ def ageing_loss_pct(code: str | None, klass: int | None, years: Decimal) -> Deci
     """Capacitance lost to ageing over a service life, in % (Class 2 only).
 
     >>> ageing_loss_pct("Y5V", 2, Decimal(10))
-    Decimal('13.601')
+    Decimal('19.430')
     """
     return ageing_rate_pct(code, klass) * ageing_decades(years)
 
 
-# DC-bias loss of Class 2 MLCCs at the full rated voltage, by capacitance. A rough model, from the
-# spread in S41 (≤ 10 nF negligible at 2× margin; 10 µF 0805 loses 50 % at half rated), S42 (0603
-# 4.7 nF 100 V keeps 30–50 % at rated: low authority) and S72 (35–65 % loss at rated, general).
-# Common practice, no published source for the exact breakpoints. Case size is unknown from a
-# marking, so the figures lean to the small (worse) cases.
-DC_BIAS_LOSS_AT_RATED_PCT: tuple[tuple[Decimal, Decimal], ...] = (
-    (Decimal(10_000), Decimal(20)),        # ≤ 10 nF
-    (Decimal(1_000_000), Decimal(40)),     # ≤ 1 µF
-    (Decimal("Infinity"), Decimal(65)),    # larger: the top of S72's range
-)
+# DC-bias loss of Class 2 MLCCs at the full rated voltage, by EIA case size (inch code). From memory
+# of published maker DC-bias curves for high-capacitance X7R/X5R parts, anchored to S41 (10 µF
+# 10 V X7R at 5 V: 0805 keeps 50 %, 1206 keeps 93 %) and S72 (35–65 % loss at rated, worse in small
+# cases). The 0805 figure meets S41's point; the larger cases stay well above S41's 1206 point
+# (conservative: one part's curve is not every maker's). Not a published table.
+DC_BIAS_LOSS_BY_CASE_PCT: dict[str, Decimal] = {
+    "01005": Decimal(85), "0201": Decimal(85),
+    "0402": Decimal(80),
+    "0603": Decimal(75),
+    "0805": Decimal(71),    # S41: 50 % lost at half rated (71 × √0.5 ≈ 50)
+    "1206": Decimal(30),    # S41's part keeps 93 % at half rated; 30 keeps a wide margin
+    "1210": Decimal(25),
+    "1808": Decimal(22), "1812": Decimal(20),
+    "2220": Decimal(15), "2225": Decimal(15),
+}
+# Case unknown: the worst small case for the value (conservative). Parts of 10 nF or less lose
+# little in any case (S41: negligible at a 2× margin): 20 % at rated whatever the case.
+DC_BIAS_UNKNOWN_CASE_PCT = Decimal(80)
+DC_BIAS_SMALL_VALUE_PF = Decimal(10_000)
+DC_BIAS_SMALL_VALUE_PCT = Decimal(20)
 # High-K codes (change letters U, V: Z5U, Y5V) lose more: from memory, 70–90 % at rated.
 DC_BIAS_HIGH_K_AT_RATED_PCT = Decimal(80)
-DC_BIAS_LIMITS = ("a rough linear model for Class 2 MLCCs (loss ∝ working/rated voltage);"
-                  " real loss depends on case size, rated voltage and maker — a datasheet curve"
-                  " overrides it")
+DC_BIAS_LIMITS = ("a rough model for Class 2 MLCCs by case size, loss ∝ √(working/rated) up to the"
+                  " case's loss at rated (from memory of published curves, anchored to two data points);"
+                  " real loss depends on maker and part — a datasheet curve overrides it")
+
+# metric case codes (mm) with an M or "metric": 1005M = 0402 inch (EIA/IEC 60115 pairs, from memory)
+_METRIC = {"0402": "01005", "0603": "0201", "1005": "0402", "1608": "0603", "2012": "0805", "3216": "1206",
+           "3225": "1210", "4520": "1808", "4532": "1812", "5750": "2220", "5763": "2225"}
+_METRIC_CASE = re.compile(r"(\d{4})\s*(?:M|metric)", re.IGNORECASE)
+
+
+def read_case_size(text: str | None) -> str | None:
+    """The EIA inch case code a package text names (``0805``, ``SMD 1206``, ``2012M``); None if none.
+
+    >>> read_case_size("0805"), read_case_size("SMD 1206"), read_case_size("3216 metric"), read_case_size("TO-220")
+    ('0805', '1206', '1206', None)
+    """
+    if not text:
+        return None
+    metric = _METRIC_CASE.search(text)
+    if metric and metric[1] in _METRIC:
+        return _METRIC[metric[1]]
+    found = re.search(r"(?<!\d)(01005|0201|0402|0603|0805|1206|1210|1808|1812|2220|2225)(?!\d)", text)
+    return found[1] if found else None
+
+
+def dc_bias_loss_at_rated_pct(code: str | None, capacitance_pf: Decimal | None,
+                              case_size: str | None = None) -> tuple[Decimal, str]:
+    """A Class 2 MLCC's DC-bias loss at its full rated voltage, in %, and what it was taken from.
+
+    >>> dc_bias_loss_at_rated_pct("X7R", Decimal(10_000_000), "1206")
+    (Decimal('30'), 'case 1206')
+    >>> dc_bias_loss_at_rated_pct("X7R", Decimal(10_000_000))
+    (Decimal('80'), 'case size unknown: the worst small case assumed')
+    """
+    key = (code or "").upper()
+    high_k = len(key) == 3 and key[2] in "UV"
+    if case_size in DC_BIAS_LOSS_BY_CASE_PCT:
+        loss, basis = DC_BIAS_LOSS_BY_CASE_PCT[case_size], f"case {case_size}"
+    else:
+        loss, basis = DC_BIAS_UNKNOWN_CASE_PCT, "case size unknown: the worst small case assumed"
+    if capacitance_pf is not None and capacitance_pf <= DC_BIAS_SMALL_VALUE_PF:
+        loss, basis = min(loss, DC_BIAS_SMALL_VALUE_PCT), "10 nF or less (S41: little loss)"
+    if high_k:
+        loss, basis = max(loss, DC_BIAS_HIGH_K_AT_RATED_PCT), f"a high-K {key}"
+    return loss, basis
 
 
 def dc_bias_loss_pct(code: str | None, capacitance_pf: Decimal | None, working_v: Decimal,
-                     rated_v: Decimal) -> Decimal:
+                     rated_v: Decimal, case_size: str | None = None) -> Decimal:
     """Approximate % of capacitance a Class 2 MLCC loses at a DC working voltage.
 
-    loss = loss_at_rated × min(working / rated, 1). Linear is conservative at low bias against the
-    S41 data point (1206 10 µF keeps 93 % at half rated) and about right for small cases (0805 keeps
-    50 %). See :data:`DC_BIAS_LIMITS`.
+    loss = loss_at_rated(case) × √min(working / rated, 1): steep at first, then flattening, as the
+    published curves run. See :data:`DC_BIAS_LIMITS` and :func:`dc_bias_loss_at_rated_pct`.
 
     >>> dc_bias_loss_pct("Y5V", Decimal(100000), Decimal(16), Decimal(16))
     Decimal('80')
@@ -254,13 +265,10 @@ def dc_bias_loss_pct(code: str | None, capacitance_pf: Decimal | None, working_v
     if rated_v <= 0:
         raise ValueError(f"rated voltage must be positive, got {rated_v}")
     ratio = min(max(working_v, Decimal(0)) / rated_v, Decimal(1))
-    key = (code or "").upper()
-    if len(key) == 3 and key[2] in "UV":
-        at_rated = DC_BIAS_HIGH_K_AT_RATED_PCT
-    else:
-        cap = capacitance_pf if capacitance_pf is not None else Decimal("Infinity")
-        at_rated = next(loss for limit, loss in DC_BIAS_LOSS_AT_RATED_PCT if cap <= limit)
-    return (at_rated * ratio).quantize(Decimal("0.1")) if ratio != 1 else at_rated
+    at_rated, _ = dc_bias_loss_at_rated_pct(code, capacitance_pf, case_size)
+    if ratio == 1:
+        return at_rated
+    return (at_rated * ratio.sqrt()).quantize(Decimal("0.1"))
 
 
 @dataclass(frozen=True)
@@ -313,6 +321,43 @@ def derating_for(family: str | None, klass: int | None, rated_v: Decimal | None 
                   "polyphenylene-sulfide", "polycarbonate", "ptfe", "paper"):
         return _FILM_DERATING
     return _DEFAULT_DERATING
+
+
+@dataclass(frozen=True)
+class HotDerating:
+    """Above ``knee_c`` the rated voltage itself falls, linearly, to ``fraction_at_end`` of it at ``end_c``."""
+
+    knee_c: Decimal
+    end_c: Decimal
+    fraction_at_end: Decimal
+    source: str
+
+
+# The families whose rated voltage falls when hot (the "category voltage"). MnO₂ tantalum: about
+# two thirds of rated at +125 °C from +85 °C (S39, S73: common practice); polymer tantalum the same
+# above +105 °C (from memory of maker notes, S40 stops at 105 °C); film parts rated at +85 °C
+# (from memory: polypropylene about 70 % at +105 °C, polyester about half at +125 °C).
+HOT_DERATING: dict[str, HotDerating] = {
+    "tantalum": HotDerating(Decimal(85), Decimal(125), Decimal(2) / Decimal(3), "S39, S73 (common practice)"),
+    "tantalum-polymer": HotDerating(Decimal(105), Decimal(125), Decimal(2) / Decimal(3), "from memory"),
+    "polypropylene": HotDerating(Decimal(85), Decimal(105), Decimal("0.7"), "from memory"),
+    "polyester": HotDerating(Decimal(85), Decimal(125), Decimal("0.5"), "from memory"),
+}
+
+
+def category_fraction(family: str | None, temp_max_c: Decimal) -> tuple[Decimal, HotDerating | None]:
+    """The fraction of its rated voltage a part may carry at all at ``temp_max_c`` (1 below the knee).
+
+    >>> category_fraction("tantalum", Decimal(125))[0].quantize(Decimal("0.001")), category_fraction("tantalum", Decimal(85))[0]
+    (Decimal('0.667'), Decimal('1'))
+    >>> category_fraction("tantalum", Decimal(105))[0].quantize(Decimal("0.001"))
+    Decimal('0.833')
+    """
+    rule = HOT_DERATING.get(family or "")
+    if rule is None or temp_max_c <= rule.knee_c:
+        return Decimal(1), None
+    share = min((temp_max_c - rule.knee_c) / (rule.end_c - rule.knee_c), Decimal(1))
+    return 1 - share * (1 - rule.fraction_at_end), rule
 
 
 # Shelf-life cautions per family: not in the budget, printed with the grade.
@@ -474,5 +519,6 @@ __all__ = [
     "AGEING_PER_DECADE_PCT", "AGEING_REFERENCE_HOURS", "DC_BIAS_LIMITS", "DERATING", "FAMILY_DRIFT",
     "REFERENCE_C", "SHELF_LIFE", "Derating", "FamilyDrift", "Term", "pct", "pm", "temperature_term",
     "ageing_decades", "assumed_tempco_tol", "ageing_loss_pct", "ageing_rate_pct",
-    "dc_bias_loss_pct", "derating_for", "is_polarised", "temperature_figures",
+    "DEAGEING_DECADES", "HOT_DERATING", "HotDerating", "category_fraction", "dc_bias_loss_at_rated_pct",
+    "dc_bias_loss_pct", "derating_for", "is_polarised", "read_case_size", "temperature_figures",
 ]

@@ -4,8 +4,9 @@ The purchasing list has a row per thing to order, written as a distributor's sea
 (value in engineering units, tolerance, voltage, dielectric, safety class), the quantity with a
 spare margin rounded up, and the nearest IEC 60063 preferred value (E12 for ±10 % and looser,
 E24 for tighter) when the value asked for is not one. The inventory workbook lists every bin with
-its decoded facts and a grade per application, and charts how far each dielectric on hand may
-move with temperature (the worst case its code allows, not a typical curve), so it is plain at a
+its decoded facts and a grade per application, and charts how each characteristic on hand moves
+with temperature, with its sign (:mod:`stock.sheets_out.drift_chart`): Class 1 as α·(T − 25 °C) with
+its band, Class 2 as its code's window, other families as typical curves, so it is plain at a
 glance why X7R does not belong in a tank circuit.
 """
 
@@ -24,10 +25,10 @@ from stock.decoded import Dielectric, Marking
 from stock.markings.preferred_values import in_series, nearest
 from stock.sheets_out.workbook import (Column, add_table_sheet, new_workbook, output_kind, save_workbook,
                                sheet_cell, write_csv)
+from stock.sheets_out.drift_chart import add_drift_charts
 from stock.store.database import Store
 
 APPLICATION_COLUMNS = ("tuned", "timing", "signal", "bypass", "bulk", "mains")
-DRIFT_TEMPERATURES = tuple(range(-55, 155, 5))     # °C, the widest EIA-198 Class 2 span
 
 
 def _fmt_cap(pf: float | None) -> str:
@@ -263,7 +264,8 @@ def inventory_rows(store: Store) -> list[list[Any]]:
             plain_number(m.voltage_v) if m.voltage_v else None, m.voltage_kind or "",
             d.code if d else "", d.family if d else "", d.klass if d else None,
             plain_number(d.tempco_ppm_per_k) if d and d.tempco_ppm_per_k is not None else None,
-            m.safety_class or "", m.polarity or "", row["package"] or "", row["mounting"] or "",
+            m.safety_class or "", m.polarity or "", plain_number(m.rated_temp_c),
+            row["package"] or "", row["mounting"] or "",
             on_hand, available.get(row["bid"]), row["minimum"],
             *[grades.get(row["bid"], {}).get(app, "") for app in APPLICATION_COLUMNS],
             row["date_code"] or "", row["bin_notes"] or "", ", ".join(flags.get(row["bid"], [])),
@@ -277,34 +279,11 @@ INVENTORY_COLUMNS = (
     Column("Tolerance", 11), Column("Voltage (V)", 11, "0.#"), Column("AC/DC", 7),
     Column("Dielectric", 14), Column("Family", 20), Column("Class", 7, "0"),
     Column("Tempco (ppm/K)", 14, "0"), Column("Safety class", 12), Column("Polarity", 16),
-    Column("Package", 16), Column("Mounting", 12),
+    Column("Rated temp (°C)", 14, "0"), Column("Package", 16), Column("Mounting", 12),
     Column("On hand", 9, "#,##0"), Column("Available", 10, "#,##0"), Column("Minimum", 9, "#,##0"),
     *[Column(app.capitalize(), 9) for app in APPLICATION_COLUMNS], Column("Date code", 10),
     Column("Notes", 30), Column("Open flags", 30),
 )
-
-
-def worst_case_change_pct(d: Dielectric, temp_c: int) -> float | None:
-    """The largest capacitance loss (negative %) the dielectric's figures allow at a temperature.
-
-    Linear tempcos give (|α| + tolerance) × |T − 25 °C|; change windows give their lower limit
-    inside the rated range and nothing outside it (the code promises nothing there).
-
-    >>> from stock.decoded import Dielectric, Marking
-    >>> worst_case_change_pct(Dielectric("C0G", "ceramic", 1, Decimal(0), Decimal(30)), 125)
-    -0.3
-    >>> worst_case_change_pct(Dielectric("X7R", "ceramic", 2, None, None, Decimal(-55), Decimal(125),
-    ...                                   Decimal(15), Decimal(15)), 0)
-    -15.0
-    """
-    if d.temp_min_c is not None and d.temp_max_c is not None and not (d.temp_min_c <= temp_c <= d.temp_max_c):
-        return None
-    if d.tempco_ppm_per_k is not None:
-        slope = abs(d.tempco_ppm_per_k) + (d.tempco_tol_ppm_per_k or 0)
-        return float(-slope * abs(temp_c - 25) / Decimal(10_000))
-    if d.change_minus_pct is not None:
-        return 0.0 if temp_c == 25 else float(-d.change_minus_pct)
-    return None
 
 
 def _dielectrics_on_hand(store: Store) -> list[Dielectric]:
@@ -314,32 +293,6 @@ def _dielectrics_on_hand(store: Store) -> list[Dielectric]:
         if d and d.code not in seen and (d.tempco_ppm_per_k is not None or d.change_minus_pct is not None):
             seen[d.code] = d
     return sorted(seen.values(), key=lambda d: (d.klass or 9, d.code))
-
-
-def _add_drift_chart(wb: Any, dielectrics: Sequence[Dielectric]) -> None:
-    from openpyxl.chart import Reference, ScatterChart, Series
-
-    ws = wb.create_sheet("Drift with temperature")
-    ws.append([sheet_cell(ws, "Temperature (°C)", bold=True),
-               *[sheet_cell(ws, d.code, bold=True) for d in dielectrics]])
-    for t in DRIFT_TEMPERATURES:
-        ws.append([t, *[worst_case_change_pct(d, t) for d in dielectrics]])
-    if not dielectrics:
-        return
-    chart = ScatterChart()
-    chart.title = "Worst-case capacitance change allowed by each code on hand"
-    chart.x_axis.title = "Temperature (°C)"
-    chart.y_axis.title = "Change (%)"
-    chart.style = 13
-    n = len(DRIFT_TEMPERATURES) + 1
-    xs = Reference(ws, min_col=1, min_row=2, max_row=n)
-    for i in range(len(dielectrics)):
-        ys = Reference(ws, min_col=i + 2, min_row=1, max_row=n)
-        series = Series(ys, xs, title_from_data=True)
-        series.marker.symbol = "none"
-        chart.series.append(series)
-    chart.width, chart.height = 24, 13
-    ws.add_chart(chart, "A" + str(n + 2))
 
 
 def export_inventory(store: Store, out: Path) -> int:
@@ -353,10 +306,10 @@ def export_inventory(store: Store, out: Path) -> int:
         return write_csv(out, INVENTORY_COLUMNS, rows)
     wb = new_workbook()
     add_table_sheet(wb, "Bins", INVENTORY_COLUMNS, rows)
-    _add_drift_chart(wb, _dielectrics_on_hand(store))
+    add_drift_charts(wb, _dielectrics_on_hand(store), sheet_cell)
     save_workbook(wb, out)
     return len(rows)
 
 
 __all__ = ["OrderLine", "export_inventory", "export_purchasing", "inventory_rows", "plain_number",
-           "preferred_for", "preferred_text", "purchasing_lines", "worst_case_change_pct"]
+           "preferred_for", "preferred_text", "purchasing_lines"]

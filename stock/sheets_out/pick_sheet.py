@@ -16,10 +16,10 @@ def write_pick_list_xlsx(pl: PickList, path: Path) -> int:
     """
     columns = (Column("Location", 12, "@"), Column("Bin", 16, "@"), Column("Marking", 18, "@"),
                Column("Value", 10), Column("Count", 8, "0"), Column("Refs", 30),
-               Column("Picked", 8))
+               Column("Package", 18), Column("Picked", 8))
     wb = new_workbook()
-    rows = [(r.location or "", r.bin_key, r.marking, r.value, r.count, " ".join(r.refs), "")
-            for r in pl.rows]
+    rows = [(r.location or "", r.bin_key, r.marking, r.value, r.count, " ".join(r.refs), r.package,
+             "") for r in pl.rows]
     add_table_sheet(wb, "Pick list", columns, rows, totals={0: "Total", 4: "sum"})
     notes = [(f"Plan {pl.plan}, {pl.boards} board(s), status {pl.status}",)]
     notes.extend((c,) for c in pl.cautions)

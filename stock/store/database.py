@@ -188,6 +188,20 @@ def m002_bin_stock(db: Database) -> None:
     """)
 
 
+@migrations()
+def m003_remembered_mappings(db: Database) -> None:
+    """Header mappings a user gave once, kept per header signature and used on the next import."""
+    _run_script(db, """
+    CREATE TABLE remembered_mappings (
+        signature TEXT PRIMARY KEY,
+        vocabulary TEXT NOT NULL,
+        headers_json TEXT NOT NULL,
+        mapping_json TEXT NOT NULL,
+        saved_at TEXT NOT NULL
+    ) STRICT;
+    """)
+
+
 def now() -> str:
     """The current time as ISO 8601 UTC, the form every table stores."""
     return datetime.now(timezone.utc).isoformat(timespec="seconds")

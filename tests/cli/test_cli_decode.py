@@ -90,8 +90,8 @@ def test_human_output_is_one_line_per_marking_then_indented_flags():
 
 def test_mains_part_prints_the_safety_caution():
     result = run("X2 0.1uF 275VAC")
-    assert "caution: Mains safety capacitor" in result.stdout
-    assert "local codes" in result.stdout
+    assert "caution: mains work can kill" in result.stdout
+    assert "local electrical codes" in result.stdout
 
 
 @pytest.mark.parametrize("args", [["--help"]])

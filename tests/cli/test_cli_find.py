@@ -57,10 +57,12 @@ def test_combine_prints_the_pair_and_its_formula(db):
 
 
 def test_json_has_the_contract_keys_and_nothing_else_on_stdout(db):
-    result = run(db, "--value", "100p", "--tempco", "-300±30", "--combine", "--json")
+    # N750's tolerance on α is not marked: ±120 ppm/K assumed (as U2J, EIA-198), NP0 ±30: the pair's
+    # spread is (40·120 + 60·30)/100 = ±66 ppm/K, so the window must be wider than −300±30
+    result = run(db, "--value", "100p", "--tempco", "-300±70", "--combine", "--json")
     assert result.exit_code == 0, result.stderr
     data = json.loads(result.stdout)
-    assert data["requirement"]["tempco_min"] == -330.0
+    assert data["requirement"]["tempco_min"] == -370.0
     assert data["matches"] == []
     combo = data["combinations"][0]
     assert combo["kind"] == "parallel" and combo["capacitance_pf"] == 100.0
@@ -80,8 +82,8 @@ def test_an_empty_answer_says_why_and_what_to_buy(db):
 def test_a_mains_requirement_prints_the_safety_caution(db):
     result = run(db, "--value", "100n", "--use", "mains", "--safety", "X2")
     assert result.exit_code == 0
-    assert "caution: Mains position" in result.stdout
-    assert "defer to local codes and licensed practice" in result.stdout
+    assert "caution: mains work can kill" in result.stdout
+    assert "defer to local electrical codes and licensed practice" in result.stdout
 
 
 @pytest.mark.parametrize(("args", "message"), [

@@ -73,7 +73,8 @@ def test_grade_at_other_conditions_counts_the_working_voltage(db):
     result = run("--db", str(db), "grade", "A2", "--volts", "25", "--temp", "-10..60", "--json")
     data = json.loads(result.stdout)
     assert data["conditions"]["working_v"] == 25
-    assert "DC bias −20 %" in data["parts"][0]["reasons"]["bypass"][0]
+    # case size unknown: 80 % at rated × √(25/50) = 56.6 % (the model's worst small case)
+    assert "DC bias −56.6 %" in data["parts"][0]["reasons"]["bypass"][0]
 
 
 def test_explain_prints_the_budget_term_by_term(db):
@@ -82,8 +83,11 @@ def test_explain_prints_the_budget_term_by_term(db):
     out = result.stdout
     for label in ("tolerance", "temperature", "ageing", "DC bias", "drift", "total", "missing"):
         assert f"\n  {label}" in out
-    assert "ageing       −3.89 %" in out
-    assert "total        +25/−28.9 %" in out
+    # X7R 4 %/decade × 1.943 = 7.77 % down, 4 × 2 decades de-aged = 8 % up; compounded by hand:
+    # 1 − (0.90)(0.85)(1 − 0.07772) = 29.4 %, (1.10)(1.15)(1.08) − 1 = 36.6 %
+    assert "ageing       +8/−7.77 %" in out
+    assert "total        +36.6/−29.4 %" in out
+    assert "compounded" in out and "linear sum +33/−32.8 %" in out
 
 
 def test_explain_json_carries_the_budget(db):
@@ -163,3 +167,64 @@ def test_grade_on_an_imported_sheet_gives_the_classic_outcomes(tmp_path):
         stored = store.rows("SELECT grade FROM grades g JOIN bins b ON b.id = g.bin_id"
                             " WHERE g.application = 'tuned' ORDER BY b.bin_key")
     assert stored[0]["grade"] == "fit"
+
+
+# A shelf typed the way people type it (a fictional repair bench, "Kestrel Lane Radio"): most bins mark
+# no tolerance. EIA-198 (C0G 0 ± 30 ppm/K, X7R ±15 %, Z5U +22/−56 %), polystyrene −150 ± 50 ppm/K
+# (S33 and memory), IEC 60384-14 (X line–line only, Y either).
+SHELF = """bin,marking,qty,package
+K1,100p C0G 50V,40,
+K2,56p NP0 100V,25,
+K3,330p polystyrene 63V,12,
+K4,0.1uF X2 275VAC,8,
+K5,104K X7R 50V,100,0805
+K6,103M Z5U 50V,60,
+K7,470uF 25V electrolytic,10,
+K8,4n7 Y2 250VAC,6,
+K9,106K X7R 25V,30,0805
+K10,106K X7R 25V,30,1206
+"""
+
+
+@pytest.fixture
+def shelf(tmp_path):
+    sheet = tmp_path / "kestrel.csv"
+    sheet.write_text(SHELF, encoding="utf-8")
+    db = tmp_path / "kestrel.db"
+    assert run("--db", str(db), "import", str(sheet)).exit_code == 0
+    return str(db)
+
+
+def _words(db: str, *extra: str) -> dict[str, dict[str, str]]:
+    data = json.loads(run("--db", db, "grade", "--json", *extra).stdout)
+    return {p["bin_key"].split("/")[-1]: p for p in data["parts"]}
+
+
+def test_a_typed_shelf_grades_on_stability_with_doubts_not_unknowns(shelf):
+    parts = _words(shelf)
+    g = {k.upper(): v["grades"] for k, v in parts.items()}
+    assert g["K1"]["tuned"] == g["K1"]["timing"] == g["K2"]["tuned"] == g["K2"]["timing"] == "fit"
+    assert g["K3"]["tuned"] in ("fit", "marginal")
+    assert g["K5"]["tuned"] == g["K6"]["tuned"] == "unfit"
+    assert g["K7"]["bulk"] == "fit" and g["K7"]["tuned"] == "unfit"
+    assert g["K4"]["mains"] == "fit" and g["K8"]["mains"] == "fit"
+    assert parts["k1"]["doubts"]["tuned"] == ["tolerance not marked: measure before fitting where the value matters"]
+    assert "tuned" not in parts["k7"]["doubts"]          # an unfit grade carries no doubt
+
+
+def test_an_x_part_is_unfit_line_to_earth_and_the_table_shows_where_each_may_go(shelf):
+    earth = _words(shelf, "--position", "line-earth")
+    assert earth["k4"]["grades"]["mains"] == "unfit" and earth["k8"]["grades"]["mains"] == "fit"
+    assert "X2 is an X class only: a line–earth position needs a Y class" in earth["k4"]["reasons"]["mains"][0]
+    out = run("--db", shelf, "grade").stdout
+    assert any(line.endswith("fit L–L") for line in out.splitlines()) and "fit L–L/L–E" in out
+    assert "* doubts (graded on what is known; settle or measure to clear them):" in out
+    assert run("--db", shelf, "grade", "--position", "sideways").exit_code == 2
+
+
+def test_explain_shows_the_case_size_in_the_dc_bias_term(shelf):
+    # S41 and the model from memory of published curves: 0805 loses far more than 1206
+    small = run("--db", shelf, "grade", "--explain", "K9", "--volts", "12").stdout
+    large = run("--db", shelf, "grade", "--explain", "K10", "--volts", "12").stdout
+    assert "case 0805: −71 % at rated" in small and "about −49.2 %" in small
+    assert "case 1206: −30 % at rated" in large and "about −20.8 %" in large

@@ -105,10 +105,57 @@ def test_a_sheet_without_a_value_or_marking_column_is_refused(runner, tmp_path):
     path = write_csv(tmp_path / "q.csv", [["A1", "3"]], headers=("Bin #", "Qty"))
     result = run(runner, tmp_path / "s.db", "import", str(path))
     assert result.exit_code == 1
-    assert "no column carries a value or marking (headers found: 'Bin #', 'Qty')" in result.stderr
+    assert ("no column carries a value or marking (headers found: 'Bin #' (bin locations),"
+            " 'Qty' (whole numbers))") in result.stderr
 
 
 def test_import_help_has_a_real_example(runner):
     result = runner.invoke(app, ["import", "--help"], env=ENV)
     assert result.exit_code == 0
     assert "stock import shop-bins.xlsx" in result.stdout
+
+
+def test_a_sheet_in_plain_words_imports_with_no_map_and_prints_how_columns_were_found(runner, tmp_path):
+    path = write_csv(tmp_path / "bench.csv", [["104K 2A", "A1", "25"], ["4n7 C0G", "A2", "10"],
+                                              ["47uF 25V elctrolytic", "B1", "4"]],
+                     headers=("What is printed on it", "Where it lives", "How many we have"))
+    result = run(runner, tmp_path / "s.db", "import", str(path))
+    assert result.exit_code == 0, result.stderr
+    assert "'What is printed on it' → marking (content 100 %)" in result.stdout
+    assert "'Where it lives' → location (content 100 %)" in result.stdout
+
+
+def test_import_help_lists_every_field_with_one_line_and_the_per_sheet_map(runner):
+    from importers.headers import BIN_FIELDS
+
+    result = runner.invoke(app, ["import", "--help"], env=ENV)
+    assert result.exit_code == 0
+    for name in BIN_FIELDS:
+        assert f"  {name} " in result.stdout
+    assert "SHEET:FIELD=HEADER" in result.stdout
+
+
+def test_a_bom_given_to_import_is_refused_and_forced_in_with_force(runner, tmp_path):
+    path = write_csv(tmp_path / "board.csv", [["C1, C2", "2", "100n"], ["C3-C5", "3", "4u7"]],
+                     headers=("Refs", "Qty", "Value"))
+    refused = run(runner, tmp_path / "s.db", "import", str(path))
+    assert refused.exit_code == 1 and "kit plan" in refused.stderr
+    forced = run(runner, tmp_path / "s.db", "import", str(path), "--force")
+    assert forced.exit_code == 0, forced.stderr
+
+
+def test_two_files_take_one_map_that_only_one_of_them_has(runner, tmp_path):
+    a = write_csv(tmp_path / "a.csv", [["A1", "104", "3"]], headers=("Bin", "Stamp", "Qty"))
+    b = write_csv(tmp_path / "b.csv", [["B1", "4n7", "2"]], headers=("Bin", "Marking", "Qty"))
+    result = run(runner, tmp_path / "s.db", "import", str(a), str(b), "--map", "marking=Stamp")
+    assert result.exit_code == 0, result.stderr
+    wrong = run(runner, tmp_path / "t.db", "import", str(a), str(b), "--map", "marking=Nowhere")
+    assert wrong.exit_code == 2 and "Nowhere" in wrong.stderr      # a --map is usage
+
+
+def test_a_bin_sheet_given_to_kit_plan_is_refused_with_a_hint(runner, tmp_path):
+    path = write_csv(tmp_path / "bins.csv", [["A1", "104", "3"]], headers=("Drawer", "Code", "Qty"))
+    run(runner, tmp_path / "s.db", "import", str(path))
+    result = run(runner, tmp_path / "s.db", "kit", "plan", str(path), "--boards", "1")
+    assert result.exit_code == 1 and "looks like a bin sheet" in result.stderr
+    assert "stock import" in result.stderr

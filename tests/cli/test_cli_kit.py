@@ -153,6 +153,27 @@ def test_bad_input_gives_one_clear_line_and_its_exit_code(shop, args, code, mess
     assert "Traceback" not in result.stderr
 
 
+def test_tank_lines_are_filled_from_unmarked_c0g_bins_and_say_the_parts_are_to_measure(tmp_path):
+    # A fictional oscillator board: EIA-198 C0G bins that print no tolerance letter (common on the
+    # shelf). Proven parts (a marked ±2 %) go first; the rest are parts to measure, and the notes say so.
+    db = tmp_path / "stock.db"
+    store = open_store(db)
+    add_bin(store, "osc/T1", "T1", part("100p C0G 50V", 100, volts=50, dielectric="C0G"), 30)
+    add_bin(store, "osc/T2", "T2", part("101G C0G 50V", 100, tol="2", volts=50, dielectric="C0G"), 2)
+    store.close()
+    bom = tmp_path / "osc.csv"
+    bom.write_text("Designator,Qty,Value,Tolerance,Voltage,Dielectric\n"
+                   '"C11,C12",2,100p,,50V,C0G\n'
+                   "C21,1,100p,2%,50V,C0G\n", encoding="utf-8")
+    data = json.loads(run(db, "plan", str(bom), "--boards", "3", "--json").stdout)
+    tank, trimmed = data["lines"]
+    assert [a["bin"] for a in tank["allocations"]] == ["osc/T1"]
+    assert any("tolerance not marked: parts to measure" in n for n in tank["notes"])
+    assert [a["bin"] for a in trimmed["allocations"]] == ["osc/T2", "osc/T1"]
+    assert any(n.startswith("osc/T1: filled with parts to measure") and "±2 %" in n for n in trimmed["notes"])
+    assert not any(n.startswith("osc/T2: filled") for n in trimmed["notes"])
+
+
 def test_plan_accepts_a_map_for_the_footprint_and_do_not_fit_columns(tmp_path):
     # common practice in CAD exports (headers of our own invention here); EIA chip sizes from
     # memory of the EIA / IEC 60115-8 designations

@@ -256,7 +256,7 @@ def test_a_unitless_number_takes_the_unit_its_header_names(store, tmp_path, head
 
 def test_a_sheet_with_no_value_or_marking_column_is_refused_naming_its_headers(store, tmp_path):
     path = write_csv(tmp_path / "odd.csv", [["x", "3"]], headers=["Shelf", "Qty"])
-    with pytest.raises(BadSheet, match=r"no column carries a value or marking \(headers found: 'Shelf', 'Qty'\)"):
+    with pytest.raises(BadSheet, match=r"no column carries a value or marking \(headers found: 'Shelf' \(text such as 'x'\), 'Qty' \(whole numbers\)\)"):
         import_file(store, path)
     assert table_counts(store)["imports"] == 0
 

@@ -2,7 +2,7 @@
 
 Sources for the hand-built markings: the IEC 60062 three-digit and letter codes (104 = 100 nF,
 K = ±10 %), from memory of EIA-198 and IEC 60062; the 47K reading as 47 nF is old US practice
-(from memory of ERIE catalogues), the reason a decoder flags it; the letter C meaning ±0.25 pF
+(from memory of older US catalogues), the reason a decoder flags it; the letter C meaning ±0.25 pF
 below 10 pF (IEC 60062, from memory). The 2-year shelf-life rule for aluminium electrolytics is
 common practice, no published source. ISO 8601 week numbering for YYWW date codes (the Python
 standard library implements ISO 8601).

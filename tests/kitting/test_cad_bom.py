@@ -194,3 +194,13 @@ def test_a_lone_value_like_1n_is_a_value_not_a_voltage_code(tmp_path):
     path.write_text("Reference,Value\nC1,1n\n", encoding="utf-8")
     (line,) = read_bom(path).lines
     assert line.capacitance_pf == 1000 and line.voltage_v is None
+
+
+def test_the_pick_list_names_each_bin_package_for_the_picker(shelf, cad_bom):
+    from stock.kitting.pick_list import pick_list, pick_list_text
+
+    kit = plan_kit(shelf, cad_bom, KitOptions(boards=1))
+    rows = {r.bin_key.split("/")[-1]: r for r in pick_list(shelf, kit).rows}
+    assert rows["s4"].package == "0603" and rows["s1"].package == "0805"
+    assert rows["s7"].package == "through-hole radial, D5 mm, 2 mm pitch"
+    assert "\t0603" in pick_list_text(pick_list(shelf, kit))

@@ -204,7 +204,7 @@ def test_bins_are_chosen_fit_first_then_exact_then_fewest(need, specs, expected)
     pytest.param(line(safety_class="X1"), part("104 X2", 100000, safety="X2"),
                  "does not cover X1", None, id="x2-does-not-cover-x1"),
     pytest.param(line(safety_class="X1Y2"), part("104 X1", 100000, safety="X1"),
-                 "does not cover X1Y2", None, id="x1-alone-does-not-cover-x1y2"),
+                 "X1 does not cover Y2", None, id="x1-alone-does-not-cover-x1y2-names-y2"),
     pytest.param(line(safety_class="Y2"), part("104 X1Y2", 100000, safety="X1Y2"),
                  None, "X1Y2 for Y2", id="dual-x1y2-covers-y2"),
     pytest.param(line(pf=100000), part("47n", 47000), "not 100 nF", None,
@@ -480,8 +480,8 @@ def test_the_pick_list_walks_the_bins_in_natural_order_with_markings_counts_and_
         ("A2", "104K", 5, ("C1", "C2")), ("A10", "104K", 3, ("C1", "C2")),
         ("B1", "471J C0G", 4, ("C5",))]
     text = pick_list_text(picks)
-    assert text.splitlines()[1] == "location\tbin\tmarking\tvalue\tcount\trefs"
-    assert text.splitlines()[2] == "A2\tcab/A2\t104K\t100 nF\t5\tC1 C2"
+    assert text.splitlines()[1] == "location\tbin\tmarking\tvalue\tcount\trefs\tpackage"
+    assert text.splitlines()[2] == "A2\tcab/A2\t104K\t100 nF\t5\tC1 C2\t"
 
     from openpyxl import load_workbook
 

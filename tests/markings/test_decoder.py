@@ -38,6 +38,12 @@ ISSUE_EXAMPLES = [
     # IEC 60062: a three-digit code followed by M is the code with the ±20 % letter, not millifarads
     pytest.param("473M 1H Y5V", "47 nF ±20 %  50 V DC  Y5V (−30…+85 °C, +22/−82 %)", id="473M-is-47nF-20pct"),
     pytest.param("106M 0J X5R", "10 µF ±20 %  6.3 V DC  X5R (−55…+85 °C, ±15 %)", id="106M-is-10uF-20pct"),
+    # IEC 60062: likewise a trailing F is the ±1 % letter (above 10 pF), not farads
+    pytest.param("101F", "100 pF ±1 %", id="101F-is-100pF-1pct"),
+    pytest.param("473F 50V C0G", "47 nF ±1 %  50 V DC  C0G (0 ±30 ppm/K)", id="473F-is-47nF-1pct"),
+    # a value in farads carries its unit on a double-layer part (IEC 60062 letter F = 10⁰)
+    pytest.param("0.47F 5.5V supercap", "470000 µF  5.5 V DC  double-layer (−25…+70 °C, +20/−30 %)",
+                 id="0.47F-supercap-is-farads"),
 ]
 
 
@@ -66,7 +72,7 @@ def test_field_values_of_the_named_cases():
 FLAG_CASES = [
     pytest.param("100", "ambiguous-code", D(100), id="code-ending-in-zero"),
     pytest.param("470", "ambiguous-code", D(470), id="470-literal-kept"),
-    pytest.param("47K", "ambiguous-code", D(47000), id="nnK-ERIE"),
+    pytest.param("47K", "ambiguous-code", D(47000), id="nnK-older-US"),
     pytest.param("0.047", "unit-assumed", None, id="decimal-without-unit"),
     pytest.param("33", "unit-assumed", None, id="whole-number-without-unit"),
     pytest.param("1R5C", "tolerance-by-value", None, id="tolerance-by-value"),
@@ -121,10 +127,10 @@ def test_two_dielectrics_that_disagree_are_flagged():
     assert "conflicting-readings" in decode("N150 -750ppm").flag_kinds()
 
 
-def test_chip_size_is_not_taken_for_a_value():
+def test_chip_size_is_read_as_a_package_not_a_value():
     # EIA chip sizes (common practice): "1206" is a case, not 1.206 nF
     m = decode("X7R 1206 10% 50V")
-    assert m.capacitance_pf is None and m.unparsed == ("1206",)
+    assert m.capacitance_pf is None and m.unparsed == () and m.package == "1206"
 
 
 def test_rated_temperature_forms():
@@ -160,7 +166,7 @@ def test_unitless_whole_number_on_an_electrolytic_is_read_as_microfarad():
 def test_safety_class_dual_rating_and_ac_voltage():
     m = decode("X1/Y2 4.7nF 400VAC")
     assert (m.safety_class, m.voltage_v, m.voltage_kind) == ("X1Y2", 400, "AC")
-    assert any("local codes" in c for c in cautions(m))
+    assert any("local electrical codes" in c for c in cautions(m))
 
 
 def test_plain_volts_on_a_safety_capacitor_are_read_as_ac_with_a_flag():

@@ -70,8 +70,8 @@ def test_disputed_letters_offer_every_published_reading(letter):
     assert len(reading.alternatives) == len(DISPUTED_LETTERS[letter])
 
 
-def test_p_is_read_as_plus_100_minus_0_with_the_erie_reading_kept():
-    # S12, S15, S16, S65: +100/−0 %; S18 (ERIE): −20/+80 %
+def test_p_is_read_as_plus_100_minus_0_with_the_older_us_reading_kept():
+    # S12, S15, S16, S65: +100/−0 %; S18 (older US practice): −20/+80 %
     reading = read_tolerance_letter("P", D(10000))
     assert (reading.tolerance.minus, reading.tolerance.plus) == (D(0), D(100))
     assert (D(20), D(80)) in {(a.tolerance.minus, a.tolerance.plus) for a in reading.alternatives}

@@ -52,7 +52,7 @@ LETTER_CASES = [
     pytest.param("4R7", Decimal("4.7"), id="4R7-is-4.7pF"),
     pytest.param("0R5", Decimal("0.5"), id="0R5-is-0.5pF"),
     pytest.param("4N7", Decimal(4700), id="upper-case-N-is-nano"),
-    pytest.param("3K3", Decimal(3300), id="ERIE-3K3-is-3.3nF"),   # from memory of ERIE practice (S18)
+    pytest.param("3K3", Decimal(3300), id="older-US-3K3-is-3.3nF"),   # from memory of older US practice (S18)
 ]
 
 
@@ -127,8 +127,8 @@ def test_three_digits_ending_in_zero_offer_both_readings(code, as_code, literal)
     assert "ambiguous-code" in {f.kind for f in reading.flags}
 
 
-def test_two_digits_and_k_are_ambiguous_between_iec_and_erie():
-    # IEC 60062 via S17: 47 pF ±10 %; old ERIE practice (S18): 47 nF
+def test_two_digits_and_k_are_ambiguous_between_iec_and_older_us_practice():
+    # IEC 60062 via S17: 47 pF ±10 %; older US practice (S18): 47 nF
     reading = read_value("47K")
     assert reading.chosen.capacitance_pf == Decimal(47)
     assert reading.chosen.tolerance_letter == "K"

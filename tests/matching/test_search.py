@@ -29,6 +29,7 @@ DIELECTRICS = {
     "C0G": Dielectric("C0G", "ceramic", 1, D(0), D(30), D(-55), D(125), source="EIA-198 Class 1"),
     "NP0": Dielectric("NP0", "ceramic", 1, D(0), D(30), D(-55), D(125), source="industry name"),
     "U2J": Dielectric("U2J", "ceramic", 1, D(-750), D(120), D(-55), D(125), source="EIA-198 Class 1"),
+    "U2G": Dielectric("U2G", "ceramic", 1, D(-750), D(30), D(-55), D(125), source="EIA-198 Class 1"),
     "N750": Dielectric("N750", "ceramic", 1, D(-750), None, D(-55), D(125), source="industry name"),
     "S2H": Dielectric("S2H", "ceramic", 1, D(-330), D(60), D(-55), D(125), source="EIA-198 Class 1"),
     "X7R": Dielectric("X7R", "ceramic", 2, None, None, D(-55), D(125), D(15), D(15), source="EIA-198 Class 2"),
@@ -208,7 +209,7 @@ def test_a_mains_position_never_accepts_a_part_without_a_safety_class(shop):
         result = find(shop, r, combine=True)
         assert "G1" not in _bins(result)
         assert all(p.bin_key != "G1" for c in result.combinations for p in c.parts)
-        assert any("defer to local codes and licensed practice" in c for c in result.cautions)
+        assert any("defer to local electrical codes and licensed practice" in c for c in result.cautions)
 
 
 @pytest.mark.parametrize(("have", "need", "ok"), [
@@ -224,12 +225,73 @@ def test_safety_classes_substitute_only_upwards(shop, have, need, ok):
     assert bool(find(shop, req(capacitance_pf=D(100000), safety_class=need)).matches) is ok
 
 
+def test_a_y4_part_rated_125_v_ac_is_never_offered_for_an_x2_position(shop):
+    # IEC 60384-14 via the reference §7 (S30): Y4 is rated below 150 V AC; an X2 position named
+    # without a voltage is assumed on mains of at least 150 V AC
+    low = Marking(**{**_safety_part("Y4 1n 125VAC", "Y4").__dict__, "capacitance_pf": D(1000),
+                     "voltage_v": D(125)})
+    add_bin(shop, "Y4", low, 10)
+    result = find(shop, req(capacitance_pf=D(1000), safety_class="X2"), combine=True)
+    assert result.matches == () and result.combinations == ()
+    assert "Y4 does not cover X2: rated 125 V AC, below the 150 V AC an X2 position may run at" in \
+        " ".join(result.explanation)
+
+
+def test_no_pair_is_ever_offered_for_a_mains_position(shop):
+    # on AC a series pair's small part carries nearly all the voltage (V₁ = V·C₂/(C₁ + C₂)), and a
+    # pair holds no IEC 60384-14 rating: one rated part per position
+    add_bin(shop, "P1", Marking(**{**_safety_part("X2 1n", "X2").__dict__, "capacitance_pf": D(1000)}), 10)
+    add_bin(shop, "P2", _safety_part("X2 100n", "X2"), 10)
+    add_bin(shop, "P3", Marking(**{**_safety_part("X2 47n", "X2").__dict__, "capacitance_pf": D(47000)}), 10)
+    for r in (req(capacitance_pf=D(990), safety_class="X2"), req(capacitance_pf=D(94000), application="mains"),
+              req(capacitance_pf=D(94000), position="line-line")):
+        result = find(shop, r, combine=True)
+        assert result.combinations == ()
+        assert any("no pair may fill an X/Y position" in e for e in result.explanation)
+
+
+def test_an_x_part_is_offered_line_to_line_and_refused_line_to_earth(shop):
+    # IEC 60384-14: X line–line; a line–earth position needs a Y class
+    add_bin(shop, "L1", _safety_part("X2 104M", "X2"), 5)
+    add_bin(shop, "L2", part("104K X7R", "100000", tol="10", volts="275", code="X7R"), 50)
+    mains = find(shop, req(capacitance_pf=D(100000), application="mains"))
+    assert _bins(mains) == ["L1"]
+    assert "fit line–line (X2); never line–earth" in " ".join(mains.matches[0].reasons)
+    earth = find(shop, req(capacitance_pf=D(100000), application="mains", position="line-earth"))
+    assert earth.matches == ()
+    assert "X2 is an X class: a line–earth position needs a Y class" in " ".join(earth.explanation)
+
+
+def test_a_refusal_names_the_real_cause_and_no_class_not_asked_for(shop):
+    add_bin(shop, "W1", _safety_part("X2 104M", "X2"), 5)
+    text = " ".join(find(shop, req(capacitance_pf=D(100000), safety_class="Y2")).explanation)
+    assert "X2 does not cover Y2" in text and "no X/Y safety class" not in text
+    passed = find(shop, req(capacitance_pf=D(100000), application="mains", allow_marginal=True))
+    assert not any("X3" in r for r in passed.matches[0].reasons)
+
+
+# A tolerance asked for is a requirement: a part that marks none is no proven match, but it is named
+# after the matches as a part to measure (common practice: measure before fitting).
+def test_an_unmarked_part_is_a_part_to_measure_when_a_tolerance_is_asked(shop):
+    add_bin(shop, "M1", part("100p C0G", "100", volts="50", code="C0G"), 40)
+    add_bin(shop, "M2", part("101G C0G", "100", tol="2", volts="50", code="C0G"), 3)
+    plain = find(shop, req(capacitance_pf=D(100), application="tuned"))
+    assert _bins(plain) == ["M1", "M2"] or sorted(_bins(plain)) == ["M1", "M2"]
+    strict = find(shop, req(capacitance_pf=D(100), tol_pct=D(2), application="tuned"))
+    assert _bins(strict) == ["M2"]
+    assert [m.bin_key for m in strict.to_measure] == ["M1"]
+    assert "measure it before fitting (it must read 98 pF…102 pF)" in strict.to_measure[0].reasons[0]
+    data = strict.to_json()
+    assert [m["bin"] for m in data["to_measure"]] == ["M1"] and [m["bin"] for m in data["matches"]] == ["M2"]
+
+
 # Tempco windows (EIA-198 Class 1: C0G 0 ±30, U2J −750 ±120; old names carry no tolerance on α).
 @pytest.mark.parametrize(("code", "window", "ok"), [
     pytest.param("C0G", "0±30", True, id="C0G-fits-0-30"),
     pytest.param("U2J", "0±30", False, id="U2J-misses-0-30"),
     pytest.param("U2J", "-750±120", True, id="U2J-fits-its-own-window"),
-    pytest.param("N750", "-750±120", True, id="N750-judged-on-its-nominal"),
+    pytest.param("N750", "-750±120", True, id="N750-with-the-assumed-120-of-U2J"),
+    pytest.param("N750", "-750±60", False, id="N750-assumed-120-is-wider-than-60"),
     pytest.param("S2H", "-330±30", False, id="S2H-band-60-is-wider-than-30"),
     pytest.param("X7R", "-1000..1000", False, id="class-2-has-no-linear-tempco"),
 ])
@@ -293,18 +355,33 @@ def test_a_series_pair_splits_the_working_voltage_inversely_to_capacitance(shop)
     assert too_much.combinations == ()
 
 
-def test_an_n750_part_beside_an_np0_part_compensates_to_minus_300(shop):
-    # 40 p N750 ∥ 60 p NP0: (40·(−750) + 60·0)/100 = −300 ppm/K (parallel net-tempco rule)
+def test_an_n750_part_beside_an_np0_part_takes_the_assumed_tempco_tolerance(shop):
+    # 40 p N750 ∥ 60 p NP0: (40·(−750) + 60·0)/100 = −300 ppm/K (parallel net-tempco rule); N750 marks
+    # no tolerance on α, so the ±120 ppm/K of U2J (EIA-198, the code it is sold as) is assumed, as in
+    # grading: spread (40·120 + 60·30)/100 = ±66 ppm/K, outside −300±30, inside −300±70
     add_bin(shop, "N1", part("40 N750", "40", tol="2", volts="100", code="N750"), 5)
     add_bin(shop, "N2", part("60 NP0", "60", tol="2", volts="100", code="NP0"), 5)
     add_bin(shop, "N3", part("100 NP0", "100", tol="2", volts="100", code="NP0"), 5)
-    r = build_requirement(value="100p", tempco="-300±30")
-    result = find(shop, r, combine=True)
+    tight = find(shop, build_requirement(value="100p", tempco="-300±30"), combine=True)
+    assert tight.matches == () and tight.combinations == ()
+    result = find(shop, build_requirement(value="100p", tempco="-300±70"), combine=True)
     assert result.matches == ()           # the 100 p NP0 is 0 ppm/K: outside the window
     combo = result.combinations[0]
     assert combo.tempco_ppm_per_k == D(-300)
-    assert any(r.startswith("N750 with NP0: net tempco (40·−750 + 60·0) / 100 = −300±18 ppm/K")
+    assert any(r.startswith("N750 with NP0: net tempco (40·−750 + 60·0) / 100 = −300±66 ppm/K")
                for r in combo.reasons)
+    assert any("N750 ±120 ppm/K assumed (as U2J" in r for r in combo.reasons)
+
+
+def test_a_pair_exactly_on_a_negative_tempco_edge_is_found(shop):
+    # EIA-198: U2G = 7.5 × −100 ± 30 = −750 ± 30; 40 p U2G ∥ 60 p C0G = −300 ± 30 ppm/K exactly,
+    # the edge of the window −330…−270: the float pre-filter must not drop it
+    add_bin(shop, "E1", part("40 U2G", "40", tol="2", volts="100", code="U2G"), 5)
+    add_bin(shop, "E2", part("60 C0G", "60", tol="2", volts="100", code="C0G"), 5)
+    result = find(shop, build_requirement(value="100p", tempco="-300±30"), combine=True)
+    [combo] = [c for c in result.combinations if c.kind == "parallel"]
+    assert combo.tempco_ppm_per_k == D(-300)
+    assert any("−300±30 ppm/K, within −330…−270 ppm/K" in r for r in combo.reasons)
 
 
 def test_find_json_has_the_contract_shape(shop):

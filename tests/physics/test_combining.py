@@ -13,7 +13,7 @@ import itertools
 from decimal import Decimal, localcontext
 
 import pytest
-from hypothesis import given
+from hypothesis import example, given, settings
 from hypothesis import strategies as st
 
 from stock.physics import combining as cb
@@ -190,3 +190,49 @@ def test_the_index_finds_the_same_best_pair_as_checking_every_pair(items, kind, 
         assert found == []
     else:
         assert found and found[0][0] == pytest.approx(expected, abs=1e-9)
+
+
+# The float pre-filter of the pair index is only a first pass: every pair the exact (Decimal)
+# check accepts must come through it, also exactly on a window's edge and for negative tempcos
+# (parallel net tempco = Σ Cᵢαᵢ / Σ Cᵢ, series weighted by the other part: textbook rules).
+_VALUES = [D(v) for v in ("10", "22", "33", "40", "47", "56", "60", "68", "82", "100", "150")]
+_ALPHAS = [(D(0), D(30)), (D(-750), D(30)), (D(-750), D(120)), (D(-150), D(60)), (D(100), D(30)),
+           (D(-330), D(60))]
+
+
+@settings(max_examples=150, deadline=None)
+@given(st.lists(st.tuples(st.sampled_from(_VALUES), st.sampled_from(_ALPHAS),
+                          st.sampled_from([D(1), D(2), D(5)])), min_size=2, max_size=9),
+       st.sampled_from(["parallel", "series"]), st.sampled_from(_VALUES),
+       st.integers(-800, 100), st.sampled_from([D(0), D(30), D(60)]), st.booleans())
+@example([(D(40), (D(-750), D(30)), D(2)), (D(60), (D(0), D(30)), D(2))], "parallel", D(100), -300, D(30), False)
+@example([(D(40), (D(-750), D(30)), D(2)), (D(60), (D(0), D(30)), D(2))], "parallel", D(100), -300, D(30), True)
+def test_the_pair_prefilter_never_rejects_a_pair_the_exact_check_accepts(parts, kind, target, mid, half, worst):
+    from stock.physics.combining import (PairIndex, PairItem, PairQuery, band, pair_bounds, pair_tempco,
+                                         pair_tempco_spread, pair_value)
+
+    tol = D(5)
+    lo, hi = target * (1 - tol / 100), target * (1 + tol / 100)
+    w_lo, w_hi = D(mid) - half, D(mid) + half
+    accepted = set()
+    for i, (c1, (a1, t1), m1) in enumerate(parts):
+        for j, (c2, (a2, t2), m2) in enumerate(parts):
+            if j <= i:
+                continue
+            value = pair_value(kind, c1, c2)
+            if worst:
+                p_lo, p_hi = pair_bounds(kind, band(c1, m1, m1), band(c2, m2, m2))
+                if p_lo < lo or p_hi > hi:
+                    continue
+            elif not lo <= value <= hi:
+                continue
+            net, spread = pair_tempco(kind, c1, a1, c2, a2), pair_tempco_spread(kind, c1, t1, c2, t2)
+            if net - spread < w_lo or net + spread > w_hi:
+                continue
+            accepted.add(frozenset((i, j)))
+    index = PairIndex(PairItem(float(c), k, float(m), float(m), float(a), float(t))
+                      for k, (c, (a, t), m) in enumerate(parts))
+    query = PairQuery(kind, float(target), float(lo), float(hi), worst_case=worst,
+                      tempco_lo=float(w_lo), tempco_hi=float(w_hi))
+    proposed = {frozenset((k1, k2)) for _, k1, k2 in index.nearest(query, 10_000, per_part=10_000)}
+    assert accepted <= proposed

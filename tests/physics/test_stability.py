@@ -24,14 +24,15 @@ from stock.physics.stability import (
 )
 
 
-# S35 (RCD FAQ): maximum ageing per decade-hour
+# The high end of the published ranges per decade-hour (maker ageing notes: X7R/X5R 1.5…4 %,
+# Z5U 4…6 %, Y5V 6…10 %) or S35's maximum where it is higher (Z5U 7 %)
 @pytest.mark.parametrize("code, rate", [
-    pytest.param("X7R", D("2"), id="X7R-2pct"),
-    pytest.param("X5R", D("2.5"), id="X5R-2.5pct"),
-    pytest.param("Z5U", D("7"), id="Z5U-7pct"),
-    pytest.param("Y5V", D("7"), id="Y5V-7pct"),
+    pytest.param("X7R", D("4"), id="X7R-4pct"),
+    pytest.param("X5R", D("4"), id="X5R-4pct"),
+    pytest.param("Z5U", D("7"), id="Z5U-7pct-S35"),
+    pytest.param("Y5V", D("10"), id="Y5V-10pct"),
 ])
-def test_class2_ageing_rates_are_the_published_maxima(code, rate):
+def test_class2_ageing_rates_are_the_high_end_of_the_published_ranges(code, rate):
     assert ageing_rate_pct(code, 2) == rate == AGEING_PER_DECADE_PCT[code]
 
 
@@ -42,9 +43,9 @@ def test_class1_ceramics_do_not_age():
 
 def test_a_class2_code_not_listed_ages_by_its_change_letter():
     # EIA-198 change letters: R (±15 %) like X5R, V (+22/−82 %) like Y5V (from memory of S36/S37 ranges)
-    assert ageing_rate_pct("X6R", 2) == D("2.5")
-    assert ageing_rate_pct("Y6V", 2) == D("7")
-    assert ageing_rate_pct(None, 2) == D("7")
+    assert ageing_rate_pct("X6R", 2) == D("4")
+    assert ageing_rate_pct("Y6V", 2) == D("10")
+    assert ageing_rate_pct(None, 2) == D("10")
 
 
 @pytest.mark.parametrize("years, decades", [
@@ -61,20 +62,58 @@ def test_ageing_loss_grows_with_service_life():
     assert ageing_loss_pct("X7R", 2, D(1)) < ageing_loss_pct("X7R", 2, D(10)) < ageing_loss_pct("X7R", 2, D(100))
 
 
-# DC bias (S41: 0805 10 µF 10 V X7R keeps 50 % at 5 V; S72: 35–65 % loss at rated). Common practice model.
-def test_dc_bias_loss_of_a_large_part_at_rated_is_the_top_of_the_published_range():
-    assert dc_bias_loss_pct("X5R", D(10_000_000), D(10), D(10)) == D(65)
+# DC bias (S41: 10 µF 10 V X7R at 5 V keeps 50 % in 0805, 93 % in 1206; S72: 35–65 % loss at rated,
+# worse in small cases). A model from memory of published curves.
+def test_dc_bias_in_0805_matches_the_published_point():
+    # S41: 50 % kept at half rated; the model gives 71 × √0.5 = 50.2 % lost
+    assert dc_bias_loss_pct("X7R", D(10_000_000), D(5), D(10), "0805") == D("50.2")
+
+
+def test_dc_bias_in_1206_is_below_0805_and_still_above_the_published_point():
+    # S41: 7 % lost in 1206 at half rated; the model keeps a margin above it (conservative)
+    loss = dc_bias_loss_pct("X7R", D(10_000_000), D(5), D(10), "1206")
+    assert D(7) < loss < dc_bias_loss_pct("X7R", D(10_000_000), D(5), D(10), "0805")
+
+
+def test_dc_bias_with_no_case_size_assumes_the_worst_small_case():
+    unknown = dc_bias_loss_pct("X5R", D(10_000_000), D(10), D(10))
+    assert unknown == D(80) >= dc_bias_loss_pct("X5R", D(10_000_000), D(10), D(10), "0402")
+
+
+def test_dc_bias_rises_steeply_at_first_then_flattens():
+    # published curves: most of the loss comes in the first part of the voltage range
+    quarter = dc_bias_loss_pct("X7R", D(10_000_000), D("2.5"), D(10), "0805")
+    half = dc_bias_loss_pct("X7R", D(10_000_000), D(5), D(10), "0805")
+    full = dc_bias_loss_pct("X7R", D(10_000_000), D(10), D(10), "0805")
+    assert quarter - 0 > half - quarter > 0 and half - quarter > (full - half) / 2
+
+
+@pytest.mark.parametrize("text, case", [
+    pytest.param("0805", "0805", id="inch-code"),
+    pytest.param("SMD 1206", "1206", id="in-words"),
+    pytest.param("2012M", "0805", id="metric-2012-is-0805"),
+    pytest.param("3216 metric", "1206", id="metric-3216-is-1206"),
+    pytest.param("radial 5mm", None, id="leaded"),
+    pytest.param("10805", None, id="not-a-case"),
+])
+def test_case_sizes_are_read_from_the_package_text(text, case):
+    # EIA inch case codes and their metric pairs (from memory of EIA/IEC case tables)
+    from stock.physics.stability import read_case_size
+
+    assert read_case_size(text) == case
 
 
 def test_dc_bias_loss_of_a_high_k_part_is_larger():
-    assert dc_bias_loss_pct("Y5V", D(1_000_000), D(8), D(16)) > dc_bias_loss_pct("X7R", D(1_000_000), D(8), D(16))
+    # from memory: high-K codes lose 70–90 % at rated whatever the case
+    assert dc_bias_loss_pct("Y5V", D(1_000_000), D(8), D(16), "1206") > dc_bias_loss_pct("X7R", D(1_000_000), D(8), D(16), "1206")
 
 
-@given(st.integers(0, 200), st.integers(1, 100), st.integers(1, 10**9))
-def test_dc_bias_loss_never_exceeds_the_loss_at_rated_and_never_falls_with_voltage(v, rated, cap):
-    loss = dc_bias_loss_pct("X7R", D(cap), D(v), D(rated))
-    higher = dc_bias_loss_pct("X7R", D(cap), D(v + 1), D(rated))
-    assert D(0) <= loss <= higher <= D(65)
+@given(st.integers(0, 200), st.integers(1, 100), st.integers(1, 10**9),
+       st.sampled_from([None, "0402", "0805", "1206", "2220"]))
+def test_dc_bias_loss_never_exceeds_the_loss_at_rated_and_never_falls_with_voltage(v, rated, cap, case):
+    loss = dc_bias_loss_pct("X7R", D(cap), D(v), D(rated), case)
+    higher = dc_bias_loss_pct("X7R", D(cap), D(v + 1), D(rated), case)
+    assert D(0) <= loss <= higher <= D(80)
 
 
 def test_dc_bias_refuses_a_zero_rating():
@@ -110,11 +149,21 @@ def test_every_family_but_ceramic_has_typical_temperature_figures_with_a_source(
         assert figures.tempco_ppm_per_k is not None or figures.change_minus_pct is not None
 
 
-def test_silver_mica_typical_tempco_covers_the_published_35_to_75_ppm():
-    # S34: +35…+75 ppm/K
+def test_silver_mica_tempco_band_covers_the_typical_range_and_characteristic_e():
+    # S34: +35…+75 ppm/K typical; characteristic E −20…+100 ppm/K (from memory of MIL-PRF-39001)
     mica = FAMILY_DRIFT["mica"]
-    assert mica.tempco_ppm_per_k - mica.tempco_tol_ppm_per_k == 35
-    assert mica.tempco_ppm_per_k + mica.tempco_tol_ppm_per_k == 75
+    assert mica.tempco_ppm_per_k - mica.tempco_tol_ppm_per_k == -20
+    assert mica.tempco_ppm_per_k + mica.tempco_tol_ppm_per_k == 100
+
+
+def test_the_family_figures_have_one_home():
+    # the grading table is the names table, figure for figure
+    from stock.markings.families import FAMILY_FIGURES
+
+    for name, drift in FAMILY_DRIFT.items():
+        f = FAMILY_FIGURES[name]
+        assert (drift.tempco_ppm_per_k, drift.tempco_tol_ppm_per_k, drift.temp_max_c, drift.change_minus_pct) == \
+            (f.tempco, f.tempco_tol, f.temp_max_c, f.change_minus_pct)
 
 
 def test_tantalum_window_is_the_published_10_percent():
@@ -140,13 +189,16 @@ def test_electrolytic_windows_are_not_scaled_to_a_narrow_range():
 
 
 @pytest.mark.parametrize("alpha, tol", [
-    pytest.param(D(0), D(60), id="NP0-assumed-60"),
-    pytest.param(D(-150), D(60), id="N150-P2G-or-P2H-assumed-60"),
+    pytest.param(D(0), D(30), id="NP0-as-C0G-30"),
+    pytest.param(D(-150), D(30), id="N150-as-P2G-30-S1"),
     pytest.param(D(-750), D(120), id="N750-as-U2J-120"),
     pytest.param(D(-1500), D(250), id="N1500-as-P3K-250"),
+    pytest.param(D(-2200), D(500), id="N2200-as-R3L-500"),
+    pytest.param(D(-3300), D(500), id="N3300-as-S3L-500"),
+    pytest.param(D(-4700), D(1000), id="N4700-as-T3M-1000"),
 ])
-def test_an_old_name_takes_the_widest_customary_tempco_tolerance(alpha, tol):
-    # capacitor-codes.md §1d (EIA-198 equivalents; P2G vs P2H disagreement → the wider)
+def test_an_old_name_takes_the_tempco_tolerance_of_its_eia_equivalent(alpha, tol):
+    # capacitor-codes.md §1d (EIA-198 equivalents; N150 = P2G per S1, P2H only from memory)
     assert assumed_tempco_tol(alpha) == tol
 
 

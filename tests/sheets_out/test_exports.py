@@ -16,8 +16,7 @@ import pytest
 from openpyxl import load_workbook
 
 from stock.decoded import Dielectric, Marking, Tolerance
-from stock.sheets_out.exports import (export_inventory, export_purchasing, preferred_for,
-                           worst_case_change_pct)
+from stock.sheets_out.exports import export_inventory, export_purchasing, preferred_for
 
 C0G = Dielectric("C0G", "ceramic", 1, Decimal(0), Decimal(30), source="EIA-198 Class 1")
 X7R = Dielectric("X7R", "ceramic", 2, None, None, Decimal(-55), Decimal(125), Decimal(15), Decimal(15),
@@ -114,25 +113,14 @@ def test_inventory_lists_grades_flags_and_charts_each_dielectric(store, tmp_path
     rows = list(wb["Bins"].iter_rows(values_only=True))
     first = dict(zip(rows[0], rows[1]))
     assert first["Tuned"] == "fit" and first["Open flags"] == "duplicate" and first["On hand"] == 20
-    chart_sheet = wb["Drift with temperature"]
-    assert [c.value for c in chart_sheet[1]] == ["Temperature (°C)", "C0G", "X7R"]
-    charts = chart_sheet._charts
-    assert len(charts) == 1 and len(charts[0].series) == 2
-    by_temp = {r[0]: r for r in chart_sheet.iter_rows(min_row=2, values_only=True)}
-    assert by_temp[125][1] == pytest.approx(-0.3)      # 30 ppm/K × 100 K
-    assert by_temp[0][2] == -15 and by_temp[150][2] is None  # X7R promises nothing above +125 °C
-
-
-# EIA-198: C0G 0 ± 30 ppm/K; X7R ±15 % over −55…+125 °C.
-@pytest.mark.parametrize("d, t, expected", [
-    pytest.param(C0G, 50, -0.075, id="C0G-at-50C-is-0.075pct"),
-    pytest.param(C0G, 25, 0.0, id="C0G-at-reference-is-zero"),
-    pytest.param(X7R, -55, -15.0, id="X7R-at-its-low-limit"),
-    pytest.param(X7R, 130, None, id="X7R-above-its-range-is-unknown"),
-])
-def test_worst_case_change_follows_the_code(d, t, expected):
-    got = worst_case_change_pct(d, t)
-    assert got == (pytest.approx(expected) if expected is not None else None)
+    table = wb["Drift with temperature"]
+    assert [c.value for c in table[1]] == ["Temperature (°C)", "C0G", "C0G α+30", "C0G α−30",
+                                           "X7R +15 %", "X7R −15 %"]
+    charts = wb["Drift charts"]._charts
+    assert len(charts) == 2 and [len(c.series) for c in charts] == [3, 2]
+    by_temp = {r[0]: r for r in table.iter_rows(min_row=2, values_only=True)}
+    assert by_temp[125][2] == pytest.approx(0.3) and by_temp[125][3] == pytest.approx(-0.3)  # ±30 ppm/K × 100 K
+    assert by_temp[0][4:] == (15, -15) and by_temp[150][4:] == (None, None)  # nothing past +125 °C
 
 
 def test_a_pulled_plan_still_needs_its_shortfall_ordered_and_a_dropped_one_does_not(store):
@@ -192,8 +180,8 @@ def test_the_purchasing_csv_names_every_fact_a_buyer_needs_in_plain_numbers(stor
 
 def test_the_inventory_export_keeps_every_field_the_sheet_gave(store, tmp_path):
     sheet = tmp_path / "bins.csv"
-    sheet.write_text("Bin,Marking,Qty,Min,Package,Mounting,Date code,Notes\n"
-                     "A1,104K 50V X7R,40,10,0805,SMD,2318,reel end\n", encoding="utf-8")
+    sheet.write_text("Bin,Marking,Qty,Min,Package,Mounting,Date code,Notes,Rated temp\n"
+                     "A1,104K 50V X7R,40,10,0805,SMD,2318,reel end,125\n", encoding="utf-8")
     from stock.inventory.intake import import_file
 
     import_file(store, sheet)
@@ -203,3 +191,4 @@ def test_the_inventory_export_keeps_every_field_the_sheet_gave(store, tmp_path):
     assert (row["Package"], row["Mounting"], row["Minimum"], row["Date code"], row["Notes"]) == \
         ("0805", "SMD", "10", "2318", "reel end")
     assert row["Capacitance (pF)"] == "100000" and row["Voltage (V)"] == "50"
+    assert row["Rated temp (°C)"] == "125"
