@@ -12,6 +12,8 @@ import json
 import pytest
 from typer.testing import CliRunner
 
+from stock.markings.safety_classes import MAINS_CAUTION
+
 from stock.cli import app
 from tests.matching.test_replacement import SHELF
 
@@ -71,7 +73,7 @@ def test_json_follows_the_contract_and_nothing_else_is_printed(db):
         assert set(s) >= {"bin", "marking", "facts", "rule", "differences"}
         assert s["rule"]["name"] == "mains-paper-by-class"
         assert s["facts"]["safety_class"]
-    assert any(c.startswith("Mains safety capacitor") for c in data["cautions"])
+    assert any(MAINS_CAUTION in c for c in data["cautions"])   # the one mains caution text
     assert data["pairs"] == [] and data["buy"] is None
 
 
