@@ -1,0 +1,105 @@
+"""Which part may go on which BOM line: mains and tuned rules first, then polarity, voltage, dielectric, value.
+
+Sources: X/Y classes and "a part without a class never goes on a mains position" (IEC 60384-14);
+C0G Class 1 (0 ±30 ppm/K), X7R −55…+125 °C ±15 % and X5R −55…+85 °C ±15 % (EIA-198); J = ±5 %,
+K = ±10 % (IEC 60062); that a Class 2 part never goes in a tuned circuit, that a higher voltage
+rating is allowed, and the 1 µF threshold for electrolytics at an unnamed position are common
+practice, no published source.
+"""
+
+from __future__ import annotations
+
+from decimal import Decimal
+
+import pytest
+
+from stock.kitting.bom import read_bom
+from stock.kitting.line_rules import ALLOWANCES, check_part
+from stock.markings.decoder import decode
+
+BOM = """Designator,Qty,Value,Tolerance,Voltage,Dielectric,Use
+C1,1,100n,10%,50V,X7R,
+C2,1,100p,5%,50V,C0G,tuned
+CX1,1,100n,,275VAC X2,,
+C3,1,10u,,25V,,
+C4,1,100n,5%,50V,,
+C5,1,100n,,,,
+"""
+
+
+@pytest.fixture(scope="module")
+def lines(tmp_path_factory):
+    path = tmp_path_factory.mktemp("bom") / "board.csv"
+    path.write_text(BOM, encoding="utf-8")
+    return {line.refs[0]: line for line in read_bom(path).lines}
+
+
+def verdict(lines, ref, marking, allow=()):
+    m = decode(marking)
+    return check_part(lines[ref], m, m.capacitance_pf, frozenset(allow))
+
+
+def test_the_allowances_are_the_two_that_relax_tolerance_and_class():
+    assert set(ALLOWANCES) == {"looser-tolerance", "lower-class"}
+
+
+# refusals: IEC 60384-14 for mains, EIA-198 classes, IEC 60062 letters, common practice for the rest
+@pytest.mark.parametrize("ref, marking, allow, refused", [
+    pytest.param("CX1", "104K 275VAC X7R", (), "not safety-rated; the mains line needs X2",
+                 id="no-class-never-on-mains"),
+    pytest.param("CX1", "104K 275VAC X7R", ALLOWANCES, "not safety-rated; the mains line needs X2",
+                 id="no-allowance-relaxes-mains"),
+    pytest.param("C2", "101J 50V X7R", ALLOWANCES, "X7R is a Class 2 ceramic; never in a tuned circuit",
+                 id="class-2-never-tuned"),
+    pytest.param("C2", "101J 50V", (), "dielectric unknown; a tuned circuit needs a known stable dielectric",
+                 id="unknown-dielectric-never-tuned"),
+    pytest.param("C1", "104K 25V X7R", (), "rated 25 V DC, below the 50 V DC asked", id="voltage-too-low"),
+    pytest.param("C1", "104K X7R", (), "voltage rating unknown; the line needs 50 V DC", id="voltage-unknown"),
+    pytest.param("C1", "104K 50V X5R", (), "X5R does not cover X7R (narrower range or wider change)",
+                 id="x5r-does-not-cover-x7r"),
+    pytest.param("C4", "104K 50V X7R", (), "±10 % is looser than the ±5 % asked", id="looser-tolerance"),
+    pytest.param("C5", "474K 50V X7R", (), "nominal 470 nF, not 100 nF (the line gives no tolerance)",
+                 id="another-value"),
+    pytest.param("C5", "0.1uF 50V electrolytic", (), "polarised (aluminium electrolytic); the BOM line does not say the"
+                 " position is polarised", id="electrolytic-below-1uF-position"),
+])
+def test_a_part_that_may_not_go_on_a_line_is_refused_with_the_reason(lines, ref, marking, allow, refused):
+    assert verdict(lines, ref, marking, allow).refused == refused
+
+
+@pytest.mark.parametrize("ref, marking, allow, note", [
+    pytest.param("CX1", "X1 104K 440VAC", (), "X1 for X2: a class that covers it (IEC 60384-14)",
+                 id="x1-covers-x2"),
+    pytest.param("C1", "104K 100V X7R", (), "100 V DC part for a 50 V DC line: a higher voltage rating is allowed",
+                 id="higher-voltage"),
+    pytest.param("C1", "104K 50V C0G", (), "C0G in place of X7R: a Class 1 part is more stable",
+                 id="class-1-for-class-2"),
+    pytest.param("C1", "104K 50V X5R", ("lower-class",),
+                 "X5R in place of X7R: a lower class, allowed by --allow lower-class", id="lower-class-allowed"),
+    pytest.param("C4", "104K 50V", ("looser-tolerance",),
+                 "±10 % where ±5 % was asked: a looser tolerance, allowed by --allow looser-tolerance",
+                 id="looser-tolerance-allowed"),
+    pytest.param("C1", "104J 50V X7R", (), "±5 % part for ±10 %: a tighter tolerance is allowed",
+                 id="tighter-tolerance"),
+])
+def test_a_part_that_may_go_says_what_it_gives_up_or_gains(lines, ref, marking, allow, note):
+    v = verdict(lines, ref, marking, allow)
+    assert v.refused is None
+    assert note in v.notes
+
+
+def test_an_electrolytic_at_an_unnamed_1uF_position_goes_with_a_polarity_note(lines):
+    v = verdict(lines, "C3", "10uF 25V electrolytic")
+    assert v.refused is None
+    assert any("fit it by the board's polarity mark" in n for n in v.notes)
+
+
+def test_a_matching_part_goes_without_notes(lines):
+    assert verdict(lines, "C1", "104K 50V X7R").refused is None
+    assert verdict(lines, "C2", "101J 50V C0G").notes == ()
+
+
+def test_in_a_pair_the_value_is_left_to_the_pair(lines):
+    m = decode("474K 50V X7R")
+    assert check_part(lines["C5"], m, m.capacitance_pf, in_pair=True).refused is None
+    assert check_part(lines["C5"], m, Decimal(100_000)).refused is None   # the pair's value is 100 nF
