@@ -11,6 +11,7 @@ import pytest
 from stock.errors import (BadLayout, BadOptions, BadSheet, BadValue, NotFound, Refused, StockError,
                           StoreProblem)
 
+
 # sentences written by hand from each error's fields
 @pytest.mark.parametrize("error, sentence", [
     pytest.param(BadSheet("drawer.csv", "no header row found"),

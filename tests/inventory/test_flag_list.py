@@ -32,7 +32,7 @@ def shop(store, tmp_path):
 def test_an_ambiguous_code_lists_its_readings_and_the_choice_to_make(shop):
     (view,) = list_flags(shop, kind="ambiguous-code")
     assert view.location == "H2" and view.marking == "47K"
-    assert [r.describe() for r in view.readings][0] == "47 pF ±10 %"
+    assert view.readings[0].describe() == "47 pF ±10 %"
     assert view.readings[1].capacitance_pf == 47_000
     assert view.settled_by == "reading"
     assert view.hint.startswith("measure it: 47 pF ±10 % or 47 nF")

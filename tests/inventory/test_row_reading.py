@@ -60,8 +60,8 @@ def test_a_bare_number_takes_the_unit_its_header_names(text, unit, result):
 
 
 @pytest.mark.parametrize("a, b, same", [
-    pytest.param(Decimal("4700"), Decimal("4700.0000001"), True, id="within-one-part-in-1e9"),
-    pytest.param(Decimal("4700"), Decimal("4701"), False, id="one-pF-apart"),
+    pytest.param(Decimal(4700), Decimal("4700.0000001"), True, id="within-one-part-in-1e9"),
+    pytest.param(Decimal(4700), Decimal(4701), False, id="one-pF-apart"),
     pytest.param(Decimal(0), Decimal(0), True, id="zero-equals-zero"),
 ])
 def test_same_value_allows_only_rounding(a, b, same):

@@ -12,6 +12,7 @@ import pytest
 
 from stock.store.flag_kinds import FLAG_KINDS, QUARANTINE_FIXES, FlagKind, flag_kind
 
+
 # the kinds named in DEVELOPERS.md, the README table and the decoder's docstrings
 @pytest.mark.parametrize("kind, settled_by", [
     pytest.param("ambiguous-code", "reading", id="ambiguous-code-takes-a-reading"),
