@@ -76,3 +76,17 @@ def test_a_typed_voltage_that_is_no_voltage_is_refused_naming_it_and_the_accepte
     assert message.startswith("--voltage: cannot read ")
     assert repr(text) in message
     assert "50V" in message and "6V3" in message
+
+
+def test_a_typed_value_that_reads_two_ways_is_refused_naming_both_readings():
+    # "100": the IEC 60062 three-digit code gives 10 x 10^0 = 10 pF; written literally it is 100 pF
+    with pytest.raises(BadValue) as info:
+        parse_capacitance("100")
+    assert str(info.value) == ("--value: cannot read '100' "
+                               "(expected one value with its unit; this reads as 10pF or 100pF)")
+
+
+def test_a_typed_value_with_a_tolerance_letter_is_refused():
+    # a marking's tolerance letter (K = ±10 %, IEC 60062) is no part of a typed value
+    with pytest.raises(BadValue, match=r"cannot read '104K'"):
+        parse_capacitance("104K")
