@@ -12,7 +12,9 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from importers.csv_sheet import read_text_sheet
 from importers.raw_sheet import RawSheet
+from importers.xlsx_sheet import read_workbook
 from stock.errors import BadSheet
 
 TEXT_EXTENSIONS = (".csv", ".tsv", ".txt")
@@ -81,7 +83,5 @@ def read_sheets(path: str | Path, sheet: str | None = None) -> list[RawSheet]:
     path = Path(path)
     kind = sniff_kind(path)
     if kind == "text":
-        from importers.csv_sheet import read_text_sheet
         return [read_text_sheet(path)]
-    from importers.xlsx_sheet import read_workbook
     return read_workbook(path, sheet)

@@ -65,6 +65,28 @@ def table_counts(store: Any) -> dict[str, int]:
     return {n: store.one(f"SELECT COUNT(*) AS n FROM {n}")["n"] for n in names}
 
 
+def ready_file(go: str | Path, name: str) -> Path:
+    """The file a child writes once it is ready for the start signal ``go``."""
+    return Path(f"{go}.{name}.ready")
+
+
+def start_when_ready(go: str | Path, names: list[str], children: list[Any] = (),
+                     seconds: float = 120) -> None:
+    """Wait until every named child has written its ready file, then write ``go``.
+
+    Polls every 5 ms instead of sleeping a fixed time, and fails at once if a child has died
+    (``children``: Popen objects or multiprocessing Processes) or after ``seconds``.
+    """
+    deadline = time.monotonic() + seconds
+    waiting = [ready_file(go, n) for n in names]
+    while not all(p.exists() for p in waiting):
+        ended = [c for c in children if (c.poll() if hasattr(c, "poll") else c.exitcode) is not None]
+        assert not ended, f"a child ended before it was ready: {ended}"
+        assert time.monotonic() < deadline, f"children never ready: {[p.name for p in waiting if not p.exists()]}"
+        time.sleep(0.005)
+    Path(go).write_text("go")
+
+
 def _log(path: Path, record: dict[str, Any]) -> None:
     with open(path, "a", encoding="utf-8") as fh:
         fh.write(json.dumps(record) + "\n")
@@ -95,6 +117,7 @@ def import_worker(db: str, folder: str, name: str, seconds: float, go: str, log:
             _log(Path(log), {"who": name, "import": version, "error": str(exc)})
 
     one_import(0)      # before the start: the cabinet exists, so every later import recounts
+    ready_file(go, name).write_text("ready")
     while not Path(go).exists():
         time.sleep(0.005)
     end = time.monotonic() + seconds
@@ -119,6 +142,7 @@ def kit_worker(db: str, bom: str, name: str, seconds: float, go: str, log: str) 
 
     rng = random.Random(name)
     store = open_store(db)
+    ready_file(go, name).write_text("ready")
     while not Path(go).exists():
         time.sleep(0.005)
     end = time.monotonic() + seconds
@@ -150,5 +174,5 @@ def kit_worker(db: str, bom: str, name: str, seconds: float, go: str, log: str) 
     store.close()
 
 
-__all__ = ["import_worker", "kit_worker", "ledger_mismatches", "scaled", "slow_factor",
-           "table_counts", "write_bin_sheet", "write_bom"]
+__all__ = ["import_worker", "kit_worker", "ledger_mismatches", "ready_file", "scaled", "slow_factor",
+           "start_when_ready", "table_counts", "write_bin_sheet", "write_bom"]

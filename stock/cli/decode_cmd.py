@@ -29,7 +29,8 @@ def decode(
         from stock.markings.colours import decode_colours as decoder   # the colour decoder loads only when asked
     else:
         from stock.markings.decoder import decode as decoder
-    from stock.markings.decoder import cautions, summary
+    from stock.markings.description import summary
+    from stock.markings.cautions import cautions
 
     for text in texts:
         marking = decoder(text)

@@ -12,28 +12,18 @@ from stock.decoded import Marking
 from stock.physics.drift import (
     TankDrift, TimerDrift, format_frequency, parse_frequency, parse_inductance, parse_kelvin, parse_period,
 )
+from stock.markings.description import brief
 from stock.markings.safety_classes import MAINS_CAUTION, read_safety_class
 from stock.physics.grading import APPLICATIONS, REFERENCE_C, Budget, conditions_from_text, pm
 from stock.physics.applications import load_rules
-from stock.units import format_capacitance, format_number, format_tolerance, format_voltage
+from stock.units import format_capacitance, format_number
 
 if TYPE_CHECKING:
     from stock.inventory.stored_grades import BinGrades
 
 
 def _describe_part(m: Marking) -> str:
-    facts = []
-    if m.capacitance_pf is not None:
-        facts.append(format_capacitance(m.capacitance_pf))
-    if m.tolerance is not None:
-        facts.append(format_tolerance(m.tolerance))
-    if m.voltage_v is not None:
-        facts.append(format_voltage(m.voltage_v, m.voltage_kind))
-    if m.dielectric is not None:
-        facts.append(m.dielectric.code)
-    if m.safety_class:
-        facts.append(m.safety_class)
-    return ", ".join(facts) or "nothing decoded"
+    return brief(m, ", ", missing_value="") or "nothing decoded"
 
 
 def _budget_lines(budget: Budget) -> list[str]:

@@ -46,7 +46,7 @@ def _format_stand_in(number: int, s) -> list[str]:  # noqa: ANN001  (a stock.mat
 
 def format_result(result) -> str:  # noqa: ANN001  (a stock.matching.replacement.ReplaceResult)
     """The answer in words: the original, what it implies, the stand-ins, then the cautions."""
-    from stock.markings.decoder import summary
+    from stock.markings.description import summary
 
     o = result.original
     source = f"bin {o.bin_key}: {o.marking.text}" if o.bin_key else o.text

@@ -29,6 +29,10 @@ import re
 from dataclasses import dataclass, replace
 from typing import Any, Iterable, Sequence
 
+from importers.headers import guess_field
+from stock.inventory.row_reading import cell_text, decode_cached
+from stock.markings.colour_codes import looks_like_colours
+
 SAMPLE_ROWS = 200          # non-blank rows looked at per sheet
 VALUE_SHARE = 0.6          # share of a column's cells that must decode as values
 WORDY_SHARE = 0.2          # ... of which this share must be more than a bare whole number
@@ -51,7 +55,6 @@ _REFERENCE_LIST = re.compile(rf"^{_DESIGNATOR}(?:\s*[,;]\s*{_DESIGNATOR}|\s+{_DE
 @dataclass(frozen=True)
 class ColumnProfile:
     """What the sampled cells of one column look like (shares of its non-blank cells)."""
-
     cells: int = 0
     value_share: float = 0.0
     wordy_share: float = 0.0       # values written with more than bare digits (units, letters)
@@ -93,15 +96,11 @@ class ColumnProfile:
 
 
 def _text(cell: Any) -> str:
-    from stock.inventory.row_reading import cell_text
     return cell_text(cell)
 
 
 def profile_column(cells: Iterable[Any]) -> ColumnProfile:
     """Profile one column's sampled cells (blank cells are left out of every share)."""
-    from stock.inventory.row_reading import decode_cached
-    from stock.markings.colour_codes import looks_like_colours
-
     texts = [t for t in (_text(c) for c in cells) if t]
     if not texts:
         return ColumnProfile()
@@ -216,7 +215,6 @@ def bom_evidence(headers: Sequence[str], profiles: Sequence[ColumnProfile]) -> s
     A column headed as the references of a BOM (``Refs``, ``Designator``), or one whose cells
     are reference designators, is what a BOM has and a bin sheet does not.
     """
-    from importers.headers import guess_field
 
     for header, profile in zip(headers, profiles):
         guess = guess_field(header, "bom")
@@ -235,8 +233,6 @@ def bom_evidence(headers: Sequence[str], profiles: Sequence[ColumnProfile]) -> s
 
 def bin_sheet_evidence(headers: Sequence[str], profiles: Sequence[ColumnProfile]) -> str | None:
     """Why a sheet looks like a bin sheet rather than a BOM (bins and counts, no references), or None."""
-    from importers.headers import guess_field
-
     if bom_evidence(headers, profiles) is not None:
         return None
     fields = {guess_field(h, "bins").field for h in headers}

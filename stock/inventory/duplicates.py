@@ -30,9 +30,10 @@ from typing import Any, Literal
 from stock.decoded import Marking
 from stock.errors import Refused
 from stock.inventory.readings import current_marking, readings
-from stock.store.flag_records import close_flags, who
 from stock.inventory.stock_checks import FlagRun, sync_flags
 from stock.store.database import Store
+from stock.store.flag_records import close_flags, who
+from stock.units import format_capacitance, format_tolerance, format_voltage
 
 # Similarity cut-offs (rapidfuzz ratio, 0-100). One wrong character in a 12-character marking
 # scores about 92, two score about 83; four-character codes that differ in one character
@@ -68,7 +69,6 @@ def _norm(text: str | None) -> str:
 @dataclass(frozen=True)
 class Duplicate:
     """Bins that hold the same part, or probably do (a typo)."""
-
     reason: Literal["same-part", "probable-typo"]
     bin_ids: tuple[int, ...]
     bin_keys: tuple[str, ...]
@@ -98,7 +98,6 @@ def find_duplicates(store: Store) -> list[Duplicate]:
     """Every group of bins holding the same part, then every probable-typo pair, in bin order."""
     from rapidfuzz import fuzz, process
 
-    from stock.units import format_capacitance
 
     parts = [p for p in store.rows(_PARTS_SQL) if not (p["merged_out"] and p["on_hand"] == 0)]
     found: list[Duplicate] = []
@@ -173,7 +172,6 @@ def _dec(value: float):
 
 
 def _describe(m: Marking) -> str:
-
     return readings(m)[0].describe()
 
 
@@ -187,8 +185,6 @@ def raise_duplicate_flags(store: Store) -> FlagRun:
 
 def fact_differences(a: Marking, b: Marking) -> list[str]:
     """The decoded facts on which two parts differ, in words ("voltage: 25 V DC vs 50 V DC")."""
-    from stock.units import format_capacitance, format_tolerance, format_voltage
-
     def cap(m: Marking) -> str | None:
         return None if m.capacitance_pf is None else format_capacitance(m.capacitance_pf)
 
@@ -214,7 +210,6 @@ def fact_differences(a: Marking, b: Marking) -> list[str]:
 @dataclass(frozen=True)
 class MergeResult:
     """What :func:`merge` moved and settled."""
-
     from_key: str
     into_key: str
     moved: int
@@ -269,7 +264,6 @@ def merge(store: Store, from_ref: str, into_ref: str, *, force: bool = False,
         if differ:
             warnings.append("merged although the parts differ: " + "; ".join(differ))
         if (ma.voltage_v is not None and mb.voltage_v is not None and ma.voltage_v < mb.voltage_v):
-            from stock.units import format_voltage
 
             warnings.append(f"parts rated {format_voltage(ma.voltage_v, ma.voltage_kind or 'DC')} now"
                             f" sit in a bin marked {format_voltage(mb.voltage_v, mb.voltage_kind or 'DC')};"

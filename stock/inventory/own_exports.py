@@ -20,7 +20,17 @@ from dataclasses import replace
 from decimal import Decimal, InvalidOperation
 from typing import Any, Sequence
 
-from stock.decoded import Marking
+from stock.decoded import FAMILIES, Marking, Tolerance
+from stock.inventory.row_reading import (
+    PART_COLUMNS,
+    agreed_by_claim,
+    cell_text,
+    decode_cached,
+    part_columns,
+    same_value,
+)
+from stock.markings.families import family_dielectric
+from stock.store.flag_records import close_flags, ledger_note
 
 # The headers that mark an inventory export (a subset of what the exporter writes; a test keeps
 # them in step with stock.sheets_out.exports.INVENTORY_COLUMNS).
@@ -56,8 +66,6 @@ def export_overrides(headers: Sequence[str]) -> dict[str, str]:
 
 
 def _decimal(cell: Any) -> Decimal | None:
-    from stock.inventory.row_reading import cell_text
-
     text = cell_text(cell)
     if not text:
         return None
@@ -69,7 +77,6 @@ def _decimal(cell: Any) -> Decimal | None:
 
 class ExportedFacts:
     """Reads the facts columns of an exported sheet and sets them on the decoded marking."""
-
     def __init__(self, headers: Sequence[str]):
         self.at = {h: i for i, h in enumerate(headers)}
 
@@ -78,13 +85,10 @@ class ExportedFacts:
         return None if i is None or i >= len(cells) else cells[i]
 
     def _text(self, cells: Sequence[Any], header: str) -> str:
-        from stock.inventory.row_reading import cell_text
         return cell_text(self._cell(cells, header))
 
     def marking(self, cells: Sequence[Any], decoded: Marking | None, text: str) -> tuple[Marking | None, bool]:
         """(the part's marking with the columns' facts, whether they differ from the decoding)."""
-        from stock.inventory.row_reading import agreed_by_claim, same_value
-
         base = decoded or Marking(text=text)
         pf = _decimal(self._cell(cells, "Capacitance (pF)"))
         if pf is None:
@@ -117,9 +121,6 @@ _PF_TOLERANCE = re.compile(r"^±\s*(\d+(?:\.\d+)?)\s*pF$")
 
 def _tolerance(text: str) -> Any:
     """A tolerance as the export writes it: ``±10 %``, ``+80/−20 %``, ``±0.25 pF``."""
-    from stock.decoded import Tolerance
-    from stock.inventory.row_reading import decode_cached
-
     if not text:
         return None
     pf = _PF_TOLERANCE.match(text)
@@ -135,10 +136,6 @@ def _same_tolerance(a: Any, b: Any) -> bool:
 
 
 def _dielectric(code: str, family: str, base: Marking) -> Any:
-    from stock.decoded import FAMILIES
-    from stock.markings.families import family_dielectric
-    from stock.inventory.row_reading import decode_cached
-
     if not code and not family:
         return None
     if base.dielectric is not None and base.dielectric.code == code and base.dielectric.family == family:
@@ -150,7 +147,6 @@ def _dielectric(code: str, family: str, base: Marking) -> Any:
 
 
 def _facts(m: Marking) -> tuple:
-    from stock.inventory.row_reading import part_columns
     cols = part_columns(m)
     return cols[:1] + cols[1:4] + cols[5:]    # the tolerance letter is not written in the export
 
@@ -161,8 +157,6 @@ def settle_from_export(store: Any, settled: Sequence[tuple[int, Marking]], file_
 
     Runs inside the import's transaction, after the sheet's rows are stored.
     """
-    from stock.inventory.row_reading import PART_COLUMNS, part_columns
-    from stock.store.flag_records import close_flags, ledger_note
 
     sets = ", ".join(f'"{c}" = ?' for c in PART_COLUMNS)
     for bin_id, marking in settled:

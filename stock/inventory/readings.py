@@ -14,9 +14,9 @@ from typing import Any
 from stock.decoded import Marking, Tolerance
 from stock.errors import BadValue
 from stock.inventory.bins import part_marking
+from stock.markings.description import brief_facts
 from stock.inventory.row_reading import PART_COLUMNS, part_columns as columns_in_order
 from stock.store.flag_kinds import flag_kind
-from stock.units import format_capacitance, format_tolerance, format_voltage
 
 
 @dataclass(frozen=True)
@@ -32,15 +32,7 @@ class Reading:
 
     def describe(self) -> str:
         """The reading in engineering units, e.g. ``"47 pF ±10 %"``; "no value" when none."""
-        words = [format_capacitance(self.capacitance_pf) if self.capacitance_pf is not None
-                 else "no value"]
-        if self.tolerance is not None:
-            words.append(format_tolerance(self.tolerance))
-        if self.voltage_v is not None:
-            words.append(format_voltage(self.voltage_v, "DC"))
-        if self.dielectric_code:
-            words.append(self.dielectric_code)
-        return " ".join(words)
+        return brief_facts(self.capacitance_pf, self.tolerance, self.voltage_v, "DC", self.dielectric_code)
 
     def to_json(self) -> dict[str, Any]:
         return {

@@ -15,13 +15,12 @@ import hashlib
 import json
 from typing import Any, Sequence
 
+from importers.headers import normalise
 from stock.store.database import Store, now
 
 
 def header_signature(headers: Sequence[str]) -> str:
     """A short digest of the cleaned headers, in order (two sheets with the same headers share it)."""
-    from importers.headers import normalise
-
     joined = "\x1f".join(normalise(h) for h in headers)
     return hashlib.sha256(joined.encode("utf-8")).hexdigest()[:32]
 

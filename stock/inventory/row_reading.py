@@ -29,9 +29,14 @@ from json.encoder import encode_basestring  # what json.dumps(..., ensure_ascii=
 from math import isfinite
 from typing import Any
 
-from stock.decoded import Alternative, Flag, Marking
 from stock.counts import MAX_COUNT, read_quantity
+from stock.decoded import Alternative, Flag, Marking
 from stock.errors import BadValue
+from stock.markings.colours import decode_colours
+from stock.markings.decoder import decode, merge_colours
+from stock.markings.packages import read_package
+from stock.markings.typed_values import parse_capacitance
+from stock.units import format_capacitance
 
 # Fields of the "bins" vocabulary whose text joins the marking, in the order it is written.
 MARKING_FIELDS = ("marking", "colours", "dielectric", "tolerance", "voltage", "safety_class",
@@ -63,7 +68,6 @@ def bin_key(cabinet: str, location: str) -> str:
 @lru_cache(maxsize=65536)
 def decode_cached(text: str) -> Marking:
     """:func:`stock.markings.decode` remembered per text: sheets repeat their markings a lot."""
-    from stock.markings.decoder import decode
     return decode(text)
 
 
@@ -117,7 +121,6 @@ _POLARITY_WORDS = {w: "" for w in ("yes", "y", "true", "x", "1", "no", "n", "fal
 
 @lru_cache(maxsize=4096)
 def _decode_colours_cached(text: str) -> Marking:
-    from stock.markings.colours import decode_colours
     return decode_colours(text)
 
 
@@ -159,7 +162,6 @@ def agreed_by_claim(marking: Marking, where: str, raw: str) -> Marking:
     >>> m.flag_kinds(), m.alternatives[-1].reason
     (set(), 'the label says 10p, agreeing with the reading chosen')
     """
-    from stock.units import format_capacitance
 
     nominal = marking.capacitance_pf
     others = {format_capacitance(a.capacitance_pf) for a in marking.alternatives
@@ -195,7 +197,6 @@ def package_facts(package: str | None, mounting: str | None, said_package: str |
     >>> package_facts(None, "THT", "0603", "SMD")[2]
     "the mounting column says THT, the marking or description says SMD ('0603')"
     """
-    from stock.markings.packages import read_package
 
     column = read_package(" ".join(t for t in (package, mounting) if t)) if (package or mounting) else None
     said = read_package(said_package) if said_package else None
@@ -219,7 +220,6 @@ def label_value(label: str) -> tuple[str, Decimal] | None:
     >>> label_value("Box 4n7 C0G")
     ('4n7', Decimal('4700'))
     """
-    from stock.markings.typed_values import parse_capacitance
     for match in _VALUE_TOKEN.finditer(label):
         token = match.group(0).replace(" ", "")
         try:
@@ -354,7 +354,6 @@ class RowReader:
         rest = decode_cached(text) if text else None
         if rest is not None and rest.capacitance_pf is not None:
             return full, rest.with_flags(*_colours_unused(colours))
-        from stock.markings.decoder import merge_colours
         return full, merge_colours(_decode_colours_cached(colours), rest, full)
 
     @staticmethod
@@ -378,7 +377,6 @@ class RowReader:
             if same_value(other, nominal):
                 marking = agreed_by_claim(marking, where, raw)
                 continue
-            from stock.units import format_capacitance
             message = (f"{where} says {format_capacitance(other)} ({raw!r}), the marking {text!r}"
                        f" says {format_capacitance(nominal)}; kept the marking's reading")
             marking = replace(marking, alternatives=marking.alternatives + (

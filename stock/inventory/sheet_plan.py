@@ -25,13 +25,26 @@ from itertools import chain, islice
 from pathlib import Path
 from typing import Any, Sequence
 
+from importers.headers import map_headers, normalise
+from importers.sheet import read_sheets
 from stock.errors import BadSheet, BadValue
+from stock.inventory.column_content import (
+    SAMPLE_ROWS,
+    bin_sheet_evidence,
+    bom_evidence,
+    describe_columns,
+    label_holds_values,
+    map_by_content,
+    profile_sheet,
+)
+from stock.inventory.own_exports import export_overrides, is_own_export
+from stock.inventory.remembered_mappings import remembered_mapping
+from stock.inventory.row_reading import cell_text
 
 
 @dataclass(frozen=True)
 class MapRule:
     """One ``--map`` rule: read ``field`` from ``header`` (in ``sheet`` only, when given)."""
-
     sheet: str | None
     field: str
     header: str
@@ -62,8 +75,6 @@ def _names_sheet(rule: MapRule, path: Path, sheet: str | None) -> bool:
 def rules_for(rules: Sequence[MapRule], path: Path, sheet: str | None,
               headers: Sequence[str]) -> dict[str, str]:
     """The ``{field: header}`` overrides that apply to one sheet (targeted rules win)."""
-    from importers.headers import normalise
-
     present = {normalise(h) for h in headers} | set(headers)
     out: dict[str, str] = {}
     for rule in rules:
@@ -103,7 +114,6 @@ def check_rules_across(rules: Sequence[MapRule], paths: Sequence[Path], sheet: s
         BadValue: naming the rule and the headers (or sheets) there are.
         BadSheet: a file cannot be read.
     """
-    from importers.sheet import read_sheets
 
     seen = [(Path(p), s.sheet, s.headers) for p in paths for s in read_sheets(Path(p), sheet)]
     left = unmatched_rules(rules, seen)
@@ -119,9 +129,6 @@ def refuse_bin_sheet_as_bom(path: str | Path, sheet: str | None = None) -> None:
     Raises:
         BadSheet: the sheet has bin columns and no references column.
     """
-    from importers.sheet import read_sheets
-    from stock.inventory.column_content import SAMPLE_ROWS, bin_sheet_evidence, profile_sheet
-    from stock.inventory.row_reading import cell_text
 
     sheets = read_sheets(Path(path), sheet)
     if not sheets:
@@ -165,12 +172,6 @@ def plan_sheet(store: Any, path: Path, raw_sheet: Any, rules: Sequence[MapRule] 
         BadSheet: the sheet looks like a BOM (unless ``force``).
         BadValue: a ``--map`` rule names an unknown field or a header twice.
     """
-    from importers.headers import map_headers
-    from stock.inventory.column_content import (SAMPLE_ROWS, bom_evidence, describe_columns,
-                                                label_holds_values, map_by_content, profile_sheet)
-    from stock.inventory.own_exports import export_overrides, is_own_export
-    from stock.inventory.remembered_mappings import remembered_mapping
-    from stock.inventory.row_reading import cell_text
 
     headers = [cell_text(h) for h in raw_sheet.headers]
     rows = iter(raw_sheet.rows)

@@ -15,6 +15,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
+from importers.xlsx_sheet import open_workbook
 from stock.counts import read_quantity
 from stock.errors import BadSheet
 from stock.store.database import Store
@@ -29,7 +30,6 @@ def is_count_sheet(path: Path) -> bool:
     """Whether a file is a stock-take sheet this tool wrote (its hidden marker)."""
     if path.suffix.lower() not in (".xlsx", ".xlsm"):
         return False
-    from importers.xlsx_sheet import open_workbook
 
     try:
         wb = open_workbook(path)
@@ -86,7 +86,6 @@ def apply_count_sheet(store: Store, path: Path, *, dry_run: bool = False) -> Cou
     Raises:
         BadSheet: a counted cell is not a whole number ≥ 0, or a bin is unknown (nothing is recorded).
     """
-    from importers.xlsx_sheet import open_workbook
 
     file = str(path)
     try:

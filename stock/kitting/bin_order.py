@@ -30,6 +30,7 @@ from typing import Any
 from stock.decoded import Marking
 from stock.inventory.bins import natural_key
 from stock.kitting.requirement_reading import POLARISED_FAMILIES
+from stock.units import format_number, format_voltage
 
 GRADE_RANK = {"fit": 0, "marginal": 1, "unknown": 2}
 
@@ -62,7 +63,6 @@ VERY_HIGH_RATING_V = Decimal(1000)
 @dataclass(frozen=True)
 class Candidate:
     """A bin that could feed a line: what it holds, how many are free, its grade and its standing."""
-
     bin_id: int
     bin_key: str
     location: str | None
@@ -147,7 +147,6 @@ def capability(line: Any, marking: Marking, capacitance_pf: Decimal | None) -> t
     >>> capability(line, decode("X2 104K 275VAC"), Decimal(100000))[1]
     ('safety-rated X2', '275 V AC rating')
     """
-    from stock.units import format_voltage
 
     words: list[str] = []
     safety = 0
@@ -172,7 +171,6 @@ def capability(line: Any, marking: Marking, capacitance_pf: Decimal | None) -> t
         part_tol = max(sides) if sides else None
         tolerance = max(0, _tightness(part_tol) - _tightness(line.tol_pct))
         if tolerance and part_tol is not None:
-            from stock.units import format_number
             words.append(f"±{format_number(part_tol)} % tolerance")
     voltage = 0
     rating = marking.voltage_v

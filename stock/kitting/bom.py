@@ -33,14 +33,29 @@ from decimal import Decimal
 from pathlib import Path
 from typing import Any
 
-from stock.decoded import Dielectric
+from importers.headers import map_headers
+from importers.sheet import read_sheets
 from stock.counts import read_quantity
+from stock.decoded import Dielectric
 from stock.errors import BadSheet, BadValue, StockError
-from stock.kitting.bom_conventions import (CAPACITOR_KIND_WORDS, REF_KINDS, do_not_fit_word, expand_refs,
-                                           not_fitted_reason, part_kind, quantity_remark,
-                                           split_package_words)
-from stock.kitting.requirement_reading import (APPLICATION_WORDS, DOUBTFUL_FLAGS, POLARISED_FAMILIES,
-                                               SAFETY_CLASS_RE, Unreadable, read_requirement)
+from stock.kitting.bom_conventions import (
+    CAPACITOR_KIND_WORDS,
+    REF_KINDS,
+    do_not_fit_word,
+    expand_refs,
+    not_fitted_reason,
+    part_kind,
+    quantity_remark,
+    split_package_words,
+)
+from stock.kitting.requirement_reading import (
+    APPLICATION_WORDS,
+    DOUBTFUL_FLAGS,
+    POLARISED_FAMILIES,
+    SAFETY_CLASS_RE,
+    Unreadable,
+    read_requirement,
+)
 from stock.markings.packages import PackageFacts, read_package
 
 MAX_QTY_PER_BOARD = 1_000_000   # beyond this a quantity is a typo (keeps every need in 64 bits)
@@ -49,7 +64,6 @@ MAX_QTY_PER_BOARD = 1_000_000   # beyond this a quantity is a typo (keeps every 
 @dataclass(frozen=True)
 class BomProblem:
     """Why a requirement could not be read: where it is and what was written."""
-
     row: int
     column: str | None
     raw: str
@@ -103,7 +117,6 @@ class BomLine:
 @dataclass(frozen=True)
 class Bom:
     """A whole BOM: its lines in file order and how its headers were understood."""
-
     file: str
     sheet: str | None
     lines: tuple[BomLine, ...]
@@ -151,7 +164,6 @@ def _quantity(text: str) -> int:
 
 class _LineReader:
     """Turns the cells of one row into a :class:`BomLine` (one object per BOM, holding the map)."""
-
     def __init__(self, field_to_index: dict[str, int], headers: tuple[str, ...],
                  units: dict[str, str]):
         self.index = field_to_index
@@ -264,8 +276,6 @@ def read_bom(path: str | Path, *, sheet: str | None = None,
     Raises:
         BadSheet: the file cannot be read, or no column holds a value or marking.
     """
-    from importers.headers import map_headers
-    from importers.sheet import read_sheets
 
     sheets = read_sheets(path, sheet)
     if not sheets:

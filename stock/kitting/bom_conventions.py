@@ -26,6 +26,8 @@ from __future__ import annotations
 import re
 from collections.abc import Iterable
 
+from stock.markings.packages import read_package
+
 # Reference-designator letters and the part kind they name; from memory of IEEE 315 and
 # IEC 81346-2 usage in BOMs (common practice, no single published table for hobby BOMs).
 REF_KINDS: tuple[tuple[str, str], ...] = (
@@ -196,7 +198,6 @@ def split_package_words(value_text: str) -> tuple[str, str]:
     >>> split_package_words("100u 25V radial")
     ('100u 25V', 'radial')
     """
-    from stock.markings.packages import read_package
 
     text = re.sub(r"/(?=[A-Za-z])", " ", value_text)      # "22p/C0G", but not "+80/-20%"
     keep, package = [], []

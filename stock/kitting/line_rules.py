@@ -34,9 +34,11 @@ from decimal import Decimal
 from typing import Any
 
 from stock.decoded import Marking
-from stock.inventory.bins import natural_key
+from stock.inventory.bins import natural_key, part_marking
 from stock.kitting.bin_order import GRADE_RANK, Candidate, choose_bins
 from stock.kitting.bom import POLARISED_FAMILIES, BomLine
+from stock.markings.safety_classes import MAINS_CAUTION, covers
+from stock.units import format_capacitance, format_number, format_voltage
 
 ALLOWANCES = ("looser-tolerance", "lower-class")
 POLARISED_FROM_PF = Decimal(1_000_000)   # 1 µF (common practice, no published source)
@@ -46,14 +48,11 @@ HIGH_VOLTAGE_V = Decimal(50)   # above this a charged part can hurt (common prac
 @dataclass(frozen=True)
 class Verdict:
     """Whether a part may go on a line: ``refused`` is the reason it may not; ``notes`` explain."""
-
     refused: str | None
     notes: tuple[str, ...] = ()
 
 
 def _fmt_pct(value: Decimal) -> str:
-    from stock.units import format_number
-
     return f"±{format_number(value)} %"
 
 
@@ -76,13 +75,11 @@ def check_part(line: BomLine, marking: Marking, capacitance_pf: Decimal | None,
     >>> check_part(line, Marking("104", capacitance_pf=Decimal(100000)), Decimal(100000)).refused
     'not safety-rated; the mains line needs X2'
     """
-    from stock.units import format_capacitance, format_voltage
 
     notes: list[str] = []
     dielectric = marking.dielectric
     # Mains and tuned rules first: no allowance relaxes them.
     if line.safety_class:
-        from stock.markings.safety_classes import covers
 
         if not marking.safety_class:
             return Verdict(f"not safety-rated; the mains line needs {line.safety_class}")
@@ -217,15 +214,11 @@ def _dielectric_rule(line: BomLine, marking: Marking, allow: frozenset[str],
 
 
 def _tempco_text(d: Any) -> str:
-    from stock.units import format_number
-
     tol = f"±{format_number(d.tempco_tol_ppm_per_k)}" if d.tempco_tol_ppm_per_k is not None else ""
     return f"{format_number(d.tempco_ppm_per_k)}{tol} ppm/K"
 
 
 def _want_text(line: BomLine) -> str:
-    from stock.units import format_number
-
     if line.tempco_min is not None:
         return f"{format_number(line.tempco_min)}…{format_number(line.tempco_max)} ppm/K"
     return line.dielectric.code if line.dielectric else "Class 1"
@@ -284,7 +277,6 @@ def cautions_for(store: Any, lines: Any) -> tuple[str, ...]:
     Read from the parts held for the plan (their stored markings) and from what the lines ask
     (a polarised or mains line carries its caution even when it is short).
     """
-    from stock.inventory.bins import part_marking
 
     families: dict[str, list[str]] = defaultdict(list)
     marked: list[str] = []
@@ -333,7 +325,6 @@ def cautions_for(store: Any, lines: Any) -> tuple[str, ...]:
                         " they can hold a dangerous charge long after power is removed; discharge"
                         " each through a suitable resistor and check with a meter before handling.")
     if mains:
-        from stock.markings.safety_classes import MAINS_CAUTION
 
         cautions.append("Mains positions (" + "; ".join(mains) + "): " + MAINS_CAUTION + ".")
     return tuple(cautions)

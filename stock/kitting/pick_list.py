@@ -16,14 +16,16 @@ from collections import OrderedDict
 from dataclasses import dataclass
 from typing import Any
 
-from stock.kitting.stored_plans import KitPlan, load_plan
 from stock.kitting.line_rules import natural_key
+from stock.kitting.stored_plans import KitPlan, load_plan
+from stock.markings.packages import read_package
 from stock.store.database import Store
+from stock.units import format_capacitance
+
 
 @dataclass(frozen=True)
 class PickRow:
     """One stop on the walk: a bin, what it is marked, how many to take, for which positions."""
-
     location: str | None
     bin_key: str
     marking: str
@@ -41,7 +43,6 @@ class PickRow:
 @dataclass(frozen=True)
 class PickList:
     """The rows of a plan's pick list and the cautions to read before handling the parts."""
-
     plan: int
     status: str
     boards: int
@@ -60,8 +61,6 @@ class PickList:
 
 def _package_words(part: Any) -> str:
     """A bin's package as the picker reads it: the decoded facts, else the text as given."""
-    from stock.markings.packages import read_package
-
     text = " ".join(t for t in ((part or {}).get("package"), (part or {}).get("mounting")) if t)
     if not text:
         return ""
@@ -75,7 +74,6 @@ def pick_list(store: Store, plan: int | str | KitPlan) -> PickList:
     Raises:
         NotFound: no such plan.
     """
-    from stock.units import format_capacitance
 
     kit = plan if isinstance(plan, KitPlan) else load_plan(store, plan)
     by_bin: OrderedDict[int, dict[str, Any]] = OrderedDict()

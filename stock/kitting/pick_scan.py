@@ -13,6 +13,7 @@ from collections.abc import Iterable
 from dataclasses import dataclass
 
 from stock.errors import Refused, StockError
+from stock.kitting.pick_list import pick_list
 from stock.kitting.stored_plans import KitAction, pull_plan
 from stock.store.database import Store
 
@@ -20,7 +21,6 @@ from stock.store.database import Store
 @dataclass(frozen=True)
 class PickScan:
     """The answer to one scan: the bin it named (if any), the parts to take from it, what is left."""
-
     text: str
     bin_key: str | None
     take: int                 # parts the plan holds in this bin; 0 when the bin is not in the plan
@@ -40,7 +40,6 @@ def plan_picks(store: Store, plan: int | str) -> dict[str, int]:
         NotFound: no such plan.
         Refused: the plan is not reserved (pulled, dropped or returned already).
     """
-    from stock.kitting.pick_list import pick_list
 
     picks = pick_list(store, plan)
     if picks.status != "reserved":

@@ -39,14 +39,25 @@ from decimal import Decimal
 from pathlib import Path
 from typing import Any
 
-from stock.kitting.bom import Bom, BomLine, BomProblem, read_bom
 from stock.decoded import Marking
 from stock.errors import BadValue
-from stock.kitting.stored_plans import KitPlan, load_plan
+from stock.inventory.bins import part_marking
 from stock.kitting.bin_order import capability, order_notes
+from stock.kitting.bom import Bom, BomLine, BomProblem, read_bom
 from stock.kitting.line_rules import ALLOWANCES, Candidate, Verdict, check_part, choose_bins
+from stock.kitting.stored_plans import KitPlan, load_plan
+from stock.markings.packages import fits, read_package
+from stock.markings.safety_classes import read_safety_class
+from stock.matching.search import Requirement, candidates, find
+from stock.physics.grading import Conditions
 from stock.store.database import Store, now
-
+from stock.units import (
+    format_capacitance,
+    format_number,
+    format_voltage,
+    parse_percent,
+    parse_temperature_range,
+)
 
 # Limits that keep every need inside SQLite's 64-bit INTEGER with room to spare (a plan for more
 # than a million boards is a typo, not a build).
@@ -57,7 +68,6 @@ MAX_SPARE_PCT = 1000
 @dataclass(frozen=True)
 class KitOptions:
     """How to plan: boards, spare (% of the need, rounded up), conditions, pairs and allowances."""
-
     boards: int
     spare_pct: Decimal = Decimal(0)
     temp_min_c: Decimal | None = None
@@ -86,8 +96,6 @@ class KitOptions:
         return base + math.ceil(Decimal(base) * self.spare_pct / 100)
 
     def conditions(self) -> Any:
-        from stock.physics.grading import Conditions
-
         if self.temp_min_c is None or self.temp_max_c is None:
             return Conditions()
         return Conditions(temp_min_c=self.temp_min_c, temp_max_c=self.temp_max_c)
@@ -109,7 +117,6 @@ def kit_options(boards: int, *, temp: str | None = None, spare: str | None = Non
     >>> kit_options(5, temp="-10..60", spare="5%").to_json()["temp_min_c"]
     -10.0
     """
-    from stock.units import parse_percent, parse_temperature_range
 
     low = high = None
     if temp:
@@ -127,7 +134,6 @@ def _search_requirement(line: BomLine, options: KitOptions) -> Any:
     after fit ones (grading calls every X-only part marginal for mains, as it may not go
     line to earth; the class check here keeps it to the class the line names).
     """
-    from stock.matching.search import Requirement
 
     allow = options.allow
     lower_ok = "lower-class" in allow and line.application not in ("tuned", "mains")
@@ -149,7 +155,6 @@ def _search_safety(wanted: str | None) -> str | None:
 
     :func:`stock.kit_rules.check_part` then checks every class named.
     """
-    from stock.markings.safety_classes import read_safety_class
 
     reading = read_safety_class(wanted) if wanted else None
     return reading.code if reading else None
@@ -157,9 +162,6 @@ def _search_safety(wanted: str | None) -> str | None:
 
 def describe_line(line: BomLine, options: KitOptions, qty: int = 1) -> str:
     """The line's full requirement in words, for ordering what is short."""
-    from stock.matching.search import Requirement
-    from stock.units import format_voltage
-
     code = line.dielectric.code if line.dielectric is not None else None
     req = Requirement(
         capacitance_pf=line.capacitance_pf,
@@ -179,8 +181,6 @@ def describe_line(line: BomLine, options: KitOptions, qty: int = 1) -> str:
 
 
 def _marking_of(store: Store, bin_id: int) -> tuple[Marking, str, dict[str, Any]] | None:
-    from stock.inventory.bins import part_marking
-
     row = store.one("SELECT p.*, b.bin_key, b.location FROM parts p JOIN bins b ON b.id = p.bin_id"
                     " WHERE p.bin_id = ?", (bin_id,))
     if row is None:
@@ -210,8 +210,6 @@ def _hold(store: Store, plan_id: int, line_id: int, bin_id: int, qty: int) -> No
 
 def _packages(store: Store, bin_ids: list[int]) -> dict[int, Any]:
     """Each bin's package facts, read from the package and mounting the store holds for it."""
-    from stock.markings.packages import read_package
-
     found: dict[int, Any] = {}
     for start in range(0, len(bin_ids), 500):
         chunk = bin_ids[start:start + 500]
@@ -232,8 +230,6 @@ def _pool(store: Store, line: BomLine, options: KitOptions, req: Any,
 
     With ``to_measure``, the bins whose tolerance is not marked for a line that names one.
     """
-    from stock.markings.packages import fits
-    from stock.matching.search import candidates
 
     refused: list[str] = []
     misfits: list[str] = []
@@ -272,8 +268,6 @@ def _pool(store: Store, line: BomLine, options: KitOptions, req: Any,
 
 
 def _tol_text(value: Decimal | None) -> str:
-    from stock.units import format_number
-
     return "no tolerance" if value is None else f"±{format_number(value)} %"
 
 
@@ -319,15 +313,12 @@ def _singles(store: Store, line: BomLine, options: KitOptions, need: int,
     if sum(taken.values()) < need and refused:
         notes.append(_listed("not used", refused))
     elif not taken and not pool and not misfits:
-        from stock.matching.search import find
 
         notes.extend(f"no single part: {why}" for why in find(store, req).explanation[:2])
     return taken
 
 
 def _pair_text(combo: Any) -> str:
-    from stock.units import format_capacitance
-
     parts = []
     for p in combo.parts:
         parts.append(f"{format_capacitance(p.capacitance_pf)} from {p.bin_key}"
@@ -343,7 +334,6 @@ def _pairs(store: Store, plan_id: int, line_id: int, line: BomLine, options: Kit
 
     Returns the positions filled.
     """
-    from stock.matching.search import find
 
     filled = 0
     refused: list[str] = []

@@ -19,6 +19,14 @@ from typing import Any
 
 from stock.decoded import Dielectric, Marking
 from stock.errors import BadValue, StockError
+from stock.markings.ceramic_codes import decode_dielectric
+from stock.markings.decoder import decode
+from stock.markings.families import decode_family
+from stock.markings.tolerance_codes import read_explicit_tolerance, read_tolerance_letter
+from stock.markings.typed_values import parse_capacitance, parse_voltage
+from stock.matching.search import parse_tempco_window
+from stock.physics.grading import APPLICATIONS
+from stock.units import format_capacitance, parse_percent
 
 SAFETY_CLASS_RE = re.compile(r"\b(X1Y[12]|X[123]|Y[1-4])\b", re.IGNORECASE)
 # Words BOMs use for the job a part does, mapped onto grading's applications
@@ -40,15 +48,12 @@ _POLAR_WORDS = re.compile(r"\b(polari[sz]ed|electrolytic|elko|elco|tantalum|tant
 
 class Unreadable(StockError, ValueError):
     """A requirement cell that does not read; ``column`` is the field name."""
-
     def __init__(self, column: str, raw: str, reason: str):
         super().__init__(f"{column}: {reason}")
         self.column, self.raw, self.reason = column, raw, reason
 
 
 def _application(text: str) -> str:
-    from stock.physics.grading import APPLICATIONS
-
     word = text.strip().lower()
     word = APPLICATION_WORDS.get(word, word)
     if word not in APPLICATIONS:
@@ -58,15 +63,10 @@ def _application(text: str) -> str:
 
 
 def _dielectric_token(text: str) -> Dielectric | None:
-    from stock.markings.ceramic_codes import decode_dielectric
-    from stock.markings.families import decode_family
-
     return decode_dielectric(text.strip()) or decode_family(text.strip())
 
 
 def _tempco_window(text: str) -> tuple[Decimal, Decimal]:
-    from stock.matching.search import parse_tempco_window
-
     return parse_tempco_window(text)
 
 
@@ -76,8 +76,6 @@ def _tolerance_pct(text: str, capacitance_pf: Decimal) -> Decimal:
     An asymmetric tolerance counts by its larger side. A letter whose meaning tables dispute is
     refused: a plan must not rest on a guess.
     """
-    from stock.markings.tolerance_codes import read_explicit_tolerance, read_tolerance_letter
-    from stock.units import parse_percent
 
     token = text.strip().replace(" ", "").replace("+/-", "±").replace("+-", "±")
     tol = read_explicit_tolerance(token) or read_explicit_tolerance("±" + token.lstrip("±"))
@@ -99,10 +97,6 @@ def _tolerance_pct(text: str, capacitance_pf: Decimal) -> Decimal:
 
 def _value_and_marking(value_text: str, marking_text: str) -> tuple[Decimal, Marking | None, list[str]]:
     """The capacitance the value and marking columns agree on, the marking read, remarks."""
-    from stock.markings.decoder import decode
-    from stock.markings.typed_values import parse_capacitance
-    from stock.units import format_capacitance
-
     remarks: list[str] = []
     marking = None
     capacitance: Decimal | None = None
@@ -153,8 +147,6 @@ def _from_marking(marking: Marking, capacitance: Decimal, out: dict[str, Any]) -
 
 
 def _voltage_column(text: str, out: dict[str, Any]) -> None:
-    from stock.markings.typed_values import parse_voltage
-
     safety = SAFETY_CLASS_RE.search(text)     # "275VAC X2" in one cell
     if safety:
         out["safety_class"] = safety.group(1).upper()

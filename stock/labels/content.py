@@ -26,6 +26,9 @@ from typing import Any
 
 from stock.decoded import Dielectric, Marking, Tolerance
 from stock.errors import BadValue, NotFound, Refused
+from stock.inventory.bins import bin_parts, bins_changed_since, open_flag_kinds
+from stock.inventory.stored_grades import refresh_stored_grades, stored_grade_words
+from stock.physics.applications import load_rules
 from stock.scan_codes import bin_payload
 from stock.units import format_capacitance, format_number, format_tolerance, format_voltage
 
@@ -46,7 +49,6 @@ POLARITY_TEXT = {"positive-marked": "+ lead marked", "negative-marked": "− lea
 @dataclass(frozen=True)
 class LabelFacts:
     """Everything printed on one bin's label, as text (``None`` where the store does not know)."""
-
     bin_id: int
     bin_key: str
     location: str | None
@@ -168,9 +170,6 @@ def select_labels(store, refs: Sequence[str] = (), *, flagged: bool = False,
         Refused: nothing is left to label.
         BadValue: ``changed_since`` is not a date.
     """
-    from stock.physics.applications import load_rules
-    from stock.inventory.stored_grades import refresh_stored_grades, stored_grade_words
-    from stock.inventory.bins import bin_parts, bins_changed_since, open_flag_kinds
 
     wanted: list[int] | None = None
     if refs:

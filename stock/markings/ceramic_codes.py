@@ -33,7 +33,8 @@ from decimal import Decimal
 
 from stock.decoded import Alternative, Dielectric, Flag
 
-# EIA-198 Class 1, first letter: significant figure of α. Confirmed by several sources (§1a).
+# EIA-198 Class 1, first letter: significant figure of α. Confirmed by several sources ([EIA-198] Class 1
+# figure letters).
 CLASS1_FIGURE: dict[str, Decimal] = {
     "C": Decimal("0.0"),
     "B": Decimal("0.3"),
@@ -66,7 +67,7 @@ CLASS1_DISPUTED_MULTIPLIER: dict[str, tuple[int | None, int | None]] = {
     "9": (None, 10000),
 }
 
-# EIA-198 Class 1, last letter: tolerance on α in ppm/K (§1c).
+# EIA-198 Class 1, last letter: tolerance on α in ppm/K ([EIA-198] Class 1 tolerance letters).
 CLASS1_TOLERANCE: dict[str, Decimal] = {
     "G": Decimal(30),
     "H": Decimal(60),
@@ -77,13 +78,13 @@ CLASS1_TOLERANCE: dict[str, Decimal] = {
     "N": Decimal(2500),
 }
 
-# EIA-198 Class 2/3, first letter: low end of the temperature range, °C (§2).
+# EIA-198 Class 2/3, first letter: low end of the temperature range, °C ([EIA-198] Class 2).
 CLASS2_LOW: dict[str, Decimal] = {
     "X": Decimal(-55),
     "Y": Decimal(-30),
     "Z": Decimal(10),
 }
-# EIA-198 Class 2/3, digit: high end of the temperature range, °C (§2). 9 from one source only.
+# EIA-198 Class 2/3, digit: high end of the temperature range, °C ([EIA-198] Class 2). 9 from one source only.
 CLASS2_HIGH: dict[str, Decimal] = {
     "2": Decimal(45),
     "4": Decimal(65),
@@ -95,7 +96,8 @@ CLASS2_HIGH: dict[str, Decimal] = {
 }
 CLASS2_DISPUTED_HIGH: dict[str, Decimal] = {"3": Decimal(55)}   # from memory only, no source found
 
-# EIA-198 Class 2/3, last letter: (minus %, plus %) magnitudes of the change over the range (§2).
+# EIA-198 Class 2/3, last letter: (minus %, plus %) magnitudes of the change over the range ([EIA-198] Class
+# 2).
 CLASS2_CHANGE: dict[str, tuple[Decimal, Decimal]] = {
     "A": (Decimal("1.0"), Decimal("1.0")),
     "B": (Decimal("1.5"), Decimal("1.5")),
@@ -113,9 +115,10 @@ CLASS2_CHANGE: dict[str, tuple[Decimal, Decimal]] = {
 }
 CLASS2_DISPUTED_CHANGE: dict[str, tuple[Decimal, Decimal]] = {"S": (Decimal(20), Decimal(20))}
 
-# Old industry names -> nominal α ppm/K and the EIA code usually meant (§1d). Tolerance is left
-# unknown except for NP0, which every source equates with C0G. N033 is S1G (3.3 × −10): the
-# Wikipedia-style "H2G" is no code, H being no EIA figure letter (§1a); derived from the table.
+# Old industry names -> nominal α ppm/K and the EIA code usually meant ([EIA-198] old names
+# ([parameters-page], [latvian-codes])). Tolerance is left unknown except for NP0, which every
+# source equates with C0G. N033 is S1G (3.3 × −10): the encyclopaedia-style "H2G" is no code, H
+# being no EIA figure letter ([EIA-198] figure letters); derived from the table.
 OLD_CLASS1_NAMES: dict[str, tuple[Decimal, str]] = {
     "P100": (Decimal(100), "M7G"),
     "NP0": (Decimal(0), "C0G"),
@@ -270,7 +273,7 @@ def assumed_tempco_tolerance(alpha: Decimal) -> tuple[Decimal, str]:
     """The tolerance on α a worst case assumes for a tempco given without one, and why.
 
     The one table for it: an old name's EIA-198 equivalent (:data:`OLD_CLASS1_NAMES`, the published
-    one where a second is only remembered: N150 is P2G in S1, P2H from memory); an α no name
+    one where a second is only remembered: N150 is P2G in [parameters-page], P2H from memory); an α no name
     carries takes the tolerance of the next name of larger magnitude (common practice, no
     published source), ±1000 ppm/K past N4700. :func:`usual_tempco_tolerance` reads the same table.
 

@@ -1,15 +1,16 @@
 """Colour bands and dots on capacitors: IEC 60062 colour figures, tempco bands and top dots.
 
 The colour figures and multipliers are those of the IEC 60062 colour code as the capacitor tables
-reproduce it (value in pF; the tutorial tables keyed S19, S20, S21 in the project's code
-reference). The layouts:
+reproduce it (value in pF; the tutorial tables keyed [colour-tutorial-a], [colour-tables-b],
+[colour-identification-c] in docs/sources.md). The layouts:
 
 - three or four bands: two significant figures, a multiplier, then the tolerance. ``yellow violet
   brown`` is 47 × 10 = 470 pF; ``brown black orange silver`` is 10 nF ±10 %. With no tolerance band
-  the tables read ±20 % (S20).
+  the tables read ±20 % ([colour-tables-b]).
 - tubular ceramic, read from the (wide) tempco band: tempco, two figures, multiplier, tolerance.
   ``violet yellow violet black green`` is N750, 47 pF ±5 %. A tolerance colour means pF when the
-  value is at most 10 pF and % above it (threshold 10 pF, as the S19/S20/S21 tables print it). A
+  value is at most 10 pF and % above it (threshold 10 pF, as the
+  [colour-tutorial-a]/[colour-tables-b]/[colour-identification-c] tables print it). A
   two-colour tempco (``red violet`` = P100) makes it six bands.
 - disc or plate ceramic: the value bands plus a top dot or band for the tempco:
   ``brown black orange, top dot black`` is 10 nF NP0.
@@ -37,10 +38,12 @@ from stock.markings.colour_words import COLOURS, ColourText, base_colour, parse_
 from stock.decoded import Dielectric, Flag, Tolerance
 from stock.units import format_capacitance, format_tolerance
 
-# IEC 60062 colour figures (S19, S20, S21): black 0, brown 1 … white 9, in COLOURS order.
+# IEC 60062 colour figures ([colour-tutorial-a], [colour-tables-b], [colour-identification-c]): black 0, brown
+# 1 … white 9, in COLOURS order.
 DIGIT: dict[str, int] = {colour: figure for figure, colour in enumerate(COLOURS[:10])}
 
-# Multiplier in pF, ceramic reading (S19, S20; green and blue from S19 only; violet has none).
+# Multiplier in pF, ceramic reading ([colour-tutorial-a], [colour-tables-b]; green and blue from
+# [colour-tutorial-a] only; violet has none).
 MULTIPLIER: dict[str, Decimal] = {
     "black": Decimal(1),
     "brown": Decimal(10),
@@ -54,13 +57,13 @@ MULTIPLIER: dict[str, Decimal] = {
     "gold": Decimal("0.1"),
     "silver": Decimal("0.01"),
 }
-# Resistor-style reading of grey and white, printed in the first table of S20.
+# Resistor-style reading of grey and white, printed in the first table of [colour-tables-b].
 _RESISTOR_STYLE_MULTIPLIER: dict[str, Decimal] = {
     "grey": Decimal(100_000_000),
     "white": Decimal(1_000_000_000),
 }
 
-TOLERANCE_PF_THRESHOLD = Decimal(10)   # ≤ 10 pF: pF column; above: % column (S19, S20, S21)
+TOLERANCE_PF_THRESHOLD = Decimal(10)   # ≤ 10 pF: pF column; above: % column (the colour tables)
 
 
 def pct(minus: str, plus: str | None = None) -> Tolerance:
@@ -107,7 +110,8 @@ class Tempco:
 
 
 # Class 1 ceramic tempco colour (cap, end band or top dot), every reading preferred first.
-# Sources: S19/S20/S21 tutorial tables, S27 (GDR TGL 7838), S28 (1993 text file), S62 (letter and
+# Sources: [colour-tutorial-a]/[colour-tables-b]/[colour-identification-c] tutorial tables, [gdr-ceramics]
+# (GDR TGL 7838), [capinfo-1993] (1993 text file), [tc-letter-colour-table] (letter and
 # colour TC table); two-colour negative ones beyond N1500 from memory.
 TEMPCO_COLOURS: dict[tuple[str, ...], tuple[Tempco, ...]] = {
     ("black",): (Tempco("NP0", 0, "S19, S20, S21, S28"),),

@@ -21,7 +21,8 @@ COLOURS: tuple[str, ...] = ("black", "brown", "red", "orange", "yellow", "green"
 
 # Every spelling read as a colour. Full names with British and American spellings, the 3-letter
 # abbreviations of parts lists (common practice, no published source), the IEC 60757 two-letter
-# colour codes (from memory of IEC 60757), and "none" for a missing band or dot (S20, S26).
+# colour codes (from memory of IEC 60757), and "none" for a missing band or dot ([colour-tables-b],
+# [rma-mica-page]).
 _SPELLINGS: dict[str, tuple[str, ...]] = {
     "black": ("black", "blk", "bk"),
     "brown": ("brown", "brn", "bn"),
@@ -44,7 +45,7 @@ _ALIASES: dict[str, str] = {spelling: colour for colour, spellings in _SPELLINGS
 _FUZZY_TARGETS: tuple[str, ...] = tuple(a for a, c in _ALIASES.items() if len(a) >= 3 and c != "none")
 _FUZZY_CUTOFF = 75   # rapidfuzz ratio: "vilot"→"vio" 75, "orng"→"orn" 86, "read"→"red" 86
 
-_SHADES = ("light", "dark")                           # TGL 7838 tells light red from red (S27)
+_SHADES = ("light", "dark")                           # TGL 7838 tells light red from red ([gdr-ceramics])
 _TEMPCO_WORDS = ("top", "cap", "end", "wide", "head")  # the next colours give the tempco
 _NOUNS = {"dot": "dots", "dots": "dots", "band": "bands", "bands": "bands", "stripe": "bands",
           "stripes": "bands", "ring": "bands", "rings": "bands"}

@@ -25,7 +25,9 @@ from stock.units import format_capacitance, format_tolerance, format_voltage
 
 
 def series_rank(value: Decimal | None) -> int:
-    """0 for an E12 value (IEC 60063; capacitors are mostly E3/E6/E12, S46), 1 for E24, 2 otherwise.
+    """0 for an E12 value (IEC 60063), 1 for E24, 2 otherwise.
+
+    Capacitors are mostly made in E3/E6/E12 ([value-reading-tutorial]).
 
     >>> series_rank(Decimal(4700)), series_rank(Decimal(300)), series_rank(Decimal(170_000))
     (0, 1, 2)

@@ -9,18 +9,18 @@ characters give an ``unreadable`` flag; tokens nobody understands are kept verba
 
 Flag kinds raised here: ``unreadable``, ``unparsed``, ``unit-assumed``, ``ambiguous-code``,
 ``tolerance-by-value``, ``disputed-code``, ``spelling-corrected``, ``conflicting-readings``,
-``polarity-assumed``, ``voltage-kind-assumed``.
+``polarity-assumed``, ``voltage-kind-assumed``. How a decoded part is told to people is
+:mod:`stock.markings.description`; the cautions it calls for, :mod:`stock.markings.cautions`.
 
 >>> m = decode("104K 2A X7R")
 >>> m.capacitance_pf, m.tolerance.plus, m.voltage_v, m.voltage_kind, m.dielectric.code
 (Decimal('100000'), Decimal('10'), Decimal('100'), 'DC', 'X7R')
->>> summary(m)
-'100 nF ±10 %  100 V DC  X7R (−55…+125 °C, ±15 %)'
 >>> decode("X2 0.1uF 275VAC").safety_class, decode("10uF 16V tantalum +").polarity
 ('X2', 'positive-marked')
 
 Distributor descriptions are read word by word; the package words go to the package decoder:
 
+>>> from stock.markings.description import summary
 >>> summary(decode("CAP ALUM 100UF 20% 25V RADIAL"))
 '100 µF ±20 %  25 V DC  aluminium-electrolytic (−40…+105 °C, +10/−20 %)  negative-marked  through-hole radial'
 
@@ -34,22 +34,23 @@ from __future__ import annotations
 
 import re
 import unicodedata
-from dataclasses import dataclass, field, replace
+from dataclasses import replace
 from decimal import Decimal
 from functools import lru_cache
 
 from stock.markings.ceramic_codes import read_dielectric
 from stock.markings.colour_codes import looks_like_colours
 from stock.markings.colours import decode_colours
-from stock.decoded import Alternative, Dielectric, Flag, Marking, Tolerance
+from stock.decoded import Flag, Marking
+from stock.markings.facts import (Facts, settle_dielectric, settle_package, settle_temperature,
+                                  settle_tolerance, settle_value, settle_voltage)
 from stock.markings.families import PHRASE_WORDS, read_family, read_misspelt_family
-from stock.markings.packages import CHIP_SIZES, read_package
-from stock.markings.safety_classes import CAUTION, read_safety_class
+from stock.markings.packages import CHIP_SIZES
+from stock.markings.safety_classes import read_safety_class
 from stock.markings.tolerance_codes import read_explicit_tolerance, read_tolerance_letter
-from stock.units import (format_capacitance, format_number, format_temperature, format_temperature_range,
-                         format_tolerance, format_voltage)
-from stock.markings.value_codes import ValueReading, read_value
-from stock.markings.voltage_codes import DISPUTED_VOLTAGE_CODES, read_voltage, voltage_code_value
+from stock.units import format_capacitance, format_tolerance  # noqa: F401  (the examples print values with them)
+from stock.markings.value_codes import read_value
+from stock.markings.voltage_codes import read_voltage, voltage_code_value
 
 # Longest text decoded. Real markings are under 40 characters; a cell holding more is a note or
 # a paste accident, and refusing it keeps decoding fast on hostile sheets.
@@ -61,7 +62,7 @@ USUAL_POLARITY = {
     "tantalum": ("positive-marked", "tantalums usually mark the positive lead"),
     "tantalum-polymer": ("positive-marked", "polymer tantalums usually mark the positive lead"),
 }
-_POLARISED = frozenset({"aluminium-electrolytic", "tantalum", "tantalum-polymer", "double-layer"})
+POLARISED_FAMILIES = frozenset({"aluminium-electrolytic", "tantalum", "tantalum-polymer", "double-layer"})
 
 _ALLOWED_EXTRA = frozenset("±°…")
 _DECIMAL_COMMA = re.compile(r"(?<=\d),(?=\d)")
@@ -94,28 +95,6 @@ KIND_WORDS = frozenset({"cap", "caps", "capacitor", "capacitors", "condenser", "
 # voltage codes are printed in capitals (EIA-198 code list, from memory).
 _LOWER_UNIT_LETTERS = frozenset("pnu")
 _O_AFTER_DIGIT = re.compile(r"(?<=[0-9])[Oo]")
-
-
-@dataclass
-class _Facts:
-    """What the tokens have said so far (mutable while decoding; frozen into a Marking at the end)."""
-
-    values: list[tuple[str, ValueReading]] = field(default_factory=list)
-    tolerance: Tolerance | None = None
-    tolerance_flags: tuple[Flag, ...] = ()
-    tolerance_alternatives: tuple[Alternative, ...] = ()
-    letters: list[str] = field(default_factory=list)
-    voltages: list[tuple[str, Decimal, str | None]] = field(default_factory=list)
-    voltage_codes: list[tuple[str, Decimal]] = field(default_factory=list)
-    dielectrics: list[tuple[str, Dielectric, tuple[Alternative, ...], tuple[Flag, ...]]] = \
-        field(default_factory=list)
-    safety: list[str] = field(default_factory=list)
-    polarity: str | None = None
-    temperatures: list[tuple[str, Decimal, bool]] = field(default_factory=list)
-    unparsed: list[str] = field(default_factory=list)
-    package_words: list[str] = field(default_factory=list)
-    alternatives: list[Alternative] = field(default_factory=list)
-    flags: list[Flag] = field(default_factory=list)
 
 
 def _clean(text: str) -> tuple[str, list[Flag]]:
@@ -211,7 +190,7 @@ def _zero_for_letter_o(token: str) -> str | None:
     return fixed
 
 
-def _classify(token: str, facts: _Facts, family: str | None) -> None:
+def _classify(token: str, facts: Facts, family: str | None) -> None:
     fixed = _zero_for_letter_o(token)
     if fixed is not None:
         facts.flags.append(Flag("spelling-corrected", f"{token}: read as {fixed} (letter O for digit zero)"))
@@ -272,206 +251,6 @@ def _classify(token: str, facts: _Facts, family: str | None) -> None:
     facts.unparsed.append(token)
 
 
-def _value_without_neighbour(facts: _Facts, family: str | None) -> bool:
-    """A lone ``1N`` or ``1P``: a voltage code stands beside a value, so with no value beside it
-    the token is read as the value its unit letter says, and the voltage code kept as a doubt."""
-    for token, volts in facts.voltage_codes:
-        value = read_value(token, family=family)
-        if value is None or value.chosen.form != "with-unit":
-            continue
-        facts.values.append((token, value))
-        facts.voltage_codes = [(t, v) for t, v in facts.voltage_codes if t != token]
-        facts.alternatives.append(Alternative(reason=f"{token}: voltage code {format_voltage(volts, 'DC')}",
-                                              voltage_v=volts))
-        facts.flags.append(Flag("ambiguous-code", f"{token}: read as {format_capacitance(value.chosen.capacitance_pf)},"
-                                                  f" since no value stands beside it; as a voltage code it"
-                                                  f" is {format_voltage(volts, 'DC')}"))
-        return True
-    return False
-
-
-_FORM_RANK = {"with-unit": 0, "letter-and-digit": 1, "r-decimal": 1, "three-digit": 2, "literal-pF": 2,
-              "unit-less": 3}
-
-
-def _settle_value(facts: _Facts, family: str | None) -> tuple[Decimal | None, str | None]:
-    """Choose the value among the value tokens (and ambiguous voltage-code tokens); return it and its letter."""
-    voltage_known = bool(facts.voltages)
-    if not facts.values and facts.voltage_codes and voltage_known:
-        # A voltage is printed in full, so a two-character "voltage code" is more likely a value.
-        for token, volts in facts.voltage_codes:
-            value = read_value(token, family=family)
-            if value is not None:
-                facts.values.append((token, value))
-                facts.alternatives.append(Alternative(reason=f"{token}: voltage code {format_voltage(volts, 'DC')}",
-                                                      voltage_v=volts))
-                if value.chosen.form == "with-unit":
-                    continue    # "1F 5.5V": a value with its unit beside a printed voltage is no code
-                facts.flags.append(Flag("ambiguous-code", f"{token}: read as a value, since the voltage is "
-                                                          f"printed in full; as a voltage code it is "
-                                                          f"{format_voltage(volts, None)}"))
-        facts.voltage_codes = [(t, v) for t, v in facts.voltage_codes
-                               if not any(t == vt for vt, _ in facts.values)]
-    elif not facts.values and facts.voltage_codes and _value_without_neighbour(facts, family):
-        pass
-    elif not facts.values and facts.voltage_codes:
-        for token, volts in facts.voltage_codes:
-            value = read_value(token, family=family)
-            if value is not None and value.chosen.tolerance_letter:
-                c = value.chosen
-                facts.alternatives.append(Alternative(reason=f"{token}: {format_capacitance(c.capacitance_pf)} "
-                                                      f"with tolerance letter {c.tolerance_letter}",
-                                                      capacitance_pf=c.capacitance_pf))
-                facts.flags.append(Flag("ambiguous-code", f"{token}: read as voltage code "
-                                                          f"{format_voltage(volts, 'DC')}; it could also be "
-                                                          f"{format_capacitance(c.capacitance_pf)} with "
-                                                          f"tolerance letter {c.tolerance_letter}"))
-    if not facts.values:
-        return None, None
-    ranked = sorted(facts.values, key=lambda tv: _FORM_RANK.get(tv[1].chosen.form, 4))
-    token, reading = ranked[0]
-    chosen = reading.chosen
-    facts.flags.extend(reading.flags)
-    for other in reading.others:
-        tolerance = None
-        if other.tolerance_letter:
-            tr = read_tolerance_letter(other.tolerance_letter, other.capacitance_pf)
-            tolerance = tr.tolerance if tr else None
-        facts.alternatives.append(Alternative(reason=other.reason, capacitance_pf=other.capacitance_pf,
-                                              tolerance=tolerance))
-    for other_token, other_reading in ranked[1:]:
-        pf = other_reading.chosen.capacitance_pf
-        if pf != chosen.capacitance_pf:
-            facts.alternatives.append(Alternative(reason=f"{other_token}: another value on the same marking",
-                                                  capacitance_pf=pf))
-            facts.flags.append(Flag("conflicting-readings", f"{token} and {other_token} give different values "
-                                                            f"({format_capacitance(chosen.capacitance_pf)} and "
-                                                            f"{format_capacitance(pf)}); read as "
-                                                            f"{format_capacitance(chosen.capacitance_pf)}"))
-    return chosen.capacitance_pf, chosen.tolerance_letter
-
-
-def _settle_tolerance(facts: _Facts, pf: Decimal | None, letter: str | None) -> Tolerance | None:
-    letters = ([letter] if letter else []) + facts.letters
-    if facts.tolerance is not None:
-        for extra in letters:
-            said = read_tolerance_letter(extra, pf)
-            if said is not None and (said.tolerance.minus, said.tolerance.plus, said.tolerance.unit) == \
-                    (facts.tolerance.minus, facts.tolerance.plus, facts.tolerance.unit):
-                continue
-            facts.flags.append(Flag("conflicting-readings", f"tolerance letter {extra} set aside for the "
-                                                            f"written tolerance {format_tolerance(facts.tolerance)}"))
-        return facts.tolerance
-    if not letters:
-        return None
-    reading = read_tolerance_letter(letters[0], pf)
-    if reading is None:
-        facts.unparsed.append(letters[0])
-        return None
-    facts.alternatives.extend(reading.alternatives)
-    facts.flags.extend(reading.flags)
-    for extra in letters[1:]:
-        facts.unparsed.append(extra)
-    return reading.tolerance
-
-
-def _settle_voltage(facts: _Facts, safety: str | None) -> tuple[Decimal | None, str | None]:
-    if facts.voltages:
-        token, volts, kind = facts.voltages[0]
-        for other, v, _ in facts.voltages[1:]:
-            facts.alternatives.append(Alternative(reason=f"{other}: a second voltage on the marking", voltage_v=v))
-        for other, v in facts.voltage_codes:
-            if v != volts:
-                facts.unparsed.append(other)
-        if kind is None:
-            if safety:
-                kind = "AC"
-                facts.flags.append(Flag("voltage-kind-assumed", f"{token}: read as AC, the rating of a "
-                                                                f"{safety} safety capacitor"))
-            else:
-                kind = "DC"   # IEC 60384: a rated voltage is DC unless marked AC
-        return volts, kind
-    if facts.voltage_codes:
-        token, volts = facts.voltage_codes[0]
-        facts.unparsed.extend(t for t, _ in facts.voltage_codes[1:])
-        if token.upper() in DISPUTED_VOLTAGE_CODES:
-            facts.flags.append(Flag("disputed-code", f"{token}: {DISPUTED_VOLTAGE_CODES[token.upper()][1]}; "
-                                                     f"read as {format_voltage(volts, 'DC')}"))
-        return volts, "DC"
-    return None, None
-
-
-def _disagree(a: Dielectric, b: Dielectric) -> bool:
-    """Whether two dielectric readings of one marking contradict each other (a family word agrees
-    with any code of its family; two codes must agree on class and tempco)."""
-    if a.family != b.family:
-        return True
-    if a.klass is None or b.klass is None:
-        return False
-    return a.klass != b.klass or a.tempco_ppm_per_k != b.tempco_ppm_per_k or (
-        a.klass == 2 and (a.change_minus_pct, a.change_plus_pct) != (b.change_minus_pct, b.change_plus_pct))
-
-
-def _settle_dielectric(facts: _Facts) -> Dielectric | None:
-    if not facts.dielectrics:
-        return None
-    # A code (ceramic class, old name) says more than a family word; "ceramic" alone says least.
-    ranked = sorted(facts.dielectrics, key=lambda d: (d[1].klass is None, d[1].code == "ceramic"))
-    token, chosen, alternatives, flags = ranked[0]
-    facts.alternatives.extend(alternatives)
-    facts.flags.extend(flags)
-    for other_token, other, _, _ in ranked[1:]:
-        if _disagree(chosen, other):
-            facts.alternatives.append(Alternative(reason=f"{other_token}: another dielectric on the marking",
-                                                  dielectric=other))
-            facts.flags.append(Flag("conflicting-readings", f"{token} and {other_token} name different "
-                                                            f"dielectrics; read as {chosen.code}"))
-    return chosen
-
-
-def _settle_temperature(facts: _Facts) -> Decimal | None:
-    if not facts.temperatures:
-        return None
-    token, celsius, certain = facts.temperatures[0]
-    if not certain and not facts.values:
-        value = read_value(token)
-        if value is not None:
-            facts.alternatives.append(Alternative(reason=f"{token}: three-digit code with tolerance letter",
-                                                  capacitance_pf=value.chosen.capacitance_pf))
-            facts.flags.append(Flag("ambiguous-code", f"{token}: read as rated temperature {celsius} °C; "
-                                                      "it could also be a value code with a tolerance letter"))
-    facts.unparsed.extend(t for t, _, _ in facts.temperatures[1:])
-    return celsius
-
-
-def _settle_package(facts: _Facts) -> tuple[str | None, str | None]:
-    """Chip sizes and the words no code table took, read by the package decoder.
-
-    Words it uses (``RADIAL``, ``SMD``, ``5x11``, ``through hole``) leave ``unparsed``; the
-    package is kept as those words, as written, and the mounting as ``SMD`` or ``THT``.
-    """
-    if not facts.unparsed:
-        return None, None
-    facts_read = read_package(" ".join(facts.unparsed))
-    if not facts_read.known:
-        if facts.package_words:   # a chip size the package decoder set aside (e.g. two sizes)
-            facts.flags.append(Flag("unparsed", f"{' '.join(facts.package_words)}: an EIA chip size,"
-                                                " not a value"))
-        return None, None
-    left = list(facts_read.unparsed)
-    used, unparsed = [], []
-    for word in facts.unparsed:
-        if word not in facts.package_words and word.strip(".-") in left:
-            left.remove(word.strip(".-"))
-            unparsed.append(word)
-        else:
-            used.append(word)
-    facts.unparsed = unparsed
-    facts.alternatives.extend(Alternative(reason=f"package: {n}") for n in facts_read.notes
-                              if "not used" in n)
-    return " ".join(used), facts_read.mounting
-
-
 def _decode(text: str) -> Marking:
     if len(text) > MAX_MARKING_CHARS:
         return Marking(text=text[:MAX_MARKING_CHARS], flags=(Flag(
@@ -481,24 +260,24 @@ def _decode(text: str) -> Marking:
     if not tokens:
         why = "nothing is left once those are removed" if flags else "the marking is empty"
         return Marking(text=text, flags=tuple(flags) + (Flag("unreadable", why),))
-    facts = _Facts(flags=list(flags))
+    facts = Facts(flags=list(flags))
     family = _context_family(tokens)
     for token in tokens:
         _classify(token, facts, family)
-    pf, letter = _settle_value(facts, family)
-    tolerance = _settle_tolerance(facts, pf, letter)
+    pf, letter = settle_value(facts, family)
+    tolerance = settle_tolerance(facts, pf, letter)
     safety = "".join(sorted(set(facts.safety))) if facts.safety else None
     if safety is not None and len(facts.safety) > 1:
         safety = read_safety_class(safety).code if read_safety_class(safety) else facts.safety[0]
-    volts, kind = _settle_voltage(facts, safety)
-    dielectric = _settle_dielectric(facts)
-    rated = _settle_temperature(facts)
+    volts, kind = settle_voltage(facts, safety)
+    dielectric = settle_dielectric(facts)
+    rated = settle_temperature(facts)
     polarity = facts.polarity
     fam = dielectric.family if dielectric else None
     if polarity is None and fam in USUAL_POLARITY:
         polarity, why = USUAL_POLARITY[fam]
         facts.flags.append(Flag("polarity-assumed", f"no polarity mark in the text; {why} — check the part"))
-    package, mounting = _settle_package(facts)
+    package, mounting = settle_package(facts)
     if facts.unparsed:
         facts.flags.append(Flag("unparsed", "not understood: " + " ".join(facts.unparsed)))
     if all(v is None for v in (pf, tolerance, volts, dielectric, safety, polarity, rated, package)):
@@ -599,94 +378,4 @@ def decode(text: str) -> Marking:
     return _decode_cached(text)
 
 
-def describe_dielectric(d: Dielectric) -> str:
-    """A dielectric in a few words: ``X7R (−55…+125 °C, ±15 %)``, ``C0G (0 ±30 ppm/K)``.
-
-    >>> describe_dielectric(decode("N750").dielectric)
-    'N750 (−750 ppm/K)'
-    """
-    parts = []
-    if d.tempco_ppm_per_k is not None:
-        tempco = format_number(d.tempco_ppm_per_k)
-        if d.tempco_ppm_per_k > 0:
-            tempco = "+" + tempco
-        if d.tempco_tol_ppm_per_k is not None:
-            tempco += f" ±{format_number(d.tempco_tol_ppm_per_k)}"
-        parts.append(tempco + " ppm/K")
-    if d.klass != 1 and d.temp_min_c is not None and d.temp_max_c is not None:
-        parts.append(format_temperature_range(d.temp_min_c, d.temp_max_c))
-    if d.change_minus_pct is not None and d.change_plus_pct is not None:
-        parts.append(format_tolerance(Tolerance(d.change_minus_pct, d.change_plus_pct, "%")))
-    if d.klass is None and d.family != d.code:
-        parts.insert(0, d.family)
-    return f"{d.code} ({', '.join(parts)})" if parts else d.code
-
-
-def summary(m: Marking) -> str:
-    """One line in engineering units: ``100 nF ±10 %  100 V DC  X7R (−55…+125 °C, ±15 %)``.
-
-    >>> summary(decode("2200uF 25V 105C"))
-    '2200 µF  25 V DC  105 °C rated'
-    >>> summary(decode("47uF 63V elko"))
-    '47 µF  63 V DC  aluminium-electrolytic (−40…+105 °C, +10/−20 %)  negative-marked'
-    """
-    parts = []
-    if m.capacitance_pf is not None:
-        value = format_capacitance(m.capacitance_pf)
-        if m.tolerance is not None:
-            value += " " + format_tolerance(m.tolerance)
-        parts.append(value)
-    elif m.tolerance is not None:
-        parts.append(format_tolerance(m.tolerance))
-    if m.voltage_v is not None:
-        parts.append(format_voltage(m.voltage_v, m.voltage_kind))
-    if m.dielectric is not None:
-        parts.append(describe_dielectric(m.dielectric))
-    if m.safety_class:
-        parts.append(f"safety class {m.safety_class}")
-    if m.rated_temp_c is not None:
-        parts.append(f"{format_temperature(m.rated_temp_c, signed=False)} rated")
-    if m.polarity:
-        parts.append(m.polarity)
-    if m.package:
-        parts.append(read_package(m.package).describe())
-    return "  ".join(parts) if parts else "(nothing decoded)"
-
-
-# Caution texts, one per hazard (the mains one is safety_classes.CAUTION; shelf and soldering
-# hazards of a kind are stock.physics.stability.SHELF_LIFE). Common practice, no published source.
-POLARISED_CAUTION = ("Polarised part: fit it the right way round and never above its rated voltage; "
-                     "reversed or overvolted it can vent or burst.")
-CHARGE_CAUTION = ("High-voltage part: it can hold a dangerous charge after power is removed; discharge "
-                  "it through a suitable resistor and check with a meter before touching.")
-POLARITY_MARKS_CAUTION = ("Tantalums mark the positive lead, aluminium electrolytics the negative: when "
-                          "one replaces the other, fit it by the circuit's polarity, not by where the old "
-                          "part's stripe was.")
-POLARISED_FOR_PLAIN_CAUTION = ("A polarised part where the original was not: only where a steady DC voltage "
-                               "keeps it the right way round (measure it first); its positive lead goes to "
-                               "the more positive side.")
-RETUNE_CAUTION = ("A new part in a tuned circuit may shift its frequency: check the alignment against the "
-                  "service information and re-align where needed.")
-DEFER_CAUTION = "Defer to the equipment's service information and to local codes."
-
-
-def cautions(m: Marking) -> tuple[str, ...]:
-    """The safety cautions a person handling this part should read (mains, polarity, stored charge).
-
-    >>> cautions(decode("X2 0.1uF 275VAC"))[0].startswith("mains work can kill")
-    True
-    """
-    out = []
-    if m.safety_class:
-        out.append(CAUTION)
-    family = m.dielectric.family if m.dielectric else None
-    if family in _POLARISED or m.polarity:
-        out.append(POLARISED_CAUTION)
-    if m.voltage_v is not None and (m.voltage_v >= 250 or m.voltage_kind == "AC"):
-        out.append(CHARGE_CAUTION)
-    return tuple(out)
-
-
-__all__ = ["CHARGE_CAUTION", "DEFER_CAUTION", "MAX_MARKING_CHARS", "POLARISED_CAUTION",
-           "POLARISED_FOR_PLAIN_CAUTION", "POLARITY_MARKS_CAUTION", "RETUNE_CAUTION", "USUAL_POLARITY",
-           "cautions", "decode", "describe_dielectric", "merge_colours", "summary"]
+__all__ = ["MAX_MARKING_CHARS", "POLARISED_FAMILIES", "USUAL_POLARITY", "decode", "merge_colours"]

@@ -3,8 +3,9 @@
 Film, mica, glass, paper and electrolytic parts print their dielectric as a word (``polyester``,
 ``silver mica``, ``tantalum``) or as the DIN-style abbreviation makers use (``MKT`` metallised
 polyester, ``MKP`` polypropylene, ``KS`` polystyrene film/foil). Each family carries its typical
-tempco or capacitance change over its usual range: figures from the WIMA film comparison table and
-the capacitor-codes reference (§8a), otherwise marked as from memory in :data:`FAMILY_FIGURES`.
+tempco or capacitance change over its usual range: figures from the a film maker's comparison table and
+(docs/sources.md: dielectric pages ([film-dielectrics-table] and others)), otherwise marked as from memory in
+:data:`FAMILY_FIGURES`.
 
 >>> decode_family("MKT").family, decode_family("MKT").tempco_ppm_per_k
 ('polyester', Decimal('400'))
@@ -51,19 +52,22 @@ def _figures(tempco, tol, low, high, minus, plus, source, linear=True) -> Family
     return FamilyFigures(_d(tempco), _d(tol), _d(low), _d(high), _d(minus), _d(plus), source, linear)
 
 
-# family -> typical figures: (α, ±α, low °C, high °C, −ΔC %, +ΔC %, source). Keys of the shared
-# reference (capacitor-codes.md §6c, §8a): S32 film makers' comparison table, S33 polystyrene
-# article, S34 silver-mica overview, S68 film text, S70 polystyrene white paper. Where sources
+# family -> typical figures: (α, ±α, low °C, high °C, −ΔC %, +ΔC %, source). Sources are entries of
+# docs/sources.md: [film-dielectrics-table], [polystyrene-article], [silver-mica-overview],
+# [film-capacitor-text], [polystyrene-white-paper]. The source strings (shown to the user) still
+# carry the short numbers of the research notes, mapped in the "was" column there. Where sources
 # disagree the figure spans them all (a worst case), and the comment says so.
 FAMILY_FIGURES: dict[str, FamilyFigures] = {
     "ceramic": _figures(None, None, None, None, None, None, "no class given"),
-    # S33 −125 ppm/K; memory −100…−200: −150 ± 50 spans both. Max +85 °C: S70; −40 °C from memory
+    # [polystyrene-article] −125 ppm/K; memory −100…−200: −150 ± 50 spans both. Max +85 °C:
+    # [polystyrene-white-paper]; −40 °C from memory
     "polystyrene": _figures("-150", "50", "-40", "85", None, None,
                             "α −125 ppm/K (S33) and −100…−200 (memory): −150 ± 50 spans both; max +85 °C (S70)"),
-    # S32 ΔC ±2.5 % over −55…+105 °C; linear, negative (S68); α −200 ± 100 from memory (−100…−300)
+    # [film-dielectrics-table] ΔC ±2.5 % over −55…+105 °C; linear, negative ([film-capacitor-text]);
+    # α −200 ± 100 from memory (−100…−300)
     "polypropylene": _figures("-200", "100", "-55", "105", "2.5", "2.5",
                               "ΔC ±2.5 % over −55…+105 °C (S32); linear, negative (S68); α from memory"),
-    # S32 ΔC ±5 %; α +400 ppm/K from memory, positive and only roughly linear
+    # [film-dielectrics-table] ΔC ±5 %; α +400 ppm/K from memory, positive and only roughly linear
     "polyester": _figures("400", "200", "-55", "125", "5", "5",
                           "ΔC ±5 % over −55…+125 °C (S32); α +400 ± 200 ppm/K from memory"),
     "polyethylene-naphthalate": _figures("200", "100", "-55", "125", "5", "5",
@@ -73,12 +77,12 @@ FAMILY_FIGURES: dict[str, FamilyFigures] = {
     # memory: "small, ±50…+100 ppm/K, flat": +50 ± 100 spans −50…+150
     "polycarbonate": _figures("50", "100", "-55", "125", None, None,
                               "from memory (small and flat, about −50…+100 ppm/K): +50 ± 100"),
-    # S68 +1/−3 % over the range; the range is from memory: some parts are rated to +200 °C, but the
+    # [film-capacitor-text] +1/−3 % over the range; the range is from memory: some parts are rated to +200 °C, but the
     # window is known only to +125 °C, so the rated range stops there
     "ptfe": _figures(None, None, "-55", "125", "3", "1",
                      "ΔC +1/−3 % over range (S68); range −55…+125 °C from memory"),
-    # S34 +35…+75 ppm/K typical; the old military characteristic E allows −20…+100 ppm/K (from
-    # memory of MIL-PRF-39001 Table I, reference §6): +40 ± 60 spans it
+    # [silver-mica-overview] +35…+75 ppm/K typical; the old military characteristic E allows
+    # −20…+100 ppm/K (from memory of [MIL-PRF-39001] Table I): +40 ± 60 spans it
     "mica": _figures("40", "60", "-55", "125", None, None,
                      "typical +35…+75 ppm/K (S34); characteristic E −20…+100 ppm/K (from memory): +40 ± 60"),
     "glass": _figures("140", "25", "-55", "125", None, None, "from memory (+140 ± 25 ppm/K)"),

@@ -1,20 +1,26 @@
 """Mica capacitor colour dots: the EIA (RMA), JAN/AWS and older RMA codes, and how they disagree.
 
 Dots are listed as read with the arrows pointing right: the top row left to right, then the bottom
-row left to right (S24, S25 in the project's code reference). The variants:
+row left to right ([navy-colour-code], [mica-mailing-list] in docs/sources.md). The variants:
 
-- EIA (RMA) six dots, white first dot (S23, S24, S25): type dot, 1st figure, 2nd figure,
-  characteristic, tolerance, multiplier (bottom right = multiplier, bottom centre = tolerance: S24).
-  ``white brown red black blue red`` is 1200 pF ±2 % (the worked example of S24, a US Navy manual).
-- the same white-first code as S23 (a code-chart page) prints it: three figures after the white dot,
+- EIA (RMA) six dots, white first dot ([mica-colour-page], [navy-colour-code], [mica-mailing-list]): type dot,
+  1st figure, 2nd figure,
+  characteristic, tolerance, multiplier (bottom right = multiplier, bottom centre = tolerance:
+  [navy-colour-code]).
+  ``white brown red black blue red`` is 1200 pF ±2 % (the worked example of [navy-colour-code], a US Navy
+  manual).
+- the same white-first code as [mica-colour-page] (a code-chart page) prints it: three figures after the white
+  dot,
   then the multiplier, the characteristic last.
-- JAN/AWS (military) six dots, black first dot (S23, S25): as EIA; silver first = paper (S24).
-  ``black green brown red yellow black`` is 51 pF ±4 % characteristic C (the S25 example).
-- older RMA codes (S26): three dots = 2 figures + number of zeros, 500 V DC, ±20 %; five dots add
+- JAN/AWS (military) six dots, black first dot ([mica-colour-page], [mica-mailing-list]): as EIA; silver first
+  = paper ([navy-colour-code]).
+  ``black green brown red yellow black`` is 51 pF ±4 % characteristic C (the [mica-mailing-list] example).
+- older RMA codes ([rma-mica-page]): three dots = 2 figures + number of zeros, 500 V DC, ±20 %; five dots add
   voltage and tolerance; six dots carry three figures (top row), then voltage, tolerance,
   multiplier (positions of the bottom row from memory of the RMA chart).
 
-A white, black or silver first dot is a type dot, any other colour a figure (rule from S24-S26).
+A white, black or silver first dot is a type dot, any other colour a figure (rule from
+[navy-colour-code]-[rma-mica-page]).
 Unless the text names the code (``mica EIA``, ``JAN``, ``RMA``), every consistent reading is
 returned and a ``layout-ambiguous`` flag raised.
 
@@ -33,7 +39,8 @@ from stock.decoded import Dielectric, Flag, Tolerance
 
 _TYPE_DOTS = ("white", "black", "silver")
 
-# Multiplier in pF (S24, S25; the ×0.1/×0.01 of grey/white are ceramic-only, S19).
+# Multiplier in pF ([navy-colour-code], [mica-mailing-list]; the ×0.1/×0.01 of grey/white are ceramic-only,
+# [colour-tutorial-a]).
 MICA_MULTIPLIER: dict[str, Decimal] = {
     "black": Decimal(1),
     "brown": Decimal(10),
@@ -47,13 +54,14 @@ MICA_MULTIPLIER: dict[str, Decimal] = {
 }
 
 
-# Tolerance on EIA and JAN mica, every reading preferred first (general code S19-S21; S24, S25).
+# Tolerance on EIA and JAN mica, every reading preferred first (general code
+# [colour-tutorial-a]-[colour-identification-c]; [navy-colour-code], [mica-mailing-list]).
 MICA_TOLERANCE: dict[str, tuple[tuple[Tolerance, str], ...]] = {
     "black": ((pct("20"), "general colour code"),),
     "brown": ((pct("1"), "general colour code"),),
     "red": ((pct("2"), "general colour code"),),
     "orange": ((pct("3"), "S19"),),
-    "yellow": ((pct("4"), "one AWS chart, S25"),),      # blank in the other AWS chart (S25)
+    "yellow": ((pct("4"), "one AWS chart, S25"),),      # blank in the other AWS chart ([mica-mailing-list])
     "green": ((pct("5"), "general colour code"),),
     "blue": ((pct("2"), "S24 worked example"),),       # the general code gives blue no tolerance
     "white": ((pct("10"), "general colour code"),),
@@ -66,7 +74,7 @@ _TOLERANCE_DOUBTS: dict[str, str] = {
     "blue": "blue is ±2 % in the S24 worked example; the general code has red for ±2 % and no blue",
 }
 
-# Older RMA tolerance and voltage dots (S26): a figure colour means that many %, or 100 V each.
+# Older RMA tolerance and voltage dots ([rma-mica-page]): a figure colour means that many %, or 100 V each.
 RMA_TOLERANCE: dict[str, Tolerance] = {
     "brown": pct("1"),
     "red": pct("2"),
@@ -96,7 +104,8 @@ RMA_VOLTAGE: dict[str, Decimal] = {
     "none": Decimal(500),
 }
 
-# Characteristic dot → letter. S22 (a colour-code encyclopedia table): brown B … green F. S23 names
+# Characteristic dot → letter. [encyclopaedia-colour-code] (a colour-code encyclopedia table): brown B … green
+# F. [mica-colour-page] names
 # classes A to E instead; read here as the same colours one letter down (inference, unverified).
 CHARACTERISTIC_LETTERS: dict[str, tuple[tuple[str, str], ...]] = {
     "brown": (("B", "S22"), ("A", "S23, inferred")),
@@ -107,7 +116,8 @@ CHARACTERISTIC_LETTERS: dict[str, tuple[tuple[str, str], ...]] = {
 }
 
 # Characteristic letter → α window in ppm/K (MIL-C-5 / MIL-PRF-39001 "relative stability" table;
-# C = ±200 ppm/K per S25, the rest from memory of MIL-C-5). (centre, half-width); None = not specified.
+# C = ±200 ppm/K per [mica-mailing-list], the rest from memory of MIL-C-5). (centre, half-width); None = not
+# specified.
 CHARACTERISTIC_TEMPCO: dict[str, tuple[int, int] | None] = {
     "A": None,
     "B": None,
@@ -121,7 +131,7 @@ CHARACTERISTIC_TEMPCO: dict[str, tuple[int, int] | None] = {
 def characteristic_dielectric(letter: str, source: str) -> Dielectric:
     """The mica characteristic letter as a Dielectric (α window only; drift is not modelled).
 
-    >>> characteristic_dielectric("C", "S25").tempco_tol_ppm_per_k
+    >>> characteristic_dielectric("C", "[mica-mailing-list]").tempco_tol_ppm_per_k
     Decimal('200')
     """
     window = CHARACTERISTIC_TEMPCO.get(letter)
@@ -152,7 +162,7 @@ def _characteristics(colour: str) -> tuple[tuple[Dielectric, tuple[Flag, ...]], 
 
 
 def _aws_voltage(value: Decimal) -> tuple[Decimal | None, tuple[Flag, ...]]:
-    """AWS micas with three arrows: 500 V DC below 6800 pF, 300 V DC to 10 000 pF (S25)."""
+    """AWS micas with three arrows: 500 V DC below 6800 pF, 300 V DC to 10 000 pF ([mica-mailing-list])."""
     if value < 6800:
         volts = Decimal(500)
     elif value <= 10_000:
@@ -192,7 +202,7 @@ def _type_dot_readings(dots: tuple[str, ...]) -> list[Reading]:
 
 
 def _three_figure_eia_readings(dots: tuple[str, ...]) -> list[Reading]:
-    """White type dot, three figures, multiplier, characteristic last (S23's order)."""
+    """White type dot, three figures, multiplier, characteristic last ([mica-colour-page]'s order)."""
     significant = figures(dots[1:4])
     multiplier = MICA_MULTIPLIER.get(dots[4])
     if dots[0] != "white" or significant is None or multiplier is None:
@@ -203,7 +213,7 @@ def _three_figure_eia_readings(dots: tuple[str, ...]) -> list[Reading]:
 
 
 def _rma_readings(dots: tuple[str, ...]) -> list[Reading]:
-    """Older RMA codes (S26): 3, 5 or 6 dots with no type dot."""
+    """Older RMA codes ([rma-mica-page]): 3, 5 or 6 dots with no type dot."""
     if not dots or dots[0] in _TYPE_DOTS:
         return []
     n = len(dots)

@@ -34,7 +34,7 @@ from functools import lru_cache
 
 @dataclass(frozen=True)
 class SubclassFacts:
-    """What one subclass is for, its impulse test and its rated AC voltage range.
+    """What one subclass is for, its impulse test and its rated AC voltage range ([IEC 60384-14]).
 
     ``ac_floor_v`` is the least AC voltage a position of this class is assumed to run at when no
     voltage is stated; ``ac_ceiling_v`` the most a part of the class is rated for (``below`` when
@@ -62,26 +62,31 @@ class SubclassFacts:
 
 
 _150 = Decimal(150)
-# IEC 60384-14 as reproduced in the capacitor-codes reference §7. Impulse tests: S29, S31 (X1, X2),
-# S29, S30 (Y1, Y2, Y4); "no impulse test" for X3 from memory, for Y3 S30. Rated AC ranges: Y1 ≤ 500,
-# Y2 150…300, Y3 ≤ 250, Y4 < 150 V AC (S30); X1 ≤ 760 and X2 ≤ 310 V AC from memory. The floors are
-# derived, not published: below 150 V AC is Y4's range, so a position of any other class named
-# without a voltage is assumed to run on mains of at least 150 V AC (conservative).
+# [IEC 60384-14], as reproduced by the pages its entry in docs/sources.md names. Impulse tests:
+# [safety-impulse-calculator], [safety-note] (X1, X2), [safety-impulse-calculator],
+# [safety-parameters-page] (Y1, Y2, Y4); "no impulse test" for X3 from memory, for Y3
+# [safety-parameters-page]. Rated AC ranges: Y1 ≤ 500, Y2 150…300, Y3 ≤ 250, Y4 < 150 V AC
+# ([safety-parameters-page]); X1 ≤ 760 and X2 ≤ 310 V AC from memory. The floors are derived, not
+# published: below 150 V AC is Y4's range, so a position of any other class named without a voltage
+# is assumed to run on mains of at least 150 V AC (conservative).
 SUBCLASSES: dict[str, SubclassFacts] = {
     "X1": SubclassFacts("line to line, peak pulses > 2.5 kV and ≤ 4 kV", "line-line", Decimal(4),
-                        _150, Decimal(760), source="S29, S31; AC ceiling from memory"),
+                        _150, Decimal(760),
+                        source="[safety-impulse-calculator], [safety-note]; AC ceiling from memory"),
     "X2": SubclassFacts("line to line, peak pulses ≤ 2.5 kV", "line-line", Decimal("2.5"),
-                        _150, Decimal(310), source="S29, S31; AC ceiling from memory"),
+                        _150, Decimal(310),
+                        source="[safety-impulse-calculator], [safety-note]; AC ceiling from memory"),
     "X3": SubclassFacts("line to line, peak pulses ≤ 1.2 kV", "line-line", None,
-                        _150, None, source="S31; no impulse test from memory"),
+                        _150, None, source="[safety-note]; no impulse test from memory"),
     "Y1": SubclassFacts("line to earth, double or reinforced insulation", "line-earth", Decimal(8),
-                        None, Decimal(500), source="S29, S30"),
+                        None, Decimal(500), source="[safety-impulse-calculator], [safety-parameters-page]"),
     "Y2": SubclassFacts("line to earth, basic insulation", "line-earth", Decimal(5),
-                        _150, Decimal(300), source="S29, S30"),
+                        _150, Decimal(300), source="[safety-impulse-calculator], [safety-parameters-page]"),
     "Y3": SubclassFacts("line to earth, basic insulation", "line-earth", None,
-                        _150, Decimal(250), source="S30"),
+                        _150, Decimal(250), source="[safety-parameters-page]"),
     "Y4": SubclassFacts("line to earth, basic insulation", "line-earth", Decimal("2.5"),
-                        None, _150, ceiling_below=True, source="S29, S30"),
+                        None, _150, ceiling_below=True,
+                        source="[safety-impulse-calculator], [safety-parameters-page]"),
 }
 
 POSITION_NAMES = {"line-line": "line–line", "line-earth": "line–earth"}

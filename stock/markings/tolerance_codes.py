@@ -25,7 +25,7 @@ from stock.decoded import Alternative, Flag, Tolerance
 from stock.units import format_tolerance
 
 # The value at or below which B C D F G (and A) mean absolute pF. IEC 60062 practice, per the
-# reference tables "C ≤ 10 pF" (capacitor-codes.md §4c).
+# reference tables "C ≤ 10 pF" (docs/sources.md: [IEC 60062] tolerance letters).
 ABSOLUTE_LIMIT_PF = Decimal(10)
 
 # Absolute meanings for values ≤ 10 pF, ± pF. IEC 60062; A from memory.

@@ -3,7 +3,8 @@
 The two-character code used on film capacitors, MLCC reels and SMD electrolytics is a decade digit
 and a mantissa letter: volts = mantissa × 10^digit. ``2A`` = 1.0 × 10² = 100 V, ``1H`` = 5.0 × 10 =
 50 V, ``0J`` = 6.3 V, ``3A`` = 1 kV. The mantissa letters are the same on every published table
-found (capacitor-codes.md §5a); the rule itself is from memory and agrees with every row.
+found (docs/sources.md: voltage-code tables ([code-table-blog], [decoder-guide], [coding-blog-voltage])); the
+rule itself is from memory and agrees with every row.
 
 Explicit voltages keep their kind: ``275VAC`` and ``250V~`` are AC; ``VDC``, ``WV`` and ``WVDC``
 (working volts) are DC; a bare ``V`` is left for the caller to decide. ``6V3`` puts the V where the
@@ -43,7 +44,7 @@ VOLTAGE_MANTISSA: dict[str, Decimal] = {
     "N": Decimal("7.5"),
     "K": Decimal("8.0"),
 }
-# Published rows that break the letter rule: code -> (volts as published, why). S13 prints 3L as
+# Published rows that break the letter rule: code -> (volts as published, why). [decoder-guide] prints 3L as
 # 1.2 kV although L is 5.5 at every other decade; 1.2 kV is a common rating, 5.5 kV is not.
 DISPUTED_VOLTAGE_CODES: dict[str, tuple[Decimal, str]] = {
     "3L": (Decimal(1200), "one published table gives 3L as 1.2 kV; the letter rule gives 5.5 kV"),

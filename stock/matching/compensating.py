@@ -17,7 +17,7 @@ from dataclasses import dataclass
 from decimal import ROUND_HALF_UP, Decimal
 from typing import Any
 
-from stock.matching.requirement import Stocked
+from stock.matching.part_checks import Stocked
 from stock.matching.search import linear_tempco_parts
 from stock.physics import combining
 from stock.physics.compensation import (USEFUL_SHARE, Fit, Purchase, Tank, TempcoSpread, describe_slice, fit,

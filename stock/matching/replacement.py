@@ -34,13 +34,15 @@ from typing import Any
 from stock.decoded import Marking
 from stock.errors import BadValue, NotFound
 from stock.inventory.bins import part_marking, stored_marking
-from stock.markings.decoder import (DEFER_CAUTION, POLARISED_FOR_PLAIN_CAUTION, POLARITY_MARKS_CAUTION,
-                                    RETUNE_CAUTION, cautions as marking_cautions, decode, summary)
+from stock.markings.decoder import decode
+from stock.markings.description import summary
+from stock.markings.cautions import DEFER_CAUTION, POLARISED_FOR_PLAIN_CAUTION, POLARITY_MARKS_CAUTION, RETUNE_CAUTION, cautions as marking_cautions
 from stock.markings.families import family_dielectric
 from stock.markings.preferred_values import nearest, series_for_tolerance
 from stock.markings.safety_classes import CAUTION as MAINS_CAUTION, read_safety_class
 from stock.markings.typed_values import parse_voltage
-from stock.matching.requirement import DEFAULT_BUY_TOL_PCT, Requirement, fmt, tolerance_pct
+from stock.matching.requirement import DEFAULT_BUY_TOL_PCT, Requirement, fmt
+from stock.matching.part_checks import tolerance_pct
 from stock.matching.search import Combination, Match, candidates, find
 from stock.matching.stand_ins import (TUNED_KINDS, Need, StandIn, judge, part_names, pair_stand_in,
                                       single_stand_in, stand_in_rank)

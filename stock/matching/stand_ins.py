@@ -18,9 +18,10 @@ from decimal import Decimal
 from typing import Any
 
 from stock.decoded import Marking
-from stock.markings.decoder import describe_dielectric, summary
+from stock.markings.description import describe_dielectric, summary
 from stock.markings.safety_classes import read_safety_class
-from stock.matching.requirement import Requirement, fmt, tolerance_pct
+from stock.matching.requirement import Requirement, fmt
+from stock.matching.part_checks import tolerance_pct
 from stock.matching.search import Combination, Match
 from stock.matching.substitutions import (MOUNTING_CHANGES, NEVER_STAND_INS, SAFETY, Substitution,
                                           candidate_rules)
@@ -30,7 +31,7 @@ from stock.physics.stability import is_polarised
 from stock.units import format_capacitance, format_temperature_range, format_tolerance, format_voltage
 
 _ROOT_TWO = Decimal(2).sqrt()
-_C0G_TOL = Decimal(30)     # C0G = 0 ± 30 ppm/K (EIA-198, S1); NP0 is the same characteristic (S1, S3)
+_C0G_TOL = Decimal(30)     # C0G = 0 ± 30 ppm/K (EIA-198, [parameters-page]); NP0 is the same characteristic ([parameters-page], [latvian-codes])
 _RULE_RANK = {"like-for-like": 0, "mains-by-class": 0, "upgrade": 2, "fit-for-the-job": 2,
               "less-stable-on-request": 3}   # the trade's named rules rank 1
 _GRADE_RANK = {"fit": 0, "marginal": 1, None: 2}

@@ -18,8 +18,7 @@ trade has learnt, each rule as one line of data:
 
 Kinds are the grading table's (:func:`stock.physics.grading.kind_of`: ``ceramic-1``,
 ``ceramic-2`` or a family name); a rule may also name dielectric codes (``Z5U``) or ``C0G``,
-which any Class 1 part of 0 ± 30 ppm/K answers (NP0 is the same characteristic: S1, S3 of the
-shared code reference).
+which any Class 1 part of 0 ± 30 ppm/K answers (NP0 is the same characteristic: [parameters-page], [latvian-codes] of docs/sources.md).
 
 >>> rule_for("mica", {"ceramic-1", "C0G"}, mains=False, use="tuned").name
 'mica-to-c0g'
@@ -38,9 +37,9 @@ SAFETY = "safety"  # any part carrying an IEC 60384-14 class
 
 FILMS = frozenset({"polypropylene", "polyester", "polyethylene-naphthalate", "polyphenylene-sulfide",
                    "polycarbonate", "polystyrene", "ptfe"})
-# EIA-198 Class 2 codes whose change letter is R (±15 %): "X7R or better" (S1, S4, S6 of the reference).
+# EIA-198 Class 2 codes whose change letter is R (±15 %): "X7R or better" ([parameters-page], [app-report-class2], [tolerance-blog]).
 FIFTEEN_PCT_CLASS2 = frozenset({"X7R", "X5R", "X8R", "X6R"})
-WIDE_CLASS2 = frozenset({"Z5U", "Y5V"})   # +22/−56 % and +22/−82 % (EIA-198, S3, S6)
+WIDE_CLASS2 = frozenset({"Z5U", "Y5V"})   # +22/−56 % and +22/−82 % (EIA-198, [latvian-codes], [tolerance-blog])
 
 
 @dataclass(frozen=True)
@@ -71,7 +70,7 @@ _COMMON = "common practice, no published source"
 # The first rule that matches an (original, stand-in) pair decides. Sources beside each line.
 SUBSTITUTIONS: tuple[Substitution, ...] = (
     _rule("mains-paper-by-class", {"paper"}, {SAFETY}, True, None, "class", "an old paper part across the mains is a known fire hazard: only an X/Y safety part of the position's class replaces it", _COMMON),  # common practice, no published source
-    _rule("mains-by-class", {ANY}, {SAFETY}, True, None, "class", "across the mains only an X/Y safety part whose IEC 60384-14 class covers the position", "IEC 60384-14 (S29, S30, S66 of the reference)"),  # IEC 60384-14
+    _rule("mains-by-class", {ANY}, {SAFETY}, True, None, "class", "across the mains only an X/Y safety part whose IEC 60384-14 class covers the position", "IEC 60384-14 (S29, S30, S66)"),  # IEC 60384-14
     _rule("mica-to-c0g", {"mica"}, {"C0G"}, False, None, "fit:tuned", "mica and C0G/NP0 ceramics are the trade's equals in tuned work: near-zero tempco, no ageing", _COMMON),  # common practice, no published source
     _rule("c0g-to-mica", {"C0G"}, {"mica"}, False, None, "fit:tuned", "C0G/NP0 and mica are the trade's equals in tuned work: near-zero tempco, no ageing", _COMMON),  # common practice, no published source
     _rule("polystyrene-to-mica", {"polystyrene"}, {"mica"}, False, None, "original", "polystyrene gives way to mica: as stable, and it takes soldering heat", _COMMON),  # common practice, no published source

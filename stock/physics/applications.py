@@ -26,7 +26,8 @@ PATH``, or ``stock-grading.toml`` next to the database), read by :func:`load_rul
 
 The numbers are common practice of the trade, no published source, unless a comment says so.
 A Y part may take an X position: Y parts are tested to a higher impulse voltage and must fail
-open (IEC 60384-14; S29, S30, S66 of the shared reference); the reverse never holds.
+open (IEC 60384-14; [safety-impulse-calculator], [safety-parameters-page], [safety-classes-blog]); the reverse
+never holds.
 
 >>> rules = load_rules()
 >>> rules["tuned"].drift_fit_pct, rules["bulk"].sides

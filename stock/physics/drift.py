@@ -3,7 +3,7 @@
 - Resonance: f = 1 / (2π√(LC)). For a small change of the tank capacitance,
   Δf/f = −½ · ΔC_tank/C_tank, and a part holding a share C_part/C_tank of the tank moves it by
   Δf/f = −½ · (C_part/C_tank) · ΔC_part/C_part (first order, the coil held still).
-  Worked example (derived in capacitor-codes.md §10): a 10 MHz tank of C0G, ±30 ppm/K, moves
+  Worked example (derived in docs/sources.md: [lc-resonance]): a 10 MHz tank of C0G, ±30 ppm/K, moves
   ∓150 Hz per kelvin; of N750, +3.75 kHz per kelvin.
 - RC timers: t ∝ R·C (a 555 monostable t = 1.1·R·C), so Δt/t = ΔC/C.
 

@@ -44,13 +44,14 @@ from dataclasses import dataclass
 from decimal import Decimal
 from typing import Any
 
-from stock.physics.applications import POSITIONS, Rule, Rules, load_rules
 from stock.decoded import Marking
 from stock.errors import BadValue
 from stock.markings.safety_classes import MAINS_CAUTION, POSITION_NAMES, positions_text, read_safety_class
+from stock.markings.typed_values import parse_voltage
+from stock.physics.applications import POSITIONS, Rule, Rules, load_rules
 from stock.physics.budget import Budget, Conditions, VoltageCheck, kind_of, worst_case
 from stock.physics.stability import REFERENCE_C, Term, is_polarised, pct, pm
-from stock.units import format_capacitance, format_number, format_temperature_range
+from stock.units import format_capacitance, format_number, format_temperature_range, parse_temperature_range
 
 APPLICATIONS: tuple[str, ...] = ("tuned", "timing", "signal", "bypass", "bulk", "mains")
 WORD_ORDER = ("fit", "marginal", "unfit")
@@ -60,7 +61,6 @@ TOLERANCE_DOUBT = "tolerance not marked: measure before fitting where the value 
 @dataclass(frozen=True)
 class Grade:
     """One part's grade for one application, with the reasons (numbers included) and the budget."""
-
     application: str
     word: str
     reasons: tuple[str, ...]
@@ -289,8 +289,6 @@ def conditions_from_text(temp: str | None = None, volts: str | None = None,
     >>> conditions_from_text("-20..60", "12", "5").describe()
     '−20…+60 °C, 5 years, 12 V working'
     """
-    from stock.units import parse_temperature_range
-    from stock.markings.typed_values import parse_voltage
 
     low, high = parse_temperature_range(temp, "--temp") if temp else (Decimal(0), Decimal(50))
     working = parse_voltage(volts, "--volts") if volts else None

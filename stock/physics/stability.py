@@ -41,10 +41,10 @@ from stock.units import format_number, format_temperature_range
 REFERENCE_C = Decimal(25)     # the reference temperature of every tempco and window
 HOURS_PER_YEAR = Decimal("8766")  # 365.25 days × 24 h
 
-# Class 2 tolerances are stated at a referee time of 1000 h after the last heating (EIA-198-1F;
-# from memory of EIA-521 / IEC 60384-9 ageing annex practice, S38 describes the logarithmic law
-# and de-ageing). Soldering resets the clock: before 1000 h the part sits above its nominal
-# (de-aged, see DEAGEING_DECADES), after it the ageing loss accrues below.
+# Class 2 tolerances are stated at a referee time of 1000 h after the last heating ([EIA-198];
+# from memory of EIA-521 / IEC 60384-9 ageing annex practice, [ageing-maker-notes] describes the
+# logarithmic law and de-ageing). Soldering resets the clock: before 1000 h the part sits above
+# its nominal (de-aged, see DEAGEING_DECADES), after it the ageing loss accrues below.
 AGEING_REFERENCE_HOURS = Decimal(1000)
 
 
@@ -117,17 +117,19 @@ def assumed_tempco_tol(alpha: Decimal) -> Decimal:
 
 # Class 2/3 ceramic ageing, % capacitance lost per decade of hours. A worst-case budget takes the
 # high end of the published ranges: X7R/X5R 1.5…4 %, Z5U 4…6 %, Y5V 6…10 % per decade-hour (maker
-# ageing notes, S36, S37, S38); S35 gives maxima X7R 2, X5R 2.5, Z5U 7, Y5V 7 %. The larger of the two
-# is used: X7R 4, X5R 4, Z5U 7 (S35), Y5V 10.
+# ageing notes: [mlcc-selection-article], [ageing-blog], [ageing-maker-notes]); [ageing-faq] gives
+# maxima X7R 2, X5R 2.5, Z5U 7, Y5V 7 %. The larger of the two is used: X7R 4, X5R 4, Z5U 7
+# ([ageing-faq]), Y5V 10.
 AGEING_PER_DECADE_PCT: dict[str, Decimal] = {
     "X7R": Decimal("4"),    # top of the published 1.5…4 % range
-    "X5R": Decimal("4"),    # top of the published 1.5…4 % range (S36 says 5–7 %: see below)
-    "Z5U": Decimal("7"),    # S35 maximum, above the 4…6 % range
+    "X5R": Decimal("4"),    # top of the published 1.5…4 % range ([mlcc-selection-article]: 5–7 %)
+    "Z5U": Decimal("7"),    # [ageing-faq] maximum, above the 4…6 % range
     "Y5V": Decimal("10"),   # top of the published 6…10 % range
 }
 
 # By the EIA-198 change letter, for Class 2 codes not listed above: windows up to ±15 % age like
-# X7R/X5R, wider windows like the high-K Z5U/Y5V. From memory of maker ageing tables (S36, S37).
+# X7R/X5R, wider windows like the high-K Z5U/Y5V. From memory of maker ageing tables
+# ([mlcc-selection-article], [ageing-blog]).
 AGEING_BY_CHANGE_LETTER_PCT: dict[str, Decimal] = {
     "A": Decimal("4"), "B": Decimal("4"), "C": Decimal("4"), "D": Decimal("4"),
     "E": Decimal("4"), "F": Decimal("4"), "P": Decimal("4"), "R": Decimal("4"),
@@ -141,13 +143,14 @@ AGEING_UNKNOWN_CLASS2_PCT = Decimal("10")  # a Class 2 part of unknown code: the
 
 # After soldering (heat above the Curie point) a Class 2 part is de-aged: its value starts above
 # the 1000 h nominal and ages down. Maker post-solder limits of about +18/−10 % for a ±10 % X7R (from
-# memory of maker ageing notes, S38) put it up to about 8 % above nominal: taken as the ageing rate
-# over the two decades from 10 h after soldering to the 1000 h referee time (8 % at X7R's 4 %).
+# memory of maker ageing notes, [ageing-maker-notes]) put it up to about 8 % above nominal: taken
+# as the ageing rate over the two decades from 10 h after soldering to the 1000 h referee time
+# (8 % at X7R's 4 %).
 DEAGEING_DECADES = Decimal(2)
 
 
 def ageing_rate_pct(code: str | None, klass: int | None) -> Decimal:
-    """% per decade-hour a ceramic loses with age; 0 for Class 1 (S35: C0G none).
+    """% per decade-hour a ceramic loses with age; 0 for Class 1 ([ageing-faq]: C0G none).
 
     >>> ageing_rate_pct("X7R", 2), ageing_rate_pct("X6S", 2), ageing_rate_pct("C0G", 1)
     (Decimal('4'), Decimal('6'), Decimal('0'))
@@ -184,22 +187,22 @@ def ageing_loss_pct(code: str | None, klass: int | None, years: Decimal) -> Deci
 
 
 # DC-bias loss of Class 2 MLCCs at the full rated voltage, by EIA case size (inch code). From memory
-# of published maker DC-bias curves for high-capacitance X7R/X5R parts, anchored to S41 (10 µF
-# 10 V X7R at 5 V: 0805 keeps 50 %, 1206 keeps 93 %) and S72 (35–65 % loss at rated, worse in small
-# cases). The 0805 figure meets S41's point; the larger cases stay well above S41's 1206 point
-# (conservative: one part's curve is not every maker's). Not a published table.
+# of published maker DC-bias curves for high-capacitance X7R/X5R parts, anchored to [dc-bias-note]
+# (10 µF 10 V X7R at 5 V: 0805 keeps 50 %, 1206 keeps 93 %) and [effective-capacitance-tool] (35–65 %
+# loss at rated, worse in small cases). The 0805 figure meets [dc-bias-note]'s point; the larger
+# cases stay well above its 1206 point (conservative: one part's curve is not every maker's). Not a published table.
 DC_BIAS_LOSS_BY_CASE_PCT: dict[str, Decimal] = {
     "01005": Decimal(85), "0201": Decimal(85),
     "0402": Decimal(80),
     "0603": Decimal(75),
-    "0805": Decimal(71),    # S41: 50 % lost at half rated (71 × √0.5 ≈ 50)
-    "1206": Decimal(30),    # S41's part keeps 93 % at half rated; 30 keeps a wide margin
+    "0805": Decimal(71),    # [dc-bias-note]: 50 % lost at half rated (71 × √0.5 ≈ 50)
+    "1206": Decimal(30),    # [dc-bias-note]'s part keeps 93 % at half rated; 30 keeps a wide margin
     "1210": Decimal(25),
     "1808": Decimal(22), "1812": Decimal(20),
     "2220": Decimal(15), "2225": Decimal(15),
 }
 # Case unknown: the worst small case for the value (conservative). Parts of 10 nF or less lose
-# little in any case (S41: negligible at a 2× margin): 20 % at rated whatever the case.
+# little in any case ([dc-bias-note]: negligible at a 2× margin): 20 % at rated whatever the case.
 DC_BIAS_UNKNOWN_CASE_PCT = Decimal(80)
 DC_BIAS_SMALL_VALUE_PF = Decimal(10_000)
 DC_BIAS_SMALL_VALUE_PCT = Decimal(20)
@@ -280,8 +283,9 @@ class Derating:
     source: str
 
 
-# Voltage derating per family (capacitor-codes.md §8d). Keys are FAMILIES, plus "ceramic-1" and
-# "ceramic-2" for the ceramic classes.
+# Voltage derating per family (docs/sources.md: derating pages ([tantalum-derating-qa],
+# [polymer-derating-qa], [dc-bias-note])). Keys are FAMILIES, plus "ceramic-1" and "ceramic-2" for
+# the ceramic classes.
 DERATING: dict[str, Derating] = {
     "tantalum": Derating(Decimal("0.5"), "MnO₂ tantalum at ≤ 50 % of rated up to 85 °C",
                          "S39, S73 (common practice)"),
@@ -301,7 +305,7 @@ _DEFAULT_DERATING = Derating(Decimal("0.8"), "≤ 80 % of rated", "common practi
 
 
 def derating_for(family: str | None, klass: int | None, rated_v: Decimal | None = None) -> Derating:
-    """The derating rule for a family (polymer tantalum depends on the rated voltage: S40).
+    """The derating rule for a family (polymer tantalum depends on the rated voltage: [polymer-derating-qa]).
 
     >>> derating_for("tantalum-polymer", None, Decimal(6)).fraction
     Decimal('0.9')
@@ -309,7 +313,7 @@ def derating_for(family: str | None, klass: int | None, rated_v: Decimal | None 
     Decimal('0.8')
     """
     if family == "tantalum-polymer":
-        # S40: derate 10 % if rated ≤ 10 V, 20 % above, to 105 °C
+        # [polymer-derating-qa]: derate 10 % if rated ≤ 10 V, 20 % above, to 105 °C
         if rated_v is not None and rated_v <= 10:
             return Derating(Decimal("0.9"), "polymer tantalum rated ≤ 10 V at ≤ 90 % of rated", "S40")
         return Derating(Decimal("0.8"), "polymer tantalum rated > 10 V at ≤ 80 % of rated", "S40")
@@ -334,8 +338,9 @@ class HotDerating:
 
 
 # The families whose rated voltage falls when hot (the "category voltage"). MnO₂ tantalum: about
-# two thirds of rated at +125 °C from +85 °C (S39, S73: common practice); polymer tantalum the same
-# above +105 °C (from memory of maker notes, S40 stops at 105 °C); film parts rated at +85 °C
+# two thirds of rated at +125 °C from +85 °C ([tantalum-derating-qa], [forum-tantalum-derating]:
+# common practice); polymer tantalum the same above +105 °C (from memory of maker notes,
+# [polymer-derating-qa] stops at 105 °C); film parts rated at +85 °C
 # (from memory: polypropylene about 70 % at +105 °C, polyester about half at +125 °C).
 HOT_DERATING: dict[str, HotDerating] = {
     "tantalum": HotDerating(Decimal(85), Decimal(125), Decimal(2) / Decimal(3), "S39, S73 (common practice)"),
@@ -368,10 +373,10 @@ SHELF_LIFE: dict[str, str] = {
     "bipolar-electrolytic": "after years on the shelf, reform before use; leakage is high at first",
     # from memory: old paper capacitors absorb moisture and leak
     "paper": "old paper parts take up moisture and leak; check leakage at working voltage",
-    # S33: irreversible shift if heated past about 70 °C
+    # [polystyrene-article]: irreversible shift if heated past about 70 °C
     "polystyrene": "polystyrene shifts for good if heated past about 70 °C: solder quickly and heat-sink"
                    " the leads",
-    # S38: de-aged by heating above the Curie point
+    # [ageing-maker-notes]: de-aged by heating above the Curie point
     "ceramic-2": "soldering heat de-ages a Class 2 part: its value rises, then ages down again",
 }
 

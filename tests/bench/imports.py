@@ -1,9 +1,12 @@
-"""Import benchmarks: CSV and XLSX end to end through :func:`stock.intake.import_file`, and the
-peak memory of a big import, each against a bare baseline (issue 11).
+"""Import benchmarks: CSV and XLSX end to end through :func:`stock.intake.import_file`, a very wide
+sheet, and the peak memory of a big import, each against a bare baseline.
 
 Baselines (as measured in the shared library notes, table B1/B2): ``csv.reader`` plus one sqlite3
 ``executemany`` of the same rows into a table of the same width, in one transaction, WAL with
-``synchronous=NORMAL``; for XLSX, openpyxl read-only iteration of the same file alone.
+``synchronous=NORMAL``; for XLSX, openpyxl read-only iteration of the same file alone; for the
+wide sheet, ``csv.reader`` plus ``json.dumps`` of each row's cells by header (what the import keeps
+of every row). The wide sheet's time was once a wall-clock assert in the hostile-file tests; it is
+measured here instead.
 """
 
 from __future__ import annotations
@@ -158,3 +161,36 @@ def memory(n: int, work: Path) -> dict[str, Any]:
     seconds, peak_mb = _child("import", sheet, work / "mem-import.db")
     return line("memory", n, seconds, base_seconds, peak_rss_mb=round(peak_mb, 1),
                 baseline_peak_rss_mb=round(base_mb, 1), target_mb=300)
+
+
+def write_wide_csv(path: Path, rows: int, width: int) -> Path:
+    """A bin sheet of ``rows`` rows and ``width`` columns: Location, Marking, Qty, then extras."""
+    headers = ["Location", "Marking", "Qty", *[f"Extra {i}" for i in range(4, width + 1)]]
+    with open(path, "w", newline="", encoding="utf-8") as fh:
+        out = csv.writer(fh)
+        out.writerow(headers)
+        for r in range(1, rows + 1):
+            out.writerow([f"A{r}", "104K", r, *[f"{r}.{c}" for c in range(4, width + 1)]])
+    return path
+
+
+def wide_baseline_once(sheet: Path) -> int:
+    """csv.reader and json.dumps of every row as a header → cell mapping: the floor of keeping it."""
+    import json
+
+    with open(sheet, newline="", encoding="utf-8") as fh:
+        rows = csv.reader(fh)
+        headers = next(rows)
+        return sum(len(json.dumps(dict(zip(headers, row)))) for row in rows)
+
+
+def wide_import(width: int, work: Path, repeats: int = 3, rows: int = 3) -> dict[str, Any]:
+    """A sheet ``width`` columns wide (a few rows): import vs reading and serialising it bare."""
+    sheet = write_wide_csv(work / f"wide-{width}.csv", rows, width)
+    db = work / "wide.db"
+    import_once(sheet, db)              # warm up: the first import pays for loading the modules
+    medians = interleaved({"import": lambda: import_once(sheet, db),
+                           "baseline": lambda: wide_baseline_once(sheet)}, repeats)
+    report = import_once(sheet, db).sheets[0]
+    return line("wide_import", width, medians["import"], medians["baseline"], per=rows * width,
+                rows=rows, stored=report.stored)

@@ -1,4 +1,4 @@
-"""Query benchmarks: single-part find on a large store, and pair search growth (issue 11).
+"""Query benchmarks: single-part find on a large store, and pair search growth.
 
 Baseline for find (as measured in the shared library notes, table B3): the same capacitance-window
 SQL the search's pre-filter runs, bare, fetching the same columns, on the same indexed store.

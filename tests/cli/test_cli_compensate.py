@@ -2,7 +2,8 @@
 
 Outside source: the LC resonance formula (Δf/f = −½·ΔC/C; TC_eff = −2·(Δf/f)/ΔT), worked by
 hand in each comment; old tempco names take the tolerance of their EIA-198 code per
-capacitor-codes.md §1d (N150 = P2G ±30, N750 = U2J ±120 ppm/K). The shelf is our own (Heron Lane
+the old names' EIA-198 codes in docs/sources.md ([EIA-198], [parameters-page]: N150 = P2G ±30,
+N750 = U2J ±120 ppm/K). The shelf is our own (Heron Lane
 Workshop, fictional), imported through `stock import`.
 """
 

@@ -1,7 +1,7 @@
-"""`stock decode`: the JSON contract of issue 2 and the human line in engineering units.
+"""`stock decode`: the JSON contract and the human line in engineering units.
 
 Expected values come from IEC 60062 (value and tolerance codes), EIA-198 (X7R) and the voltage-code
-table (2A = 100 V) as reproduced in the capacitor-codes reference.
+table (2A = 100 V) as reproduced in docs/sources.md.
 """
 
 from __future__ import annotations
@@ -14,7 +14,7 @@ from typer.testing import CliRunner
 from stock.cli import app
 
 ENV = {"COLUMNS": "200", "TERMINAL_WIDTH": "200", "_TYPER_FORCE_DISABLE_TERMINAL": "1"}
-ISSUE_EXAMPLES = ["104K 2A X7R", "4n7 J 100V", "47pF NP0", "223Z", "1R5C", "0.01 1KV Z5U", "u1 63V polyester",
+EXAMPLE_MARKINGS = ["104K 2A X7R", "4n7 J 100V", "47pF NP0", "223Z", "1R5C", "0.01 1KV Z5U", "u1 63V polyester",
                   "C0G 100 50V", "N750 33p", "2200uF 25V 105C", "X2 0.1uF 275VAC", "10uF 16V tantalum +",
                   ".047 MFD 600V"]
 TOP_KEYS = {"text", "capacitance_pf", "tolerance", "voltage_v", "voltage_kind", "dielectric", "safety_class",
@@ -29,7 +29,7 @@ def run(*args: str):
 
 
 def check_shape(obj: dict) -> None:
-    """The JSON contract of issue 2, key by key and type by type."""
+    """The JSON contract, key by key and type by type."""
     assert TOP_KEYS <= set(obj)
     assert isinstance(obj["text"], str)
     for key in ("capacitance_pf", "voltage_v", "rated_temp_c"):
@@ -55,12 +55,12 @@ def check_shape(obj: dict) -> None:
 
 
 def test_json_gives_one_object_per_text_in_the_contract_shape():
-    result = run(*ISSUE_EXAMPLES, "", "\x07", "47K", "--json")
+    result = run(*EXAMPLE_MARKINGS, "", "\x07", "47K", "--json")
     assert result.exit_code == 0
     lines = result.stdout.splitlines()
-    assert len(lines) == len(ISSUE_EXAMPLES) + 3
+    assert len(lines) == len(EXAMPLE_MARKINGS) + 3
     objects = [json.loads(line) for line in lines]
-    for text, obj in zip([*ISSUE_EXAMPLES, "", "\x07", "47K"], objects):
+    for text, obj in zip([*EXAMPLE_MARKINGS, "", "\x07", "47K"], objects):
         check_shape(obj)
         assert obj["text"] == text
 

@@ -1,8 +1,8 @@
 """`stock flags`, `stock settle` and `stock merge` on an imported messy sheet, end to end.
 
 Sources: 104 = 100 nF (IEC 60062 three-digit code), 47K read as 47 pF ±10 % by IEC 60062 and
-as 47 nF by older US practice (from memory), 1832 a YYWW date code (ISO 8601 weeks, Python's
-standard library); the 2-year shelf-life rule for aluminium electrolytics is common practice,
+as 47 nF by older US makers' practice (from memory, [old-us-letter-codes]), 1832 a YYWW date
+code (ISO 8601 weeks, Python's standard library); the 2-year shelf-life rule for aluminium electrolytics is common practice,
 no published source; exit codes 1 (bad data) / 2 (bad usage) are common practice for
 command-line tools.
 """

@@ -1,7 +1,8 @@
 """`stock grade` and `stock drift` through the command line.
 
-Outside sources: EIA-198 codes (C0G 0 ± 30 ppm/K, X7R ±15 %: capacitor-codes.md §1, §2); IEC 60384-14
-safety classes (§7); the 10 MHz tank worked example of §10 (C0G ∓150 Hz/K, derived).
+Outside sources: EIA-198 codes (C0G 0 ± 30 ppm/K, X7R ±15 %: docs/sources.md: [EIA-198] Class 1, [EIA-198]
+Class 2); IEC 60384-14
+safety classes ([IEC 60384-14]); the 10 MHz tank worked example of [lc-resonance] (C0G ∓150 Hz/K, derived).
 """
 
 from __future__ import annotations
@@ -115,7 +116,7 @@ def test_a_bad_shop_override_stops_the_command_with_its_file_and_key(db):
 
 
 def test_drift_of_a_bin_in_a_10mhz_tank(db):
-    # capacitor-codes.md §10: C0G ±30 ppm/K in a 10 MHz tank → ∓150 Hz/K; 10 K → ∓1500 Hz
+    # docs/sources.md: [lc-resonance]: C0G ±30 ppm/K in a 10 MHz tank → ∓150 Hz/K; 10 K → ∓1500 Hz
     result = run("--db", str(db), "drift", "--part", "A1", "--f0", "10MHz", "--tank", "100p",
                  "--delta-t", "10", "--json")
     assert result.exit_code == 0, result.output
@@ -171,7 +172,7 @@ def test_grade_on_an_imported_sheet_gives_the_classic_outcomes(tmp_path):
 
 # A shelf typed the way people type it (a fictional repair bench, "Kestrel Lane Radio"): most bins mark
 # no tolerance. EIA-198 (C0G 0 ± 30 ppm/K, X7R ±15 %, Z5U +22/−56 %), polystyrene −150 ± 50 ppm/K
-# (S33 and memory), IEC 60384-14 (X line–line only, Y either).
+# ([polystyrene-article] and memory), IEC 60384-14 (X line–line only, Y either).
 SHELF = """bin,marking,qty,package
 K1,100p C0G 50V,40,
 K2,56p NP0 100V,25,
@@ -223,7 +224,7 @@ def test_an_x_part_is_unfit_line_to_earth_and_the_table_shows_where_each_may_go(
 
 
 def test_explain_shows_the_case_size_in_the_dc_bias_term(shelf):
-    # S41 and the model from memory of published curves: 0805 loses far more than 1206
+    # [dc-bias-note] and the model from memory of published curves: 0805 loses far more than 1206
     small = run("--db", shelf, "grade", "--explain", "K9", "--volts", "12").stdout
     large = run("--db", shelf, "grade", "--explain", "K10", "--volts", "12").stdout
     assert "case 0805: −71 % at rated" in small and "about −49.2 %" in small

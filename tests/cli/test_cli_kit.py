@@ -1,6 +1,6 @@
 """`stock kit`: plan, show, picklist, pull, undo, drop through the command line.
 
-Sources: the JSON shape is this project's own contract (issue 7); allocation rules are common
+Sources: the JSON shape is this project's own contract (README); allocation rules are common
 practice, no published source; tolerance letter K = ±10 % from IEC 60062; X2 class from
 IEC 60384-14; exit codes follow the project's rule (1 bad data, 2 bad usage).
 """

@@ -1,7 +1,7 @@
 """`stock replace`: help with an example, the answer in words, the JSON contract, one-line errors.
 
 The shelf is Marsh Lane Radio Repairs' (invented), imported from a CSV. Outside sources: the EIA
-6-dot mica code (S24/S25 of the shared reference), EIA-198 (C0G 0 ± 30 ppm/K), IEC 60384-14 for
+6-dot mica code ([navy-colour-code]/[mica-mailing-list]), EIA-198 (C0G 0 ± 30 ppm/K), IEC 60384-14 for
 the mains caution, IEC 60063 (E12) for the value to buy; substitution rules are common practice.
 """
 

@@ -1,7 +1,7 @@
 """`stock demo` runs the whole job on the demo shop without a failing step.
 
 Source: the demo shop is invented (demo_inventory/make_demo.py); the promise checked here is
-issue 10's: import, flags, grades, a find with pairs, kit plans, a pull, the workbooks.
+the README's: import, flags, grades, a find with pairs, kit plans, a pull, the workbooks.
 """
 
 from __future__ import annotations

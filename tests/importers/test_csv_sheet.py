@@ -69,7 +69,7 @@ def test_cp1252_only_characters_are_read_as_cp1252(tmp_path):
     assert rows[0].cells[1] == "€ 2 – bought 1987"
 
 
-# The four delimiters the issue names; RFC 4180 describes comma, the others are common practice.
+# The four delimiters shop sheets use; RFC 4180 describes comma, the others are common practice.
 DELIMITERS = [
     pytest.param(",", id="comma"),
     pytest.param(";", id="semicolon"),
@@ -238,7 +238,7 @@ def test_rows_stream_without_holding_the_file_in_memory(tmp_path):
 @settings(max_examples=150, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(st.binary(max_size=2000))
 def test_any_bytes_give_rows_or_a_bad_sheet_never_a_crash(tmp_path, data):
-    # invariant (issue 12 fuzzing): a result or a clear error, never a traceback
+    # invariant (fuzzing, common practice): a result or a clear error, never a traceback
     path = write(tmp_path, data, name="fuzz.csv")
     try:
         for sheet in read_sheets(path):

@@ -16,7 +16,7 @@ from importers.headers import (BIN_FIELDS, BOM_FIELDS, guess_field, header_row_s
                                normalise, split_unit)
 from stock.errors import BadValue
 
-# The messy headers named in issue 4, and their kin; common practice in shop sheets, no published source.
+# Messy headers seen in shop sheets, and their kin; common practice in shop sheets, no published source.
 BIN_CASES = [
     pytest.param("Cap.", "value", id="cap-dot-is-value"),
     pytest.param("Value (pF)", "value", id="value-pf-is-value"),
@@ -146,7 +146,7 @@ def test_bom_headers_map_to_the_bom_vocabulary(header, field):
 
 
 def test_vocabularies_name_exactly_the_agreed_fields():
-    # The field names are a contract with intake and kit (CONTRACTS.md / issue 4 brief).
+    # The field names are a contract with intake and kit (CONTRACTS.md).
     assert BIN_FIELDS == ("marking", "value", "tolerance", "voltage", "dielectric", "colours", "quantity",
                           "location", "label", "cabinet", "notes", "minimum", "package", "mounting",
                           "date_code", "safety_class", "polarity", "rated_temp", "bin_key")

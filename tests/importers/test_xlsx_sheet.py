@@ -303,7 +303,7 @@ def test_an_encrypted_package_inside_a_zip_is_named(tmp_path):
 @settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(st.data())
 def test_a_damaged_workbook_gives_rows_or_a_bad_sheet_never_a_crash(tmp_path, data):
-    # issue 12 fuzzing: flip bytes of a real workbook; a result or a clear error, never a traceback
+    # fuzzing (common practice): flip bytes of a real workbook; a result or a clear error, never a traceback
     original = tmp_path / "good.xlsx"
     if not original.exists():
         simple_book(DRAWERS, SPARES).save(original)

@@ -2,8 +2,8 @@
 
 Sources for the hand-built markings: the IEC 60062 three-digit and letter codes (104 = 100 nF,
 K = ±10 %), from memory of EIA-198 and IEC 60062; the 47K reading as 47 nF is old US practice
-(from memory of older US catalogues), the reason a decoder flags it; the letter C meaning ±0.25 pF
-below 10 pF (IEC 60062, from memory). The 2-year shelf-life rule for aluminium electrolytics is
+(from memory of older US makers' catalogues, [old-us-letter-codes]), the reason a decoder flags
+it; the letter C meaning ±0.25 pF below 10 pF (IEC 60062, from memory). The 2-year shelf-life rule for aluminium electrolytics is
 common practice, no published source. ISO 8601 week numbering for YYWW date codes (the Python
 standard library implements ISO 8601).
 """
@@ -183,7 +183,7 @@ def test_every_documented_kind_has_a_raise_and_settle_case_here_or_in_test_dupli
     assert covered == set(FLAG_KINDS)
 
 
-# The hints say what one look or measurement would settle (wording asked for in issue 8).
+# The hints say what one look or measurement would settle (the project's wording).
 def test_ambiguous_code_hint_asks_which_value_to_measure(store):
     m = DECODER_CASES[1].values[1]
     add_flag(store, add_bin(store, "cab1/a1", m), m, "ambiguous-code")

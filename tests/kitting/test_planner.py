@@ -27,15 +27,10 @@ from stock.kitting.stored_plans import drop_plan, load_plan, pull_plan, undo_pul
 from stock.kitting.line_rules import Candidate, check_part, choose_bins
 from stock.kitting.pick_list import natural_key, pick_list, pick_list_text
 from stock.sheets_out.pick_sheet import write_pick_list_xlsx
-from stock.store.database import now, open_store
+from stock.store.database import open_store
+from tests.stored_rows import store_bin
 
 D = Decimal
-
-_PART_COLUMNS = ("capacitance_pf", "tol_minus", "tol_plus", "tol_unit", "tol_code", "voltage_v",
-                 "voltage_kind", "dielectric_code", "family", "class", "tempco_ppm_per_k",
-                 "tempco_tol_ppm_per_k", "temp_min_c", "temp_max_c", "change_minus_pct",
-                 "change_plus_pct", "safety_class", "polarity", "rated_temp_c")
-
 
 def part(text: str, pf: str | int, *, tol: str | None = None, volts: str | int | None = None,
          kind: str = "DC", dielectric: str | None = None, safety: str | None = None,
@@ -53,29 +48,8 @@ def part(text: str, pf: str | int, *, tol: str | None = None, volts: str | int |
 
 
 def add_bin(store, key: str, location: str | None, marking: Marking, on_hand: int) -> int:
-    """A bin and its part inserted the way the importer stores them (flat columns + JSON)."""
-    def f(v):
-        return None if v is None else float(v)
-
-    t, d = marking.tolerance, marking.dielectric
-    flat = (f(marking.capacitance_pf), f(t.minus) if t else None, f(t.plus) if t else None,
-            t.unit if t else None, t.code if t else None, f(marking.voltage_v), marking.voltage_kind,
-            d.code if d else None, d.family if d else None, d.klass if d else None,
-            f(d.tempco_ppm_per_k) if d else None, f(d.tempco_tol_ppm_per_k) if d else None,
-            f(d.temp_min_c) if d else None, f(d.temp_max_c) if d else None,
-            f(d.change_minus_pct) if d else None, f(d.change_plus_pct) if d else None,
-            marking.safety_class, marking.polarity, f(marking.rated_temp_c))
-    with store.writing() as db:
-        bin_id = db.conn.execute(
-            "INSERT INTO bins (bin_key, location, label, created_at, updated_at) VALUES (?,?,?,?,?)",
-            (key, location, marking.text, now(), now())).lastrowid
-        db.conn.execute(
-            f"INSERT INTO parts (bin_id, marking, {', '.join(_PART_COLUMNS)}, decoded_json)"
-            f" VALUES ({', '.join('?' * (len(_PART_COLUMNS) + 3))})",
-            (bin_id, marking.text, *flat, json.dumps(marking.to_json())))
-        if on_hand:
-            store.move(bin_id, on_hand, "import")
-    return bin_id
+    """A bin and its part stored through the importer's column mapping, its count in the ledger."""
+    return store_bin(store, key, marking, on_hand, location=location, label=marking.text)
 
 
 def line(refs="C1", qty=1, pf="100000", row=2, **fields) -> BomLine:
@@ -232,15 +206,18 @@ def test_allowances_relax_only_what_they_name(allow, bom_line, marking):
     assert any("allowed by --allow" in n for n in verdict.notes)
 
 
-@pytest.mark.parametrize("bom_line, marking", [
+@pytest.mark.parametrize("bom_line, marking, why", [
     pytest.param(line(pf=150, dielectric="C0G", application="tuned"),
-                 part("151 X7R", 150, dielectric="X7R"), id="tuned"),
-    pytest.param(line(safety_class="X2"), part("104", 100000, volts=630), id="mains"),
+                 part("151 X7R", 150, dielectric="X7R"),
+                 "X7R is a Class 2 ceramic; never in a tuned circuit", id="tuned"),
+    pytest.param(line(safety_class="X2"), part("104", 100000, volts=630),
+                 "not safety-rated; the mains line needs X2", id="mains"),
 ])
-def test_no_allowance_relaxes_the_tuned_or_mains_rules(bom_line, marking):
+def test_no_allowance_relaxes_the_tuned_or_mains_rules(bom_line, marking, why):
     verdict = check_part(bom_line, marking, marking.capacitance_pf,
                          frozenset({"looser-tolerance", "lower-class"}))
-    assert verdict.refused is not None
+    assert verdict.refused == why
+    assert not any("allowed by --allow" in n for n in verdict.notes)
 
 
 def test_a_plan_reserves_parts_so_a_second_plan_cannot_promise_them(store):

@@ -1,8 +1,11 @@
 """Colour bands and top dots: IEC 60062 colour figures, tubular tempco bands, reading direction.
 
-Outside sources: the IEC 60062 capacitor colour code as tabulated by the tutorial pages keyed S19,
-S20, S21 (and the encyclopedia table S22) in the project's code reference; the Class 1 tempco colour
-tables of the same pages plus S27 (GDR TGL 7838) and S62; IEC 60063 E12 values from the `eseries`
+Outside sources: the IEC 60062 capacitor colour code as tabulated by the tutorial pages keyed
+[colour-tutorial-a],
+[colour-tables-b], [colour-identification-c] (and the encyclopedia table [encyclopaedia-colour-code]) in
+docs/sources.md; the Class 1 tempco colour
+tables of the same pages plus [gdr-ceramics] (GDR TGL 7838) and [tc-letter-colour-table]; IEC 60063 E12 values
+from the `eseries`
 reference library. Where a case rests on memory it says so.
 """
 
@@ -52,8 +55,9 @@ def test_every_common_spelling_reads_as_the_same_colours(text, colours):
     assert parse_colour_text(text).sequence == colours
 
 
-# Three and four bands: 2 figures, multiplier in pF, tolerance (IEC 60062 colour code per S19, S20,
-# S21; the pF column applies at 10 pF and below, the % column above).
+# Three and four bands: 2 figures, multiplier in pF, tolerance (IEC 60062 colour code per [colour-tutorial-a],
+# [colour-tables-b],
+# [colour-identification-c]; the pF column applies at 10 pF and below, the % column above).
 @pytest.mark.parametrize("text, pf, tolerance", [
     pytest.param("yellow violet brown", "470", ("20", "20", "%"), id="470pF-no-band-is-20pc"),
     pytest.param("brown black orange silver", "10000", ("10", "10", "%"), id="10nF-silver-10pc"),
@@ -74,20 +78,23 @@ def test_three_and_four_bands_read_as_figures_multiplier_tolerance(text, pf, tol
 
 
 def test_a_small_value_says_its_tolerance_colour_was_read_in_pf():
-    # S19, S20, S21: the pF column holds at 10 pF and below
+    # [colour-tutorial-a], [colour-tables-b], [colour-identification-c]: the pF column holds at 10 pF and
+    # below
     m = decode_colours("red red gold white")
     assert tol(m) == (Decimal(1), Decimal(1), "pF")
     flag = next(f for f in m.flags if f.kind == "tolerance-by-value")
+    # the message names its sources by their old numbers (docs/sources.md, column "was")
     assert "threshold 10 pF" in flag.message and "S19, S20, S21" in flag.message
 
 
-# Disagreements between the tables (S19 vs S20/S21 vs S22): both readings kept, flagged.
+# Disagreements between the tables ([colour-tutorial-a] vs [colour-tables-b]/[colour-identification-c] vs
+# [encyclopaedia-colour-code]): both readings kept, flagged.
 @pytest.mark.parametrize("text, chosen, other", [
-    pytest.param("red red gold red", ("0.25", "pF"), ("2", "%"), id="red-quarter-pF-per-S19"),
-    pytest.param("red red gold grey", ("0.25", "pF"), ("80", "%"), id="grey-quarter-pF-per-S20-S21"),
-    pytest.param("red red gold brown", ("0.1", "pF"), ("1", "%"), id="brown-tenth-pF-only-S19"),
-    pytest.param("red red brown green", ("5", "%"), ("0.5", "%"), id="green-5pc-or-half-pc-S22"),
-    pytest.param("red red brown gold", ("5", "%"), ("0.5", "pF"), id="gold-5pc-or-half-pF-S22"),
+    pytest.param("red red gold red", ("0.25", "pF"), ("2", "%"), id="red-quarter-pF-per-colour-tutorial-a"),
+    pytest.param("red red gold grey", ("0.25", "pF"), ("80", "%"), id="grey-quarter-pF-per-colour-tables-b-colour-identification-c"),
+    pytest.param("red red gold brown", ("0.1", "pF"), ("1", "%"), id="brown-tenth-pF-only-colour-tutorial-a"),
+    pytest.param("red red brown green", ("5", "%"), ("0.5", "%"), id="green-5pc-or-half-pc-encyclopaedia-colour-code"),
+    pytest.param("red red brown gold", ("5", "%"), ("0.5", "pF"), id="gold-5pc-or-half-pF-encyclopaedia-colour-code"),
 ])
 def test_disputed_tolerance_colours_keep_both_readings(text, chosen, other):
     m = decode_colours(text)
@@ -98,21 +105,22 @@ def test_disputed_tolerance_colours_keep_both_readings(text, chosen, other):
 
 
 def test_grey_multiplier_also_offers_the_resistor_style_reading():
-    # S20 prints grey = ×10^8 in its resistor-style table, ×0.01 for ceramics
+    # [colour-tables-b] prints grey = ×10^8 in its resistor-style table, ×0.01 for ceramics
     m = decode_colours("brown black grey white")
     assert m.capacitance_pf == Decimal("0.1")
     assert Decimal(10) * Decimal(100_000_000) in alternative_values(m)
     assert "disputed-code" in m.flag_kinds()
 
 
-# Tubular ceramic read from the wide tempco band (S19 column order; tempco colours S19, S20, S21).
+# Tubular ceramic read from the wide tempco band ([colour-tutorial-a] column order; tempco colours
+# [colour-tutorial-a], [colour-tables-b], [colour-identification-c]).
 @pytest.mark.parametrize("text, pf, tolerance, code, ppm", [
     pytest.param("bands: violet yellow violet black green", "47", ("5", "%"), "N750", -750,
                  id="n750-47pF-5pc"),
     pytest.param("black brown black black white", "10", ("1", "pF"), "NP0", 0, id="np0-10pF-1pF"),
     pytest.param("orange red red brown silver", "220", ("10", "%"), "N150", -150, id="n150-220pF"),
     pytest.param("red violet brown black brown silver", "100", ("10", "%"), "P100", 100,
-                 id="two-colour-p100-six-bands"),  # red + violet = P100: S27, S28
+                 id="two-colour-p100-six-bands"),  # red + violet = P100: [gdr-ceramics], [capinfo-1993]
     pytest.param("tubular yellow orange green blue black silver", "56", ("10", "%"), "N2200", -2200,
                  id="two-colour-n2200-from-memory"),  # yellow + orange = N2200: from memory
 ])
@@ -127,20 +135,22 @@ def test_tubular_bands_start_with_the_tempco(text, pf, tolerance, code, ppm):
 
 
 def test_a_tempco_band_typed_at_the_far_end_is_read_from_the_other_end():
-    # the S19 layout written backwards: green black violet yellow violet = violet yellow violet black green
+    # the [colour-tutorial-a] layout written backwards: green black violet yellow violet = violet yellow
+    # violet black green
     m = decode_colours("green black violet yellow violet")
     assert (m.capacitance_pf, m.dielectric.code) == (Decimal(47), "N750")
     assert "both-ends" in m.flag_kinds()
 
 
-# Disc and plate ceramics: value bands plus a top dot or band (tempco colours S19, S20, S21, S27, S62).
+# Disc and plate ceramics: value bands plus a top dot or band (tempco colours [colour-tutorial-a],
+# [colour-tables-b], [colour-identification-c], [gdr-ceramics], [tc-letter-colour-table]).
 @pytest.mark.parametrize("text, pf, code", [
     pytest.param("brown black orange, top dot black", "10000", "NP0", id="top-dot-black-is-np0"),
     pytest.param("top dot violet; red red brown", "220", "N750", id="top-dot-first"),
     pytest.param("top band red violet, brown black red", "1000", "P100", id="two-colour-top-band"),
     pytest.param("disc orange white brown, top dot orange orange", "390", "N1500",
                  id="orange-orange-n1500-from-memory"),
-    pytest.param("yellow violet brown, top gold", "470", "P100", id="gold-is-p100-per-S62"),
+    pytest.param("yellow violet brown, top gold", "470", "P100", id="gold-is-p100-per-tc-letter-colour-table"),
     pytest.param("red red brown, top dot grey", "220", "P030", id="grey-is-p030"),
     pytest.param("red red brown, top dot light blue", "220", "N470", id="light-blue-tgl-7838"),
     pytest.param("red red brown, top dot dark blue", "220", "N1500", id="dark-blue-tgl-7838"),
@@ -153,8 +163,8 @@ def test_a_top_dot_gives_the_tempco_of_a_disc(text, pf, code):
 
 
 @pytest.mark.parametrize("colour, chosen, others", [
-    pytest.param("brown", "N030", {"N033", "N150"}, id="brown-n030-S20-or-n033-S19"),
-    pytest.param("red", "N080", {"N075"}, id="red-n080-S20-or-n075-S19"),
+    pytest.param("brown", "N030", {"N033", "N150"}, id="brown-n030-colour-tables-b-or-n033-colour-tutorial-a"),
+    pytest.param("red", "N080", {"N075"}, id="red-n080-colour-tables-b-or-n075-colour-tutorial-a"),
 ])
 def test_disputed_tempco_colours_keep_every_reading(colour, chosen, others):
     m = decode_colours(f"yellow violet brown, top dot {colour}")
@@ -263,7 +273,7 @@ E12_PF = [Decimal(str(v)).quantize(Decimal(1)) for v in eseries.erange(eseries.E
 
 
 def test_the_encoder_of_this_test_matches_a_worked_example():
-    assert to_three_bands(Decimal(4700)) == "yellow violet red"   # 4.7 nF, S19/S20 worked form
+    assert to_three_bands(Decimal(4700)) == "yellow violet red"   # 4.7 nF, [colour-tutorial-a]/[colour-tables-b] worked form
     assert len(E12_PF) == 61 and E12_PF[0] == 10 and E12_PF[-1] == 1_000_000
 
 
@@ -292,8 +302,14 @@ def test_decode_never_raises_on_colour_like_text_and_round_trips_as_json(parts):
 @given(st.text())
 def test_decode_never_raises_on_any_text(text):
     m = decode_colours(text)
-    assert isinstance(m, Marking)
-    looks_like_colours(text)
+    assert isinstance(m, Marking) and m.text == text
+    # a value is read, or the marking says why not
+    assert m.capacitance_pf is not None or m.flag_kinds() & {"unreadable", "unparsed"} or m.unparsed
+    # text with a digit is never taken for colours: the printed codes are read instead
+    detected = looks_like_colours(text)
+    assert isinstance(detected, bool)
+    if any(ch.isdigit() for ch in text):
+        assert not detected
 
 
 def test_five_bands_ending_in_a_voltage_colour_read_as_a_polyester_film_part():
@@ -305,7 +321,7 @@ def test_five_bands_ending_in_a_voltage_colour_read_as_a_polyester_film_part():
 
 
 def test_five_colours_that_fit_a_band_and_a_mica_code_equally_say_so():
-    # polyester (from memory) and RMA five dots (S26) both give 100 nF
+    # polyester (from memory) and RMA five dots ([rma-mica-page]) both give 100 nF
     m = decode_colours("brown black yellow white red")
     assert m.dielectric.family == "polyester"
     assert "layout-ambiguous" in m.flag_kinds()
@@ -318,12 +334,12 @@ def test_a_top_dot_split_from_bands_in_one_clause_takes_one_colour():
 
 
 _FIGURE = st.sampled_from(IEC_60062_FIGURE_COLOURS[1:])            # a first figure is never black
-_MULTIPLIER = st.sampled_from(IEC_60062_FIGURE_COLOURS[1:7])       # brown ×10 … blue ×10^6 (S19)
+_MULTIPLIER = st.sampled_from(IEC_60062_FIGURE_COLOURS[1:7])       # brown ×10 … blue ×10^6 ([colour-tutorial-a])
 
 
 @given(_MULTIPLIER, _FIGURE, _MULTIPLIER)
 def test_three_bands_valid_from_both_ends_return_both_readings(first, second, last):
-    # first and last are each a valid first figure and a valid multiplier (IEC 60062 via S19)
+    # first and last are each a valid first figure and a valid multiplier (IEC 60062 via [colour-tutorial-a])
     colours = (first, second, last)
     m = decode_colours(" ".join(colours))
     values = {m.capacitance_pf} | alternative_values(m)

@@ -1,6 +1,6 @@
-"""The decoded-value types: the JSON contract of issue 2, and a lossless round trip.
+"""The decoded-value types: the JSON contract, and a lossless round trip.
 
-Sources: the JSON shape is this project's published contract (README, issue 2); the sample
+Sources: the JSON shape is this project's published contract (README); the sample
 markings' values are IEC 60062 three-digit and letter codes and EIA-198 dielectric codes.
 """
 

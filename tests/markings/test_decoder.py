@@ -1,7 +1,8 @@
-"""Whole markings: every example of issue 2, the ambiguities that must be flagged, hostile text.
+"""Whole markings: the project's example markings, the ambiguities that must be flagged, hostile text.
 
 Sources: IEC 60062 (value and tolerance codes), EIA-198 (dielectric codes), IEC 60384-14 (safety
-classes) as reproduced in the capacitor-codes reference; the voltage-code table §5a; polarity
+classes) as reproduced in docs/sources.md; the voltage-code table voltage-code tables ([code-table-blog],
+[decoder-guide], [coding-blog-voltage]); polarity
 conventions are common practice, no published source.
 """
 
@@ -14,12 +15,14 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from stock.decoded import Marking
-from stock.markings.decoder import MAX_MARKING_CHARS, cautions, decode, summary
+from stock.markings.decoder import MAX_MARKING_CHARS, decode
+from stock.markings.description import summary
+from stock.markings.cautions import cautions
 
 D = Decimal
 
-# Every example marking of issue 2, with the reading the tables give (sources per field above).
-ISSUE_EXAMPLES = [
+# Every example marking of the project's brief, with the reading the tables give (sources per field above).
+EXAMPLE_MARKINGS = [
     pytest.param("104K 2A X7R", "100 nF ±10 %  100 V DC  X7R (−55…+125 °C, ±15 %)", id="104K-2A-X7R"),
     pytest.param("4n7 J 100V", "4.7 nF ±5 %  100 V DC", id="4n7-J-100V"),
     pytest.param("47pF NP0", "47 pF  NP0 (0 ±30 ppm/K)", id="47pF-NP0"),
@@ -47,12 +50,12 @@ ISSUE_EXAMPLES = [
 ]
 
 
-@pytest.mark.parametrize(("text", "line"), ISSUE_EXAMPLES)
-def test_issue_examples_decode_to_the_expected_line(text, line):
+@pytest.mark.parametrize(("text", "line"), EXAMPLE_MARKINGS)
+def test_example_markings_decode_to_the_expected_line(text, line):
     assert summary(decode(text)) == line
 
 
-# The field values behind the lines, for the cases the issue names (IEC 60062, EIA-198).
+# The field values behind the lines, for the cases above ([IEC 60062], [EIA-198]).
 def test_field_values_of_the_named_cases():
     assert decode("104").capacitance_pf == 100000
     assert decode("479").capacitance_pf == D("4.7")
@@ -68,7 +71,7 @@ def test_field_values_of_the_named_cases():
     assert (m.capacitance_pf, m.voltage_v, m.rated_temp_c) == (2200000000, 25, 105)
 
 
-# Ambiguities issue 2 requires to be flagged, with the other reading kept.
+# Ambiguities that must be flagged, with the other reading kept.
 FLAG_CASES = [
     pytest.param("100", "ambiguous-code", D(100), id="code-ending-in-zero"),
     pytest.param("470", "ambiguous-code", D(470), id="470-literal-kept"),
@@ -174,7 +177,7 @@ def test_plain_volts_on_a_safety_capacitor_are_read_as_ac_with_a_flag():
     assert m.voltage_kind == "AC" and "voltage-kind-assumed" in m.flag_kinds()
 
 
-# Input forms issue 2 requires: case, spaces, dots, slashes, decimal commas, µ/u/U, ±, °.
+# Input forms seen in typed sheets: case, spaces, dots, slashes, decimal commas, µ/u/U, ±, °.
 @pytest.mark.parametrize(("text", "pf", "tol_plus"), [
     pytest.param("4,7nF ± 5 %", D(4700), D(5), id="comma-and-spaced-plus-minus"),
     pytest.param("4.7µF", D(4700000), None, id="micro-sign"),
@@ -194,7 +197,7 @@ def test_tolerant_input_forms(text, pf, tol_plus):
     assert (m.tolerance.plus if m.tolerance else None) == tol_plus
 
 
-# Hostile text: never raises, always says why (issue 2 §7).
+# Hostile text: never raises, always says why (the project's promise).
 @pytest.mark.parametrize("text", ["", "   ", "\x00\x07\x1b", "日本語テキスト", "🙂🙂", "\u202e104K",
                                   "x" * (MAX_MARKING_CHARS + 1)])
 def test_hostile_text_gives_an_unreadable_flag(text):

@@ -9,7 +9,8 @@ from decimal import Decimal as D
 
 import pytest
 
-from stock.markings.decoder import cautions, decode
+from stock.markings.decoder import decode
+from stock.markings.cautions import cautions
 
 
 # common practice in distributor descriptions, no published source

@@ -1,7 +1,8 @@
 """Dielectric families by name, with their typical figures.
 
-Sources: WIMA's film-dielectric comparison table and the other rows of the capacitor-codes
-reference §8a (S32, S33, S34, S68, S70); the rest from memory, as the module says row by row.
+Sources (docs/sources.md): a film maker's dielectric comparison table [film-dielectrics-table] and
+the other dielectric pages ([polystyrene-article], [silver-mica-overview], [film-capacitor-text],
+[polystyrene-white-paper]); the rest from memory, as the module says row by row.
 """
 
 from __future__ import annotations
@@ -57,14 +58,16 @@ def test_every_family_in_the_vocabulary_has_figures_and_a_name():
     assert all(f.source for f in FAMILY_FIGURES.values())
 
 
-# Typical figures (reference §8a): PP ±2.5 % over −55…+105 °C (S32), polyester ±5 % (S32),
-# polystyrene −125 ppm/K to +85 °C (S33, S70), silver mica +35…+75 ppm/K (S34), tantalum ±10 % (S32),
-# PTFE +1/−3 % (S68), PPS ±1.5 % to +140 °C (S32).
+# Typical figures (docs/sources.md: dielectric pages ([film-dielectrics-table] and others)): PP ±2.5 % over
+# −55…+105 °C ([film-dielectrics-table]), polyester ±5 % ([film-dielectrics-table]),
+# polystyrene −125 ppm/K to +85 °C ([polystyrene-article], [polystyrene-white-paper]), silver mica +35…+75
+# ppm/K ([silver-mica-overview]), tantalum ±10 % ([film-dielectrics-table]),
+# PTFE +1/−3 % ([film-capacitor-text]), PPS ±1.5 % to +140 °C ([film-dielectrics-table]).
 FIGURE_CASES = [
     pytest.param("polypropylene", "change_minus_pct", D("2.5"), id="PP-2.5pc"),
     pytest.param("polypropylene", "temp_max_c", D(105), id="PP-105C"),
     pytest.param("polyester", "change_plus_pct", D(5), id="PET-5pc"),
-    pytest.param("polystyrene", "tempco_ppm_per_k", D(-150), id="PS-minus150-spans-S33-minus125"),
+    pytest.param("polystyrene", "tempco_ppm_per_k", D(-150), id="PS-minus150-spans-polystyrene-article-minus125"),
     pytest.param("polystyrene", "temp_max_c", D(85), id="PS-85C"),
     pytest.param("mica", "tempco_ppm_per_k", D(40), id="mica-plus40-spans-characteristic-E"),
     pytest.param("tantalum", "change_minus_pct", D(10), id="tantalum-10pc"),
@@ -79,7 +82,7 @@ def test_family_figures_match_the_published_tables(family, attribute, expected):
 
 
 def test_silver_mica_tempco_window_covers_the_published_range():
-    d = family_dielectric("mica")   # S34: +35…+75 ppm/K
+    d = family_dielectric("mica")   # [silver-mica-overview]: +35…+75 ppm/K
     assert d.tempco_ppm_per_k - d.tempco_tol_ppm_per_k <= 35
     assert d.tempco_ppm_per_k + d.tempco_tol_ppm_per_k >= 75
 

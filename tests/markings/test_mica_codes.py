@@ -1,10 +1,13 @@
 """Mica colour dots: EIA (white type dot), JAN/AWS (black), paper (silver), older RMA codes.
 
-Outside sources (keys of the project's code reference): S24 = US Navy manual OD 1647 (white type
-dot, worked example 1200 pF ±2 %), S25 = ARC5 mailing-list post quoting AWS charts AN 16-40BC224-2
-(worked example 51 pF ±4 % characteristic C, 500 V DC), S26 = moulded-mica RMA chart (3-dot example
-red green black = 25 pF), S22 = encyclopedia colour table (characteristic brown B … green F),
-S23 = code-chart page (three figures after the white dot, characteristic last).
+Outside sources (keys of docs/sources.md): [navy-colour-code] = US Navy manual OD 1647 (white type
+dot, worked example 1200 pF ±2 %), [mica-mailing-list] = ARC5 mailing-list post quoting AWS charts AN
+16-40BC224-2
+(worked example 51 pF ±4 % characteristic C, 500 V DC), [rma-mica-page] = moulded-mica RMA chart (3-dot
+example
+red green black = 25 pF), [encyclopaedia-colour-code] = encyclopedia colour table (characteristic brown B …
+green F),
+[mica-colour-page] = code-chart page (three figures after the white dot, characteristic last).
 """
 
 from __future__ import annotations
@@ -20,12 +23,12 @@ from stock.markings.mica_codes import characteristic_dielectric, mica_readings
 # Worked examples printed by the sources.
 @pytest.mark.parametrize("text, pf, tol_pct, volts, code", [
     pytest.param("mica EIA white brown red black blue red", "1200", "2", None, "mica",
-                 id="S24-white-dot-1200pF-blue-2pc"),
+                 id="navy-colour-code-white-dot-1200pF-blue-2pc"),
     pytest.param("black green brown red yellow black", "51", "4", "500", "mica char. C",
-                 id="S25-aws-51pF-4pc-char-C-500V"),
-    pytest.param("mica red green black", "25", "20", "500", "mica", id="S26-rma-three-dots-25pF"),
+                 id="mica-mailing-list-aws-51pF-4pc-char-C-500V"),
+    pytest.param("mica red green black", "25", "20", "500", "mica", id="rma-mica-page-rma-three-dots-25pF"),
     pytest.param("dots red green black brown gold", "25", "5", "100", "mica",
-                 id="S26-rma-five-dots-voltage-tolerance"),
+                 id="rma-mica-page-rma-five-dots-voltage-tolerance"),
     pytest.param("mica RMA brown red orange brown gold black", "123", "5", "100", "mica",
                  id="rma-six-dots-three-figures-from-memory"),
 ])
@@ -39,8 +42,8 @@ def test_mica_worked_examples_decode(text, pf, tol_pct, volts, code):
 
 def test_an_unnamed_six_dot_code_returns_every_consistent_reading_and_says_so():
     m = decode_colours("dots: white red red brown black black")
-    assert m.capacitance_pf == Decimal(22)                     # S24/S25 order, E12
-    assert Decimal(221) in {a.capacitance_pf for a in m.alternatives}   # S23 order: three figures
+    assert m.capacitance_pf == Decimal(22)                     # [navy-colour-code]/[mica-mailing-list] order, E12
+    assert Decimal(221) in {a.capacitance_pf for a in m.alternatives}   # [mica-colour-page] order: three figures
     flag = next(f for f in m.flags if f.kind == "layout-ambiguous")
     assert "S23 order" in flag.message and "say mica EIA, JAN or RMA" in flag.message
 
@@ -57,10 +60,11 @@ def test_naming_a_code_the_dots_do_not_fit_is_a_label_conflict():
     assert m.capacitance_pf == Decimal(1200)
 
 
-# Characteristic letters disagree: S22 brown B … green F; S23 classes A to E (shift inferred).
+# Characteristic letters disagree: [encyclopaedia-colour-code] brown B … green F; [mica-colour-page] classes A
+# to E (shift inferred).
 @pytest.mark.parametrize("colour, chosen, other", [
-    pytest.param("red", "C", "B", id="red-C-per-S22-S25"),
-    pytest.param("green", "F", "E", id="green-F-per-S22"),
+    pytest.param("red", "C", "B", id="red-C-per-encyclopaedia-colour-code-mica-mailing-list"),
+    pytest.param("green", "F", "E", id="green-F-per-encyclopaedia-colour-code"),
 ])
 def test_disputed_characteristic_letters_keep_both_readings(colour, chosen, other):
     m = decode_colours(f"mica JAN black green brown {colour} green black")
@@ -70,25 +74,25 @@ def test_disputed_characteristic_letters_keep_both_readings(colour, chosen, othe
 
 
 def test_characteristic_c_is_plus_minus_200_ppm():
-    # S25: characteristic C = ±200 ppm/°C
-    d = characteristic_dielectric("C", "S25")
+    # [mica-mailing-list]: characteristic C = ±200 ppm/°C
+    d = characteristic_dielectric("C", "[mica-mailing-list]")
     assert (d.family, d.tempco_ppm_per_k, d.tempco_tol_ppm_per_k) == ("mica", 0, 200)
 
 
 def test_yellow_tolerance_on_mica_is_flagged_as_disputed():
-    # S25: yellow = ±4 % in one AWS chart, blank in another
+    # [mica-mailing-list]: yellow = ±4 % in one AWS chart, blank in another
     m = decode_colours("black green brown red yellow black")
     assert any("yellow is ±4 %" in f.message for f in m.flags if f.kind == "disputed-code")
 
 
 def test_a_silver_type_dot_is_a_paper_capacitor():
-    # S24: paper is a silver dot
+    # [navy-colour-code]: paper is a silver dot
     m = decode_colours("dots silver brown black black black brown")
     assert m.dielectric.family == "paper" and m.capacitance_pf == Decimal(100)
 
 
 def test_a_reading_outside_the_mica_range_is_not_offered():
-    # white type dot, S23 order would give 120 × 10^6 pF: no moulded mica is that large
+    # white type dot, [mica-colour-page] order would give 120 × 10^6 pF: no moulded mica is that large
     readings, _ = mica_readings(("white", "brown", "red", "black", "blue", "red"), frozenset())
     assert [r.capacitance_pf for r in readings] == [Decimal(1200)]
 

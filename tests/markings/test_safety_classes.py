@@ -1,7 +1,8 @@
 """IEC 60384-14 safety classes: reading the marks, dual ratings, which class covers which.
 
-Source: IEC 60384-14 subclasses and impulse voltages as reproduced in the capacitor-codes
-reference §7 (S29, S30, S31); dual ratings such as X1 400 V AC / Y2 250 V AC per S67.
+Source: IEC 60384-14 subclasses and impulse voltages as reproduced by the pages docs/sources.md
+names under [IEC 60384-14] ([safety-impulse-calculator], [safety-parameters-page], [safety-note]); dual
+ratings such as X1 400 V AC / Y2 250 V AC per [safety-disc-slide].
 """
 
 from __future__ import annotations
@@ -12,7 +13,7 @@ import pytest
 
 from stock.markings.safety_classes import CAUTION, SUBCLASSES, covers, describe, positions_text, read_safety_class
 
-# IEC 60384-14 subclasses and the dual-rating spellings seen on parts (S67; common practice).
+# IEC 60384-14 subclasses and the dual-rating spellings seen on parts ([safety-disc-slide]; common practice).
 READ_CASES = [
     pytest.param("X1", "X1", id="X1"),
     pytest.param("X2", "X2", id="X2"),
@@ -39,7 +40,8 @@ def test_tokens_that_are_no_safety_class_give_none(token):
     assert read_safety_class(token) is None
 
 
-# IEC 60384-14 impulse test voltages (S29, S30): X1 4 kV, X2 2.5 kV, Y1 8 kV, Y2 5 kV, Y4 2.5 kV.
+# IEC 60384-14 impulse test voltages ([safety-impulse-calculator], [safety-parameters-page]): X1 4 kV, X2 2.5
+# kV, Y1 8 kV, Y2 5 kV, Y4 2.5 kV.
 @pytest.mark.parametrize(("sub", "kv"), [
     pytest.param("X1", Decimal(4), id="X1-4kV"),
     pytest.param("X2", Decimal("2.5"), id="X2-2.5kV"),
@@ -51,9 +53,10 @@ def test_impulse_test_voltages_match_the_standard(sub, kv):
     assert SUBCLASSES[sub].impulse_kv == kv
 
 
-# Every (part, position) pair, worked by hand from IEC 60384-14 as reproduced in the reference §7:
-# impulse tests X1 4 kV, X2 2.5 kV, Y1 8 kV, Y2 5 kV, Y4 2.5 kV (S29, S30, S31), X3 and Y3 none
-# (S30; X3 from memory); rated AC Y1 ≤ 500, Y2 150…300, Y3 ≤ 250, Y4 < 150 V AC (S30). Rule: Y may
+# Every (part, position) pair, worked by hand from [IEC 60384-14] as its pages reproduce it: impulse
+# tests X1 4 kV, X2 2.5 kV, Y1 8 kV, Y2 5 kV, Y4 2.5 kV ([safety-impulse-calculator],
+# [safety-parameters-page], [safety-note]), X3 and Y3 none ([safety-parameters-page]; X3 from
+# memory); rated AC Y1 ≤ 500, Y2 150…300, Y3 ≤ 250, Y4 < 150 V AC ([safety-parameters-page]). Rule: Y may
 # take X, X never Y; impulse at least as severe; AC rating reaching the position's (≥ 150 V AC
 # assumed when none is stated: derived, Y4's range lies below it).
 COVER_CASES = [
@@ -106,7 +109,7 @@ COVER_CASES = [
     pytest.param("Y4", "Y2", False, id="Y4-not-Y2:2.5kV<5kV"),
     pytest.param("Y4", "Y3", False, id="Y4-not-Y3:below-150VAC"),
     pytest.param("Y4", "Y4", True, id="Y4-is-Y4"),
-    # dual ratings (S67): each class the position names must be covered
+    # dual ratings ([safety-disc-slide]): each class the position names must be covered
     pytest.param("X1Y2", "X2", True, id="dual-covers-X2"),
     pytest.param("X1Y2", "Y2", True, id="dual-covers-Y2"),
     pytest.param("X1Y2", "Y1", False, id="dual-not-Y1"),
@@ -126,12 +129,12 @@ def test_every_pair_of_subclasses_is_in_the_table():
     assert {(a, b) for a in SUBCLASSES for b in SUBCLASSES} <= pairs
 
 
-# S30: Y2 is rated 150…300 V AC; a part's marked AC rating below the position's refuses it.
+# [safety-parameters-page]: Y2 is rated 150…300 V AC; a part's marked AC rating below the position's refuses it.
 def test_a_marked_ac_rating_below_the_positions_refuses_the_part():
     assert covers("Y2", "X2", Decimal(250), Decimal(230)).ok
     refused = covers("X2", "X2", Decimal(125), Decimal(230))
     assert not refused.ok and refused.reason == "X2 does not cover X2: rated 125 V AC, below the position's 230 V AC"
-    # a Y4 part on a 120 V AC line-line position: its rating reaches it (S30: Y4 < 150 V AC)
+    # a Y4 part on a 120 V AC line-line position: its rating reaches it ([safety-parameters-page]: Y4 < 150 V AC)
     assert covers("Y4", "X2", Decimal(125), Decimal(120)).ok   # 2.5 kV ≥ 2.5 kV, 125 V ≥ 120 V
     assert not covers("Y4", "X2", Decimal(125)).ok             # no voltage stated: ≥ 150 V AC assumed
 
@@ -145,7 +148,7 @@ def test_refusal_reasons_name_the_real_cause():
 
 
 def test_a_y_part_may_take_either_position_and_an_x_part_line_to_line_only():
-    # IEC 60384-14 (S66): X line–line, Y line–earth; Y may serve line–line too
+    # [IEC 60384-14] ([safety-classes-blog]): X line–line, Y line–earth; Y may serve line–line too
     assert read_safety_class("X2").positions() == ("line-line",)
     assert read_safety_class("Y2").positions() == ("line-line", "line-earth")
     assert positions_text("X2") == "line–line (X2); never line–earth"

@@ -1,7 +1,8 @@
 """Engineering formatting and parsing of user-typed values.
 
 Sources: SI prefixes and the IEC 80000 habit of a space before the unit (reference); IEC 60062
-codes for the parsing cases (capacitor-codes reference §4a, §4b); voltage codes per §5a.
+codes for the parsing cases (docs/sources.md: [IEC 60062] letter-and-digit code, [IEC 60062] three-digit
+code); voltage codes per voltage-code tables ([code-table-blog], [decoder-guide], [coding-blog-voltage]).
 """
 
 from __future__ import annotations
@@ -50,7 +51,8 @@ def test_tolerances_and_voltages_are_printed_with_real_signs():
     assert format_temperature_range(D(10), D(85)) == "+10…+85 °C"
 
 
-# Every syntax of the decoder (IEC 60062 §4a/§4b; unit-less convention §4a).
+# Every syntax of the decoder (IEC 60062 [IEC 60062] letter-and-digit code/[IEC 60062] three-digit code;
+# unit-less convention [IEC 60062] letter-and-digit code).
 PARSE_CASES = [
     pytest.param("150p", D(150), id="150p"),
     pytest.param("4n7", D(4700), id="4n7"),
@@ -112,7 +114,7 @@ def test_temperature_range_with_ends_swapped_is_refused():
     pytest.param("50V", D(50), id="50V"),
     pytest.param("1kV", D(1000), id="1kV"),
     pytest.param("6V3", D("6.3"), id="6V3"),
-    pytest.param("2A", D(100), id="code-2A"),   # EIA code, reference §5a (S12, S57)
+    pytest.param("2A", D(100), id="code-2A"),   # EIA code, docs/sources.md: voltage-code tables ([code-table-blog], [decoder-guide], [coding-blog-voltage]) ([code-table-blog], [coding-blog-voltage])
     pytest.param("250 VDC", D(250), id="spaced"),
 ])
 def test_voltages_parse(text, volts):

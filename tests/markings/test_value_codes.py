@@ -1,6 +1,7 @@
 """IEC 60062 value codes: three-digit code, letter-and-digit code, values with units, unit-less values.
 
-Sources: IEC 60062 as reproduced in the capacitor-codes reference (§4a, §4b) and its worked
+Sources: IEC 60062 as reproduced in (docs/sources.md: [IEC 60062] letter-and-digit code, [IEC 60062]
+three-digit code) and its worked
 examples; the eseries library (IEC 60063) as an outside oracle for the round trip.
 """
 
@@ -16,7 +17,8 @@ from hypothesis import strategies as st
 from stock.markings.decoder import decode
 from stock.markings.value_codes import encode_three_digit, read_value, three_digit_value
 
-# IEC 60062 three-digit code, worked examples of the reference tables (§4b, S12, S13, S61).
+# IEC 60062 three-digit code, worked examples of the reference tables ([IEC 60062] three-digit code,
+# [code-table-blog], [decoder-guide], [german-table-page]).
 THREE_DIGIT_CASES = [
     pytest.param("104", Decimal(100000), id="104-is-100nF"),
     pytest.param("479", Decimal("4.7"), id="479-is-4.7pF"),
@@ -36,7 +38,8 @@ def test_three_digit_code_gives_two_figures_times_the_multiplier(code, pf):
     assert read_value(code).chosen.capacitance_pf == pf
 
 
-# IEC 60062 letter-and-digit code (§4a, S52, S19) and R as the decimal point (S12, S13).
+# IEC 60062 letter-and-digit code ([IEC 60062] letter-and-digit code, [encyclopaedia-rkm],
+# [colour-tutorial-a]) and R as the decimal point ([code-table-blog], [decoder-guide]).
 LETTER_CASES = [
     pytest.param("p47", Decimal("0.47"), id="p47-is-0.47pF"),
     pytest.param("4p7", Decimal("4.7"), id="4p7-is-4.7pF"),
@@ -52,7 +55,7 @@ LETTER_CASES = [
     pytest.param("4R7", Decimal("4.7"), id="4R7-is-4.7pF"),
     pytest.param("0R5", Decimal("0.5"), id="0R5-is-0.5pF"),
     pytest.param("4N7", Decimal(4700), id="upper-case-N-is-nano"),
-    pytest.param("3K3", Decimal(3300), id="older-US-3K3-is-3.3nF"),   # from memory of older US practice (S18)
+    pytest.param("3K3", Decimal(3300), id="older-US-3K3-is-3.3nF"),   # from memory of older US makers' practice ([old-us-letter-codes])
 ]
 
 
@@ -65,7 +68,8 @@ def test_letter_and_digit_code_puts_the_prefix_where_the_point_is(token, pf):
         assert reading.chosen.capacitance_pf == pf
 
 
-# Values with units, including the old MFD / mmfd spellings (§4a; from memory of US practice).
+# Values with units, including the old MFD / mmfd spellings ([IEC 60062] letter-and-digit code; from memory of
+# US practice).
 UNIT_CASES = [
     pytest.param("47pF", Decimal(47), id="47pF"),
     pytest.param("100nF", Decimal(100000), id="100nF"),
@@ -92,7 +96,8 @@ def test_upper_case_mf_is_read_as_microfarad_with_a_doubt():
     assert [f.kind for f in reading.flags] == ["ambiguous-code"]
 
 
-# Unit-less convention (§4a, S17, S12, S61): whole numbers are pF, decimals are µF.
+# Unit-less convention ([IEC 60062] letter-and-digit code, [german-training-page], [code-table-blog],
+# [german-table-page]): whole numbers are pF, decimals are µF.
 UNITLESS_CASES = [
     pytest.param("47", Decimal(47), id="47-is-47pF"),
     pytest.param("1000", Decimal(1000), id="1000-is-1000pF"),
@@ -115,7 +120,8 @@ def test_unitless_whole_number_on_an_electrolytic_is_microfarad():
     assert reading.others[0].capacitance_pf == Decimal(2200)
 
 
-# A three-digit code ending in 0 is also a literal number of pF (reference §4b, issue 2).
+# A three-digit code ending in 0 is also a literal number of pF (docs/sources.md: [IEC 60062] three-digit
+# code).
 @pytest.mark.parametrize(("code", "as_code", "literal"), [
     pytest.param("100", Decimal(10), Decimal(100), id="100"),
     pytest.param("470", Decimal(47), Decimal(470), id="470"),
@@ -128,7 +134,8 @@ def test_three_digits_ending_in_zero_offer_both_readings(code, as_code, literal)
 
 
 def test_two_digits_and_k_are_ambiguous_between_iec_and_older_us_practice():
-    # IEC 60062 via S17: 47 pF ±10 %; older US practice (S18): 47 nF
+    # IEC 60062 via [german-training-page]: 47 pF ±10 %; older US makers' practice
+    # ([old-us-letter-codes]): 47 nF
     reading = read_value("47K")
     assert reading.chosen.capacitance_pf == Decimal(47)
     assert reading.chosen.tolerance_letter == "K"
@@ -136,7 +143,8 @@ def test_two_digits_and_k_are_ambiguous_between_iec_and_older_us_practice():
 
 
 def test_multiplier_digit_seven_is_disputed_except_on_tantalum():
-    # reference §4b: 7 "not used" (S12, S13); tantalum chips print 107 = 100 µF (common practice)
+    # docs/sources.md: [IEC 60062] three-digit code: 7 "not used" ([code-table-blog], [decoder-guide]);
+    # tantalum chips print 107 = 100 µF (common practice)
     assert "disputed-code" in {f.kind for f in read_value("107").flags}
     tantalum = read_value("107", family="tantalum")
     assert tantalum.chosen.capacitance_pf == Decimal(100000000)

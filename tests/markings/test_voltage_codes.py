@@ -1,7 +1,9 @@
 """Two-character voltage codes and explicit voltages.
 
-Source: the published voltage-code tables reproduced in the capacitor-codes reference §5a
-(S12, S13, S57); the rows marked "memory" there are marked so here.
+Source: the published voltage-code tables reproduced in docs/sources.md: voltage-code tables
+([code-table-blog], [decoder-guide], [coding-blog-voltage])
+([code-table-blog], [decoder-guide], [coding-blog-voltage]); the rows marked "memory" there are marked so
+here.
 """
 
 from __future__ import annotations
@@ -14,41 +16,42 @@ from stock.markings.voltage_codes import VOLTAGE_MANTISSA, encode_voltage, read_
 
 D = Decimal
 
-# Every row of the reference table §5a, with the source that confirms it.
+# Every row of the docs/sources.md: voltage-code tables ([code-table-blog], [decoder-guide],
+# [coding-blog-voltage]), with the source that confirms it.
 VOLTAGE_CODE_TABLE = [
-    pytest.param("0E", D("2.5"), id="0E-2.5V"),    # S13
-    pytest.param("0G", D(4), id="0G-4V"),          # S12, S13
-    pytest.param("0L", D("5.5"), id="0L-5.5V"),    # S12, S13
-    pytest.param("0J", D("6.3"), id="0J-6.3V"),    # S12, S13
-    pytest.param("1A", D(10), id="1A-10V"),        # S12, S13
-    pytest.param("1C", D(16), id="1C-16V"),        # S12, S13
-    pytest.param("1D", D(20), id="1D-20V"),        # S13
-    pytest.param("1E", D(25), id="1E-25V"),        # S12, S13
-    pytest.param("1V", D(35), id="1V-35V"),        # S13
-    pytest.param("1G", D(40), id="1G-40V"),        # S13
-    pytest.param("1H", D(50), id="1H-50V"),        # S12, S13, S57
-    pytest.param("1J", D(63), id="1J-63V"),        # S12, S13
-    pytest.param("1K", D(80), id="1K-80V"),        # S12
+    pytest.param("0E", D("2.5"), id="0E-2.5V"),    # [decoder-guide]
+    pytest.param("0G", D(4), id="0G-4V"),          # [code-table-blog], [decoder-guide]
+    pytest.param("0L", D("5.5"), id="0L-5.5V"),    # [code-table-blog], [decoder-guide]
+    pytest.param("0J", D("6.3"), id="0J-6.3V"),    # [code-table-blog], [decoder-guide]
+    pytest.param("1A", D(10), id="1A-10V"),        # [code-table-blog], [decoder-guide]
+    pytest.param("1C", D(16), id="1C-16V"),        # [code-table-blog], [decoder-guide]
+    pytest.param("1D", D(20), id="1D-20V"),        # [decoder-guide]
+    pytest.param("1E", D(25), id="1E-25V"),        # [code-table-blog], [decoder-guide]
+    pytest.param("1V", D(35), id="1V-35V"),        # [decoder-guide]
+    pytest.param("1G", D(40), id="1G-40V"),        # [decoder-guide]
+    pytest.param("1H", D(50), id="1H-50V"),        # [code-table-blog], [decoder-guide], [coding-blog-voltage]
+    pytest.param("1J", D(63), id="1J-63V"),        # [code-table-blog], [decoder-guide]
+    pytest.param("1K", D(80), id="1K-80V"),        # [code-table-blog]
     pytest.param("1N", D(75), id="1N-75V"),        # from memory (one maker's table)
-    pytest.param("2A", D(100), id="2A-100V"),      # S12, S57
-    pytest.param("2Q", D(110), id="2Q-110V"),      # S12
-    pytest.param("2B", D(125), id="2B-125V"),      # S12
-    pytest.param("2T", D(150), id="2T-150V"),      # S57 (reader comment)
-    pytest.param("2C", D(160), id="2C-160V"),      # S12
-    pytest.param("2Z", D(180), id="2Z-180V"),      # S12
-    pytest.param("2D", D(200), id="2D-200V"),      # S12, S57
-    pytest.param("2P", D(220), id="2P-220V"),      # S12
-    pytest.param("2E", D(250), id="2E-250V"),      # S12, S13, S57
-    pytest.param("2F", D(315), id="2F-315V"),      # S12, S13
-    pytest.param("2V", D(350), id="2V-350V"),      # S12, S13
-    pytest.param("2G", D(400), id="2G-400V"),      # S12, S13, S57
-    pytest.param("2W", D(450), id="2W-450V"),      # S12, S13
-    pytest.param("2H", D(500), id="2H-500V"),      # S12
-    pytest.param("2J", D(630), id="2J-630V"),      # S12, S13, S57
-    pytest.param("2K", D(800), id="2K-800V"),      # S13
-    pytest.param("3A", D(1000), id="3A-1kV"),      # S12, S13
-    pytest.param("3L", D(1200), id="3L-1.2kV"),    # S13
-    pytest.param("3B", D(1250), id="3B-1.25kV"),   # S13
+    pytest.param("2A", D(100), id="2A-100V"),      # [code-table-blog], [coding-blog-voltage]
+    pytest.param("2Q", D(110), id="2Q-110V"),      # [code-table-blog]
+    pytest.param("2B", D(125), id="2B-125V"),      # [code-table-blog]
+    pytest.param("2T", D(150), id="2T-150V"),      # [coding-blog-voltage] (reader comment)
+    pytest.param("2C", D(160), id="2C-160V"),      # [code-table-blog]
+    pytest.param("2Z", D(180), id="2Z-180V"),      # [code-table-blog]
+    pytest.param("2D", D(200), id="2D-200V"),      # [code-table-blog], [coding-blog-voltage]
+    pytest.param("2P", D(220), id="2P-220V"),      # [code-table-blog]
+    pytest.param("2E", D(250), id="2E-250V"),      # [code-table-blog], [decoder-guide], [coding-blog-voltage]
+    pytest.param("2F", D(315), id="2F-315V"),      # [code-table-blog], [decoder-guide]
+    pytest.param("2V", D(350), id="2V-350V"),      # [code-table-blog], [decoder-guide]
+    pytest.param("2G", D(400), id="2G-400V"),      # [code-table-blog], [decoder-guide], [coding-blog-voltage]
+    pytest.param("2W", D(450), id="2W-450V"),      # [code-table-blog], [decoder-guide]
+    pytest.param("2H", D(500), id="2H-500V"),      # [code-table-blog]
+    pytest.param("2J", D(630), id="2J-630V"),      # [code-table-blog], [decoder-guide], [coding-blog-voltage]
+    pytest.param("2K", D(800), id="2K-800V"),      # [decoder-guide]
+    pytest.param("3A", D(1000), id="3A-1kV"),      # [code-table-blog], [decoder-guide]
+    pytest.param("3L", D(1200), id="3L-1.2kV"),    # [decoder-guide]
+    pytest.param("3B", D(1250), id="3B-1.25kV"),   # [decoder-guide]
     pytest.param("3C", D(1600), id="3C-1.6kV"),    # from memory (rule)
     pytest.param("3D", D(2000), id="3D-2kV"),      # from memory (rule)
     pytest.param("3E", D(2500), id="3E-2.5kV"),    # from memory (rule)
@@ -79,7 +82,7 @@ def test_codes_outside_the_table_give_none(code):
     assert voltage_code_value(code) is None
 
 
-# Explicit voltages as printed (issue 2 examples; common practice for WV and ~).
+# Explicit voltages as printed on parts ( common practice for WV and ~).
 EXPLICIT_CASES = [
     pytest.param("50V", D(50), None, id="50V"),
     pytest.param("1kV", D(1000), None, id="1kV"),

@@ -4,7 +4,8 @@ The shelf is a CSV of our own (the bench of a fictional shop, Kestrel Row Radio)
 the real importer. Expected numbers are worked by hand from the LC resonance formula
 (Δf/f = −½·ΔC/C, so residual = −½·(TC_eff + P·α/C_total), TC_eff = −2·(Δf/f)/ΔT), and the
 textbook pair formulas (parallel C₁ + C₂; series C₁C₂/(C₁ + C₂)). Old names take the tolerance of
-the EIA-198 code capacitor-codes.md §1d gives for them (N150 = P2G ±30, N750 = U2J ±120, P100 =
+the EIA-198 code the old-name tables give for them ([EIA-198], [parameters-page], [latvian-codes]) (N150 = P2G
+±30, N750 = U2J ±120, P100 =
 M7G ±30 ppm/K).
 """
 

@@ -1,10 +1,10 @@
 """`replace_part`: stand-ins from a shelf of our own making, ranked, each with its rule and differences.
 
 The shelf is Marsh Lane Radio Repairs' (an invented bench), typed as a CSV and imported the way a
-user would. Outside sources named beside each block: the mica colour code (EIA 6 dots, S24/S25 of
+user would. Outside sources named beside each block: the mica colour code (EIA 6 dots, [navy-colour-code]/[mica-mailing-list] of
 the shared reference: white yellow violet red gold brown = 470 pF ±5 %, characteristic C
-±200 ppm/K per S25), EIA-198 (C0G 0 ± 30 ppm/K, Z5U +22/−56 %, X7R ±15 %), IEC 60384-14 for
-the safety classes (S29, S30, S66), IEC 60063 for the value to buy (E12: … 4.7 5.6 …), and the
+±200 ppm/K per [mica-mailing-list]), EIA-198 (C0G 0 ± 30 ppm/K, Z5U +22/−56 %, X7R ±15 %), IEC 60384-14 for
+the safety classes ([safety-impulse-calculator], [safety-parameters-page], [safety-classes-blog]), IEC 60063 for the value to buy (E12: … 4.7 5.6 …), and the
 repair trade's common practice (no published source) for the substitution rules.
 """
 
@@ -16,8 +16,7 @@ from hypothesis import strategies as st
 
 from stock.errors import BadValue, NotFound
 from stock.inventory.intake import import_file
-from stock.markings.decoder import (DEFER_CAUTION, POLARISED_FOR_PLAIN_CAUTION, POLARITY_MARKS_CAUTION,
-                                    RETUNE_CAUTION)
+from stock.markings.cautions import DEFER_CAUTION, POLARISED_FOR_PLAIN_CAUTION, POLARITY_MARKS_CAUTION, RETUNE_CAUTION
 from stock.markings.safety_classes import CAUTION as MAINS_CAUTION
 from stock.matching.replacement import implied_need, mounting_of, read_original, replace_part
 from stock.physics.stability import SHELF_LIFE
@@ -77,10 +76,10 @@ def rules(result):
     return {s.parts[0].bin_key.split("/")[-1]: s.rule.name for s in result.stand_ins}
 
 
-# Trial 1: a silver mica read by its colour dots (EIA 6-dot code, S24/S25), in a tuned position.
+# Trial 1: a silver mica read by its colour dots (EIA 6-dot code, [navy-colour-code]/[mica-mailing-list]), in a tuned position.
 def test_a_silver_mica_colour_code_gets_mica_first_then_c0g(shelf):
     r = replace_part(shelf, "white yellow violet red gold brown", use="tuned", volts="250")
-    assert r.original.marking.capacitance_pf == 470        # 47 × 10 pF (S24)
+    assert r.original.marking.capacitance_pf == 470        # 47 × 10 pF ([navy-colour-code])
     assert bins(r)[:2] == ["m1", "m3"]                      # like for like, then the trade's equal
     assert rules(r)["m1"] == "like-for-like"
     assert rules(r)["m3"] == "mica-to-c0g"
@@ -160,7 +159,7 @@ def test_an_aluminium_electrolytic_outside_timing_is_replaced_like_for_like_firs
 
 
 def test_an_empty_answer_names_the_preferred_value_and_kind_to_buy(shelf):
-    # IEC 60063 E12 (S43): 50 nF lies between 47 and 56 nF; 47 is nearer on a ratio scale
+    # IEC 60063 E12 ([encyclopaedia-e-series]): 50 nF lies between 47 and 56 nF; 47 is nearer on a ratio scale
     r = replace_part(shelf, ".05 MFD 600V paper")
     assert r.stand_ins == () and r.explanation
     assert r.buy["capacitance_pf"] == 47_000 and r.buy["series"] == "E12"
@@ -226,7 +225,7 @@ def test_a_bare_number_is_a_value_code_never_a_bin_id(shelf):
 
 
 def test_an_asymmetric_tolerance_is_kept_as_its_own_band():
-    # IEC 60062 letter Z = +80/−20 % (S1, S12): the band is 17.6…39.6 nF for 22 nF
+    # IEC 60062 letter Z = +80/−20 % ([parameters-page], [code-table-blog]): the band is 17.6…39.6 nF for 22 nF
     need = implied_need(read_original(None, "223Z 500V Z5U"))
     assert need.value_band == (17600, 39600)
 

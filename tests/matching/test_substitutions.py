@@ -1,8 +1,8 @@
 """The trade's substitution rules, one test per rule, and the table kept as sourced data.
 
 Outside sources named beside each block: the EIA-198 Class 2 windows (Z5U +22/−56 %, Y5V
-+22/−82 %, X7R ±15 %: S1, S3, S6 of the shared code reference), IEC 60384-14 for the mains rule
-(S29, S30, S66), and the repair trade's common practice (no published source) for the rest.
++22/−82 %, X7R ±15 %: [parameters-page], [latvian-codes], [tolerance-blog] of docs/sources.md), IEC 60384-14 for the mains rule
+([safety-impulse-calculator], [safety-parameters-page], [safety-classes-blog]), and the repair trade's common practice (no published source) for the rest.
 """
 
 from __future__ import annotations
@@ -28,7 +28,7 @@ def first_rule(original: str, stand_in: str, *, mains: bool = False, use: str | 
 RULE_CASES = [
     # common practice: old paper across the line is a fire hazard; only an X/Y part replaces it
     pytest.param(".047 MFD 400V paper", "X2 47nF 275VAC", True, None, "mains-paper-by-class", id="paper-across-mains"),
-    # IEC 60384-14 (S29, S30, S66): across the mains only a covering safety class
+    # IEC 60384-14 ([safety-impulse-calculator], [safety-parameters-page], [safety-classes-blog]): across the mains only a covering safety class
     pytest.param("Y2 4n7 M 250VAC", "X1Y2 4n7 M 300VAC", True, None, "mains-by-class", id="mains-by-class"),
     # common practice: mica ↔ C0G/NP0 for tuned work
     pytest.param("470pF 5% silver mica 500V", "471J C0G 500V", False, "tuned", "mica-to-c0g", id="mica-to-c0g"),
@@ -103,7 +103,7 @@ def test_a_class2_part_is_no_named_stand_in_for_mica():
 def test_an_n750_part_is_not_taken_for_c0g():
     # EIA-198: U2J/N750 is −750 ppm/K, far from C0G's 0 ± 30
     assert "C0G" not in part_names(decode("471J N750 500V"))
-    assert "C0G" in part_names(decode("471J NP0 100V"))   # NP0 = C0G (S1, S3)
+    assert "C0G" in part_names(decode("471J NP0 100V"))   # NP0 = C0G ([parameters-page], [latvian-codes])
 
 
 def test_the_named_rules_for_an_original_are_the_ones_a_buyer_is_pointed_to():

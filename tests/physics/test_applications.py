@@ -1,7 +1,7 @@
 """The application thresholds table and a shop's TOML override.
 
 Outside sources: the table's thresholds are common practice of the trade (no published source);
-the mains row follows IEC 60384-14 (X line–line, Y line–earth; capacitor-codes.md §7); TOML parsing
+the mains row follows IEC 60384-14 (X line–line, Y line–earth; docs/sources.md: [IEC 60384-14]); TOML parsing
 is Python's tomllib (TOML 1.0). The checks here are that the table is complete, readable and that an
 override behaves: changes what it names, changes the version, and refuses a bad key clearly.
 """
@@ -50,7 +50,7 @@ def test_ac_jobs_refuse_polarised_parts_and_dc_jobs_accept_them():
 
 
 def test_class2_ceramics_are_shut_out_of_tuned_circuits():
-    # the trade's rule of thumb: Class 2 in a tuned circuit is a design failure
+    # the trade's rule of thumb (common practice, no published source): Class 2 in a tuned circuit is a design failure
     rules = load_rules()
     assert rules["tuned"].kind_word("ceramic-2") == "unfit"
     assert rules["tuned"].kind_word("double-layer") == "unfit"   # not listed: unfit

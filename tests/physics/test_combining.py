@@ -33,7 +33,8 @@ def test_pair_value_follows_the_textbook_formula(kind, c1, c2, expected):
     assert cb.pair_value(kind, D(c1), D(c2)) == D(expected)
 
 
-# Net tempco rules (reference §10): parallel weights each TC by its own C, series by the other C.
+# Net tempco rules (docs/sources.md: [combination-formulas]): parallel weights each TC by its own C, series by
+# the other C.
 @pytest.mark.parametrize(("kind", "c1", "tc1", "c2", "tc2", "expected"), [
     pytest.param("parallel", "40", "-750", "60", "0", "-300", id="40p-N750-parallel-60p-NP0-is-minus-300"),
     pytest.param("parallel", "47", "-750", "100", "0", "-240", id="47p-N750-parallel-100p-NP0-is-minus-240"),
@@ -46,7 +47,7 @@ def test_net_tempco_matches_the_worked_examples(kind, c1, tc1, c2, tc2, expected
 
 
 def test_series_of_47p_and_100p_is_32p_as_the_reference_table_says():
-    # reference §10: "47 pF N750 in series with 100 pF NP0 → 32 pF"
+    # docs/sources.md: [combination-formulas]: "47 pF N750 in series with 100 pF NP0 → 32 pF"
     assert cb.series_value(D(47), D(100)).quantize(D(1)) == D(32)
 
 

@@ -5,8 +5,9 @@ Outside source: the LC resonance formula f = 1/(2π√(LC)), whose derivative gi
 cancels it. Every expected number below is worked by hand from those formulas and written as a
 literal with its arithmetic beside it. Tempco tolerances come from the EIA-198 Class 1 table
 (G = ±30, H = ±60, J = ±120, K = ±250, L = ±500 ppm/K) and the old names' EIA equivalents in
-capacitor-codes.md §1d (source S1 there: P100 = M7G, N150 = P2G, N750 = U2J). The tank examples
-at 10 MHz are the worked ones of capacitor-codes.md §10 (N750 → +3.75 kHz/K, N150 → +750 Hz/K).
+the old names' EIA-198 codes ([EIA-198], [parameters-page]: P100 = M7G, N150 = P2G, N750 = U2J). The tank
+examples
+at 10 MHz are the worked ones of [lc-resonance] in docs/sources.md (N750 → +3.75 kHz/K, N150 → +750 Hz/K).
 """
 
 from __future__ import annotations
@@ -89,13 +90,13 @@ def test_a_rising_frequency_needs_a_positive_tempco():
 
 
 def test_a_negative_tempco_capacitor_raises_the_frequency_as_it_warms():
-    # A 10 MHz tank wholly of N750 (capacitor-codes.md §10 worked example): Δf/f = −½·(−750) =
+    # A 10 MHz tank wholly of N750 (docs/sources.md: [lc-resonance] worked example): Δf/f = −½·(−750) =
     # +375 ppm/K, +3750 Hz per kelvin. Here as the residual of a tank that did not drift before.
     tank = Tank(D(10_000_000), D(100), D(0))
     result = fit(tank, D(100), D(-750), D(0))
     assert close(result.residual_ppm, "375")
     assert close(result.residual_hz, "3750")
-    # N150 alone (§10): −½·(−150) = +75 ppm/K = +750 Hz/K
+    # N150 alone ([lc-resonance]): −½·(−150) = +75 ppm/K = +750 Hz/K
     assert close(fit(tank, D(100), D(-150), D(0)).residual_hz, "750")
     # and a positive one lowers it: 100 pF of P100 alone, −½·(+100) = −50 ppm/K = −500 Hz/K
     assert close(fit(tank, D(100), D(100), D(0)).residual_hz, "-500")

@@ -1,9 +1,10 @@
 """Circuit drift: resonance, a tank's frequency shift, an RC timer's period shift.
 
-Outside sources: f = 1/(2π√(LC)) (the resonance formula of every radio handbook; S78 calculator page);
-the worked examples of capacitor-codes.md §10: 10 MHz tank with C0G ±30 ppm/K → ∓150 Hz/K, N750 →
-+3.75 kHz/K, N150 → +750 Hz/K (derived), 100 nF N750 warmed 5 K → 99.625 nF (S50, Elecraft list),
-555 timing drift Δt/t ≈ ΔC/C with C0G over 60 K → ±0.18 % (derived from S79–S82).
+Outside sources: f = 1/(2π√(LC)) (the resonance formula of every radio handbook; [lc-resonance] calculator
+page);
+the worked examples of docs/sources.md: [lc-resonance]: 10 MHz tank with C0G ±30 ppm/K → ∓150 Hz/K, N750 →
++3.75 kHz/K, N150 → +750 Hz/K (derived), 100 nF N750 warmed 5 K → 99.625 nF ([ham-list-n750], Elecraft list),
+555 timing drift Δt/t ≈ ΔC/C with C0G over 60 K → ±0.18 % (derived from [timer-555]–[timer-555]).
 """
 
 from __future__ import annotations
@@ -53,7 +54,7 @@ def test_resonance_refuses_a_zero_coil():
         resonant_frequency_hz(D(0), D(100))
 
 
-# capacitor-codes.md §10: 10 MHz tank, the whole tank of one part, per kelvin
+# docs/sources.md: [lc-resonance]: 10 MHz tank, the whole tank of one part, per kelvin
 @pytest.mark.parametrize("dielectric, low_hz, high_hz", [
     pytest.param(C0G, D(-150), D(150), id="C0G-150Hz-per-K"),
     pytest.param(N750, D(3750), D(3750), id="N750-plus-3.75kHz-per-K"),
@@ -78,13 +79,13 @@ def test_a_part_larger_than_its_tank_is_refused():
 
 
 def test_a_100nf_n750_warmed_5_kelvin_loses_375_pf():
-    # S50 (Elecraft list): 750·10⁻⁶ × 100 nF × 5 = 375 pF → 99.625 nF
+    # [ham-list-n750] (Elecraft list): 750·10⁻⁶ × 100 nF × 5 = 375 pF → 99.625 nF
     drift = part_drift(part(N750, "100000"), D(5))
     assert drift.delta_pf(D(100000)) == (D(-375), D(-375))
 
 
 def test_a_c0g_timer_over_60_kelvin_moves_018_pct():
-    # capacitor-codes.md §10 (555 timing drift): Δt/t ≈ ΔC/C; C0G over 60 K → ±0.18 %
+    # docs/sources.md: [timer-555] (555 timing drift): Δt/t ≈ ΔC/C; C0G over 60 K → ±0.18 %
     timer = timer_drift(part(C0G), D(60), D(1))
     assert (timer.low_pct, timer.high_pct) == (D("-0.18"), D("0.18"))
     assert timer.to_json()["shift_high_s"] == pytest.approx(0.0018)
@@ -98,7 +99,7 @@ def test_an_x7r_timer_moves_by_its_whole_window_whatever_the_change():
 
 
 def test_a_roughly_linear_family_window_scales_with_the_change():
-    # S32: tantalum ±10 % over −55…+125 °C; 10 K of the nearer 80 K → ±1.25 %
+    # [film-dielectrics-table]: tantalum ±10 % over −55…+125 °C; 10 K of the nearer 80 K → ±1.25 %
     tant = Marking("10u tant", D(10_000_000), dielectric=Dielectric("tantalum", "tantalum"))
     timer = timer_drift(tant, D(10))
     assert (timer.low_pct, timer.high_pct) == (D("-1.25"), D("1.25"))

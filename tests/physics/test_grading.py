@@ -1,9 +1,10 @@
 """Grading from the worst-case budget: worked numbers, classic outcomes, one pass and one fail per job.
 
 Outside sources: EIA-198 Class 1 and Class 2 codes (C0G = 0 ± 30 ppm/K, U2J = −750 ± 120 ppm/K,
-X7R = ±15 % over −55…+125 °C, Z5U = +22/−56 % over +10…+85 °C) as tabulated in the shared
-reference (capacitor-codes.md §1, §2); ageing maxima per decade-hour from the RCD capacitor FAQ (S35);
-IEC 60384-14 safety classes (§7); derating rules of thumb (§8d: KEMET notes S39/S40, memory).
+X7R = ±15 % over −55…+125 °C, Z5U = +22/−56 % over +10…+85 °C) as tabulated in the pages
+of docs/sources.md ([EIA-198] Class 1 and Class 2); ageing maxima per decade-hour from a maker's FAQ
+([ageing-faq]); IEC 60384-14 safety classes ([IEC 60384-14]); derating rules of thumb (a maker's
+notes [tantalum-derating-qa], [polymer-derating-qa]; the rest from memory).
 """
 
 from __future__ import annotations
@@ -28,7 +29,8 @@ def pct_tol(p: str) -> Tolerance:
     return Tolerance(D(p), D(p), "%")
 
 
-# EIA-198 Class 1 and Class 2 codes, spelled out by hand (capacitor-codes.md §1, §2)
+# EIA-198 Class 1 and Class 2 codes, spelled out by hand (docs/sources.md: [EIA-198] Class 1, [EIA-198] Class
+# 2)
 C0G = Dielectric("C0G", "ceramic", 1, D(0), D(30), D(-55), D(125), source="EIA-198")
 U2J = Dielectric("U2J", "ceramic", 1, D(-750), D(120), D(-55), D(125), source="EIA-198")
 N750 = Dielectric("N750", "ceramic", 1, D(-750), None, D(-55), D(125), source="industry name")
@@ -58,7 +60,7 @@ Y2_4N7 = Marking("Y2 4n7 250VAC", D(4700), pct_tol("20"), D(250), "AC", Y5V, saf
 X1Y2_2N2 = Marking("X1Y2 2n2", D(2200), pct_tol("20"), D(400), "AC", C0G, safety_class="X1Y2")
 
 
-# Worked numbers (issue 5, from the EIA-198 figures): C0G over 0…50 °C: 30 ppm/K × 25 K = 0.075 %;
+# Worked numbers (from the EIA-198 figures, [EIA-198]): C0G over 0…50 °C: 30 ppm/K × 25 K = 0.075 %;
 # U2J: (750 + 120) ppm/K × 25 K = 2.175 %; X7R: the whole ±15 % window.
 @pytest.mark.parametrize("marking, minus, plus", [
     pytest.param(C0G_100P, D("0.075"), D("0.075"), id="C0G-moves-0.075pct"),
@@ -72,21 +74,24 @@ def test_temperature_term_matches_the_worked_numbers(marking, minus, plus):
 
 
 def test_c0g_over_the_full_eia_range_moves_about_0_3_pct():
-    # capacitor-codes.md §8a: C0G ΔC ≈ ±0.3 % over −55…+125 °C (S32); 30 × 100 K = 0.3 %, 30 × 80 K = 0.24 %
+    # docs/sources.md: dielectric pages ([film-dielectrics-table] and others): C0G ΔC ≈ ±0.3 % over −55…+125
+    # °C ([film-dielectrics-table]); 30 × 100 K = 0.3 %, 30 × 80 K = 0.24 %
     term = worst_case(C0G_100P, Conditions(D(-55), D(125))).temperature
     assert (term.minus_pct, term.plus_pct) == (D("0.3"), D("0.3"))
 
 
 def test_an_old_name_without_tempco_tolerance_assumes_the_customary_one():
-    # capacitor-codes.md §1d: N750 gives α only; U2J's ±120 ppm/K is the customary tolerance
+    # docs/sources.md: [EIA-198] old names ([parameters-page], [latvian-codes]): N750 gives α only; U2J's ±120
+    # ppm/K is the customary tolerance
     term = worst_case(Marking("47p N750", D(47), pct_tol("5"), dielectric=N750)).temperature
     assert term.plus_pct == D("2.175")
     assert "±120 ppm/K assumed" in term.basis
 
 
 def test_ageing_of_x7r_over_ten_years_counts_decades_from_1000_hours():
-    # maker ageing notes: X7R 1.5…4 % per decade-hour, the high end taken; 10 years = 87 660 h =
-    # 1.943 decades past the 1000 h referee time (EIA-198-1F): 4 × 1.943 = 7.772 %
+    # maker ageing notes ([mlcc-selection-article], [ageing-blog], [ageing-maker-notes]): X7R 1.5…4 %
+    # per decade-hour, the high end taken; 10 years = 87 660 h = 1.943 decades past the 1000 h
+    # referee time ([EIA-198]): 4 × 1.943 = 7.772 %
     budget = worst_case(X7R_100N, Conditions())
     assert budget.ageing.minus_pct == D("7.772")
 
@@ -97,7 +102,7 @@ def test_a_freshly_soldered_class2_part_starts_above_its_nominal():
 
 
 def test_class1_parts_neither_age_nor_lose_capacitance_to_dc_bias():
-    # S35, S32: C0G has no ageing and no DC-bias effect
+    # [ageing-faq], [film-dielectrics-table]: C0G has no ageing and no DC-bias effect
     budget = worst_case(C0G_100P, Conditions(working_v=D(50)))
     assert budget.ageing.minus_pct == budget.dc_bias.minus_pct == 0
 
@@ -109,9 +114,10 @@ def test_dc_bias_loss_counts_only_when_a_working_voltage_is_given():
     assert worst_case(X7R_100N, Conditions(working_v=D(25))).dc_bias.minus_pct == D("56.6")
 
 
-# S41: a 10 µF 10 V X7R at 5 V keeps 50 % in 0805 and 93 % in 1206: the case decides the DC-bias term
+# [dc-bias-note]: a 10 µF 10 V X7R at 5 V keeps 50 % in 0805 and 93 % in 1206: the case decides the
+# DC-bias term
 @pytest.mark.parametrize("case, loss", [
-    pytest.param("0805", D("50.2"), id="0805-loses-about-half-S41"),
+    pytest.param("0805", D("50.2"), id="0805-loses-about-half-dc-bias-note"),
     pytest.param("1206", D("21.2"), id="1206-loses-far-less"),
     pytest.param(None, D("56.6"), id="unknown-case-assumes-the-worst-small-case"),
 ])
@@ -161,7 +167,7 @@ def test_a_pf_tolerance_becomes_a_percentage_of_the_value():
     assert worst_case(part).tolerance.plus_pct == D("2.5")
 
 
-# Classic outcomes (issue 5, "done when")
+# Classic outcomes of the trade (common practice, no published source)
 def test_a_class1_part_is_fit_for_a_tuned_circuit():
     g = grade(C0G_100P, "tuned")
     assert g.word == "fit"
@@ -186,7 +192,7 @@ def test_an_aluminium_electrolytic_is_unfit_for_timing_and_fit_for_bulk():
 
 
 def test_z5u_below_its_rated_10_degrees_is_unfit_for_value_critical_use():
-    # EIA-198: Z = +10 °C low end (capacitor-codes.md §2); 0…50 °C runs below it
+    # EIA-198: Z = +10 °C low end (docs/sources.md: [EIA-198] Class 2); 0…50 °C runs below it
     for application in ("tuned", "timing", "signal"):
         g = grade(Z5U_10N, application)
         assert g.word == "unfit"
@@ -217,12 +223,12 @@ def test_every_application_has_a_part_that_passes_and_one_that_fails(application
 
 
 def test_polystyrene_is_fit_for_tuned():
-    # S33 and memory: −150 ± 50 ppm/K → 200 × 25 K = 0.5 %
+    # [polystyrene-article] and memory: −150 ± 50 ppm/K → 200 × 25 K = 0.5 %
     assert grade(STYRO_330P, "tuned").word == "fit"
 
 
 def test_tantalum_serves_a_timer_where_an_aluminium_part_does_not():
-    # issue 5: "wrong for an accurate long timer, where a tantalum or a film part serves"
+    # common practice: wrong for an accurate long timer, where a tantalum or a film part serves
     assert grade(TANT_10U, "timing").word == "fit"
     assert grade(PET_47N, "timing").word == "fit"
 
@@ -239,7 +245,8 @@ def test_a_polarised_part_in_signal_coupling_is_at_best_marginal():
     assert "polarised part: only where a steady DC bias keeps it the right way round" in g.reasons
 
 
-# IEC 60384-14 (capacitor-codes.md §7): X = line–line, Y = line–earth; a Y part may take an X position
+# IEC 60384-14 (docs/sources.md: [IEC 60384-14]): X = line–line, Y = line–earth; a Y part may take an X
+# position
 def test_a_y_part_is_fit_for_mains_and_says_it_may_serve_an_x_position():
     g = grade(Y2_4N7, "mains")
     assert g.word == "fit"
@@ -358,7 +365,8 @@ def test_an_unfit_reason_outranks_an_unknown_fact():
     assert grade(part, "tuned").word == "unfit"
 
 
-# Derating rules of thumb (capacitor-codes.md §8d): tantalum MnO2 ≤ 50 % (S39), aluminium ≤ 80 % (memory)
+# Derating rules of thumb (docs/sources.md: derating pages ([tantalum-derating-qa], [polymer-derating-qa],
+# [dc-bias-note])): tantalum MnO2 ≤ 50 % ([tantalum-derating-qa]), aluminium ≤ 80 % (memory)
 @pytest.mark.parametrize("part, volts, word", [
     pytest.param(TANT_10U, D(8), "fit", id="tantalum-at-50pct-fit"),
     pytest.param(TANT_10U, D(12), "marginal", id="tantalum-at-75pct-marginal"),
@@ -372,7 +380,7 @@ def test_voltage_margin_follows_the_family_derating(part, volts, word):
     assert g.budget.voltage.word == word
 
 
-# S39, S73 (common practice): MnO₂ tantalum's rated voltage falls to about ⅔ at +125 °C from +85 °C,
+# [tantalum-derating-qa], [forum-tantalum-derating] (common practice): MnO₂ tantalum's rated voltage falls to about ⅔ at +125 °C from +85 °C,
 # and 50 % of that is carried: a 25 V part at +125 °C may carry 16.7 V at all, 8.3 V customarily.
 @pytest.mark.parametrize("volts, word", [
     pytest.param(D(8), "fit", id="8V-within-8.3V"),
@@ -489,7 +497,7 @@ def test_the_build_position_decides_whether_an_x_part_may_serve(safety, position
     assert grade(m, "mains", Conditions(position=position)).word == word
 
 
-# IEC 60384-14 (S30): Y4 is rated below 150 V AC; X3, the least X class, is assumed on mains of at
+# [IEC 60384-14] ([safety-parameters-page]): Y4 is rated below 150 V AC; X3, the least X class, is assumed on mains of at
 # least 150 V AC when no voltage is given: a Y4 part takes line–earth, line–line only on a lower mains
 def test_a_y4_part_may_take_line_to_line_only_on_a_mains_its_rating_reaches():
     y4 = Marking("Y4 1n 125VAC", D(1000), pct_tol("20"), D(125), "AC", PP, safety_class="Y4")

@@ -1,8 +1,10 @@
 """Dielectric stability figures: ageing, DC bias, derating, typical drift per family.
 
-Outside sources (keys of the shared reference capacitor-codes.md §8): S35 RCD capacitor FAQ (ageing
-maxima per decade-hour), S38 KEMET/TDK ageing notes (logarithmic law), S39/S40 KEMET derating notes
-(tantalum MnO2 50 %, polymer 90/80 %), S41/S42/S72 DC-bias notes, S32 WIMA film table, S33/S34
+Outside sources (keys of docs/sources.md): [ageing-faq] a maker's FAQ (ageing maxima per
+decade-hour), [ageing-maker-notes] two makers' ageing notes (logarithmic law),
+[tantalum-derating-qa]/[polymer-derating-qa] a maker's derating notes (tantalum MnO2 50 %, polymer
+90/80 %), [dc-bias-note]/[dc-bias-article]/[effective-capacitance-tool] DC-bias notes,
+[film-dielectrics-table] a film maker's table, [polystyrene-article]/[silver-mica-overview]
 polystyrene and silver-mica pages. Figures marked "from memory" in stock.stability are checked only
 for being present and sourced.
 """
@@ -24,12 +26,13 @@ from stock.physics.stability import (
 )
 
 
-# The high end of the published ranges per decade-hour (maker ageing notes: X7R/X5R 1.5…4 %,
-# Z5U 4…6 %, Y5V 6…10 %) or S35's maximum where it is higher (Z5U 7 %)
+# The high end of the published ranges per decade-hour (maker ageing notes: [mlcc-selection-article],
+# [ageing-blog], [ageing-maker-notes]: X7R/X5R 1.5…4 %, Z5U 4…6 %, Y5V 6…10 %) or [ageing-faq]'s
+# maximum where it is higher (Z5U 7 %)
 @pytest.mark.parametrize("code, rate", [
     pytest.param("X7R", D("4"), id="X7R-4pct"),
     pytest.param("X5R", D("4"), id="X5R-4pct"),
-    pytest.param("Z5U", D("7"), id="Z5U-7pct-S35"),
+    pytest.param("Z5U", D("7"), id="Z5U-7pct-ageing-faq"),
     pytest.param("Y5V", D("10"), id="Y5V-10pct"),
 ])
 def test_class2_ageing_rates_are_the_high_end_of_the_published_ranges(code, rate):
@@ -37,12 +40,13 @@ def test_class2_ageing_rates_are_the_high_end_of_the_published_ranges(code, rate
 
 
 def test_class1_ceramics_do_not_age():
-    # S35, S36, S37: C0G ≈ 0
+    # [ageing-faq], [mlcc-selection-article], [ageing-blog]: C0G ≈ 0
     assert ageing_rate_pct("C0G", 1) == 0
 
 
 def test_a_class2_code_not_listed_ages_by_its_change_letter():
-    # EIA-198 change letters: R (±15 %) like X5R, V (+22/−82 %) like Y5V (from memory of S36/S37 ranges)
+    # EIA-198 change letters: R (±15 %) like X5R, V (+22/−82 %) like Y5V (from memory of
+    # [mlcc-selection-article]/[ageing-blog] ranges)
     assert ageing_rate_pct("X6R", 2) == D("4")
     assert ageing_rate_pct("Y6V", 2) == D("10")
     assert ageing_rate_pct(None, 2) == D("10")
@@ -54,7 +58,7 @@ def test_a_class2_code_not_listed_ages_by_its_change_letter():
     pytest.param(D("0.1"), 0.0, id="under-1000h-is-inside-the-tolerance"),
 ])
 def test_decades_count_from_the_1000_hour_referee_time(years, decades):
-    # logarithmic ageing law (S38): loss = rate × log10(t / t_ref)
+    # logarithmic ageing law ([ageing-maker-notes]): loss = rate × log10(t / t_ref)
     assert float(ageing_decades(years)) == pytest.approx(decades, abs=0.001)
 
 
@@ -62,15 +66,15 @@ def test_ageing_loss_grows_with_service_life():
     assert ageing_loss_pct("X7R", 2, D(1)) < ageing_loss_pct("X7R", 2, D(10)) < ageing_loss_pct("X7R", 2, D(100))
 
 
-# DC bias (S41: 10 µF 10 V X7R at 5 V keeps 50 % in 0805, 93 % in 1206; S72: 35–65 % loss at rated,
-# worse in small cases). A model from memory of published curves.
+# DC bias ([dc-bias-note]: 10 µF 10 V X7R at 5 V keeps 50 % in 0805, 93 % in 1206;
+# [effective-capacitance-tool]: 35–65 % loss at rated, worse in small cases). A model from memory of published curves.
 def test_dc_bias_in_0805_matches_the_published_point():
-    # S41: 50 % kept at half rated; the model gives 71 × √0.5 = 50.2 % lost
+    # [dc-bias-note]: 50 % kept at half rated; the model gives 71 × √0.5 = 50.2 % lost
     assert dc_bias_loss_pct("X7R", D(10_000_000), D(5), D(10), "0805") == D("50.2")
 
 
 def test_dc_bias_in_1206_is_below_0805_and_still_above_the_published_point():
-    # S41: 7 % lost in 1206 at half rated; the model keeps a margin above it (conservative)
+    # [dc-bias-note]: 7 % lost in 1206 at half rated; the model keeps a margin above it (conservative)
     loss = dc_bias_loss_pct("X7R", D(10_000_000), D(5), D(10), "1206")
     assert D(7) < loss < dc_bias_loss_pct("X7R", D(10_000_000), D(5), D(10), "0805")
 
@@ -121,13 +125,14 @@ def test_dc_bias_refuses_a_zero_rating():
         dc_bias_loss_pct("X7R", D(1000), D(5), D(0))
 
 
-# Derating rules (capacitor-codes.md §8d)
+# Derating rules (docs/sources.md: derating pages ([tantalum-derating-qa], [polymer-derating-qa],
+# [dc-bias-note]))
 @pytest.mark.parametrize("family, klass, rated, fraction", [
-    pytest.param("tantalum", None, D(16), D("0.5"), id="tantalum-MnO2-50pct-S39"),
-    pytest.param("tantalum-polymer", None, D(6), D("0.9"), id="polymer-le-10V-90pct-S40"),
-    pytest.param("tantalum-polymer", None, D(25), D("0.8"), id="polymer-over-10V-80pct-S40"),
+    pytest.param("tantalum", None, D(16), D("0.5"), id="tantalum-MnO2-50pct-tantalum-derating-qa"),
+    pytest.param("tantalum-polymer", None, D(6), D("0.9"), id="polymer-le-10V-90pct-polymer-derating-qa"),
+    pytest.param("tantalum-polymer", None, D(25), D("0.8"), id="polymer-over-10V-80pct-polymer-derating-qa"),
     pytest.param("aluminium-electrolytic", None, D(25), D("0.8"), id="aluminium-80pct-memory"),
-    pytest.param("ceramic", 2, D(50), D("0.5"), id="class2-mlcc-2x-S41"),
+    pytest.param("ceramic", 2, D(50), D("0.5"), id="class2-mlcc-2x-dc-bias-note"),
     pytest.param("polypropylene", None, D(100), D("0.8"), id="film-80pct-memory"),
 ])
 def test_derating_follows_the_rules_of_thumb(family, klass, rated, fraction):
@@ -139,7 +144,8 @@ def test_every_derating_rule_names_its_source():
         assert rule.source and rule.rule
 
 
-# Typical temperature figures per family (S32, S33, S34, S68 and memory)
+# Typical temperature figures per family ([film-dielectrics-table], [polystyrene-article],
+# [silver-mica-overview], [film-capacitor-text] and memory)
 def test_every_family_but_ceramic_has_typical_temperature_figures_with_a_source():
     for family in FAMILIES:
         if family == "ceramic":
@@ -150,7 +156,8 @@ def test_every_family_but_ceramic_has_typical_temperature_figures_with_a_source(
 
 
 def test_silver_mica_tempco_band_covers_the_typical_range_and_characteristic_e():
-    # S34: +35…+75 ppm/K typical; characteristic E −20…+100 ppm/K (from memory of MIL-PRF-39001)
+    # [silver-mica-overview]: +35…+75 ppm/K typical; characteristic E −20…+100 ppm/K (from memory
+    # of [MIL-PRF-39001])
     mica = FAMILY_DRIFT["mica"]
     assert mica.tempco_ppm_per_k - mica.tempco_tol_ppm_per_k == -20
     assert mica.tempco_ppm_per_k + mica.tempco_tol_ppm_per_k == 100
@@ -167,15 +174,15 @@ def test_the_family_figures_have_one_home():
 
 
 def test_tantalum_window_is_the_published_10_percent():
-    # S32: ±10 % over −55…+125 °C
+    # [film-dielectrics-table]: ±10 % over −55…+125 °C
     t = FAMILY_DRIFT["tantalum"]
     assert (t.change_minus_pct, t.change_plus_pct, t.temp_min_c, t.temp_max_c) == (D(10), D(10), D(-55), D(125))
 
 
 def test_a_dielectric_with_its_own_figures_keeps_them():
-    own = Dielectric("polyester", "polyester", None, D(400), D(200), D(-55), D(125), D(5), D(5), source="WIMA")
+    own = Dielectric("polyester", "polyester", None, D(400), D(200), D(-55), D(125), D(5), D(5), source="a film maker's table")
     figures = temperature_figures(own)
-    assert figures.tempco_ppm_per_k == D(400) and figures.source == "WIMA"
+    assert figures.tempco_ppm_per_k == D(400) and figures.source == "a film maker's table"
 
 
 def test_a_family_named_without_figures_takes_the_typical_ones():
@@ -190,7 +197,7 @@ def test_electrolytic_windows_are_not_scaled_to_a_narrow_range():
 
 @pytest.mark.parametrize("alpha, tol", [
     pytest.param(D(0), D(30), id="NP0-as-C0G-30"),
-    pytest.param(D(-150), D(30), id="N150-as-P2G-30-S1"),
+    pytest.param(D(-150), D(30), id="N150-as-P2G-30-parameters-page"),
     pytest.param(D(-750), D(120), id="N750-as-U2J-120"),
     pytest.param(D(-1500), D(250), id="N1500-as-P3K-250"),
     pytest.param(D(-2200), D(500), id="N2200-as-R3L-500"),
@@ -198,7 +205,8 @@ def test_electrolytic_windows_are_not_scaled_to_a_narrow_range():
     pytest.param(D(-4700), D(1000), id="N4700-as-T3M-1000"),
 ])
 def test_an_old_name_takes_the_tempco_tolerance_of_its_eia_equivalent(alpha, tol):
-    # capacitor-codes.md §1d (EIA-198 equivalents; N150 = P2G per S1, P2H only from memory)
+    # [EIA-198] old names ([parameters-page], [latvian-codes]): the EIA-198 equivalents; N150 = P2G
+    # per [parameters-page], P2H only from memory
     assert assumed_tempco_tol(alpha) == tol
 
 

@@ -2,9 +2,10 @@
 spreadsheet program is installed).
 
 Sources: EIA-198 Class 1 (N750 = −750 ppm/K, sold as U2J ±120 ppm/K; C0G = NP0 = 0 ± 30 ppm/K) and
-Class 2 (X7R ±15 % over −55…+125 °C, Y5V +22/−82 % over −30…+85 °C) from the capacitor-codes
-reference §1, §2; ΔC/C = α·(T − 25 °C) is the definition of a linear tempco. Typical family curves
-come from the one family table (S33 polystyrene −125 ppm/K and memory; S32 tantalum ±10 %).
+Class 2 (X7R ±15 % over −55…+125 °C, Y5V +22/−82 % over −30…+85 °C), [EIA-198] via
+[parameters-page] and [latvian-codes]; ΔC/C = α·(T − 25 °C) is the definition of a linear tempco.
+Typical family curves come from the one family table ([polystyrene-article] polystyrene −125 ppm/K
+and memory; [film-dielectrics-table] tantalum ±10 %).
 """
 
 from __future__ import annotations
@@ -70,7 +71,7 @@ def test_other_families_are_their_typical_curves_and_say_so(workbook):
     # the family table's polystyrene α, −150 ppm/K, over its −40…+85 °C
     assert rows[85]["polystyrene (typical)"] == pytest.approx(-0.9)
     assert rows[90]["polystyrene (typical)"] is None
-    assert rows[125]["tantalum (typical)"] == pytest.approx(10.0)     # S32: ±10 % to +125 °C, rising
+    assert rows[125]["tantalum (typical)"] == pytest.approx(10.0)     # [film-dielectrics-table]: ±10 % to +125 °C
 
 
 def test_two_charts_with_temperature_and_percent_axes(workbook):

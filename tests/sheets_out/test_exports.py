@@ -17,6 +17,7 @@ from openpyxl import load_workbook
 
 from stock.decoded import Dielectric, Marking, Tolerance
 from stock.sheets_out.exports import export_inventory, export_purchasing, preferred_for
+from tests.stored_rows import store_bin
 
 C0G = Dielectric("C0G", "ceramic", 1, Decimal(0), Decimal(30), source="EIA-198 Class 1")
 X7R = Dielectric("X7R", "ceramic", 2, None, None, Decimal(-55), Decimal(125), Decimal(15), Decimal(15),
@@ -24,21 +25,9 @@ X7R = Dielectric("X7R", "ceramic", 2, None, None, Decimal(-55), Decimal(125), De
 
 
 def put_part(store, key, marking: Marking, on_hand=None, minimum=None, label=None):
-    with store.writing() as db:
-        bid = db.conn.execute(
-            "INSERT INTO bins (bin_key, location, label, cabinet, minimum, created_at, updated_at)"
-            " VALUES (?, ?, ?, 'cab', ?, 'now', 'now')",
-            (key, key.split("/")[-1], label, minimum)).lastrowid
-        d = marking.dielectric
-        db.conn.execute(
-            "INSERT INTO parts (bin_id, marking, capacitance_pf, dielectric_code, family, class,"
-            " decoded_json) VALUES (?, ?, ?, ?, ?, ?, ?)",
-            (bid, marking.text, float(marking.capacitance_pf) if marking.capacitance_pf else None,
-             d.code if d else None, d.family if d else None, d.klass if d else None,
-             json.dumps(marking.to_json())))
-        if on_hand is not None:
-            store.move(bid, on_hand, "import")
-    return bid
+    """A bin in cabinet 'cab', its part stored through the importer's column mapping."""
+    return store_bin(store, key, marking, on_hand, location=key.split("/")[-1], label=label,
+                     cabinet="cab", minimum=minimum)
 
 
 def short_plan(store, requirement: dict, short: int, refs=("C1", "C2")):

@@ -1,6 +1,7 @@
 """The benchmarks of tests/bench run end to end on tiny sizes and print the agreed JSON line shape.
 
-Targets: issue 11 (the line shape ``name, n, seconds, rate, baseline_rate, ratio``); baselines:
+Targets: the README's benchmark section (the line shape ``name, n, seconds, rate, baseline_rate, ratio``);
+baselines:
 the shared library notes' measurements (csv + sqlite3 executemany, openpyxl read-only, bare indexed
 SQL). No timing is asserted here: speed targets live in the benchmark output, never in unit tests.
 Marking values checked below follow IEC 60062 (three-digit and letter-and-digit codes) and
@@ -111,6 +112,12 @@ def test_the_csv_import_benchmark_accounts_for_every_row(tmp_path):
 def test_the_xlsx_import_benchmark_reads_the_same_sheet(tmp_path):
     assert_shape(imports.xlsx_import(120, tmp_path, repeats=1), "xlsx_import", 120)
     assert imports.openpyxl_once(tmp_path / "sheet-120.xlsx") == 121  # header + rows
+
+
+def test_the_wide_sheet_benchmark_stores_every_row_of_a_wide_sheet(tmp_path):
+    result = imports.wide_import(200, tmp_path, repeats=1, rows=3)
+    assert (result["name"], result["n"], result["rows"], result["stored"]) == ("wide_import", 200, 3, 3)
+    assert result["seconds"] > 0 and result["baseline_rate"] > 0
 
 
 def test_the_find_benchmark_compares_with_the_bare_window_query(tmp_path):

@@ -33,8 +33,8 @@ from stock.cli import app
 from stock.inventory.intake import import_file
 from stock.kitting.planner import KitOptions, plan_kit
 from stock.store.database import open_store
-from tests.helpers_procs import (import_worker, kit_worker, ledger_mismatches, scaled, table_counts,
-                                 write_bin_sheet, write_bom)
+from tests.helpers_procs import (import_worker, kit_worker, ledger_mismatches, ready_file, scaled,
+                                 start_when_ready, table_counts, write_bin_sheet, write_bom)
 
 ROOT = Path(__file__).resolve().parents[2]
 ENV = {"COLUMNS": "200", "TERMINAL_WIDTH": "200", "_TYPER_FORCE_DISABLE_TERMINAL": "1"}
@@ -60,8 +60,8 @@ def _run_four(tmp_path: Path, seconds: float, start: str = "spawn") -> list[dict
     ]
     for w in workers:
         w.start()
-    time.sleep(1.0)
-    go.write_text("go")              # all four start together (a late starter still gets its time)
+    # all four start together once each has opened the store (a late starter still gets its time)
+    start_when_ready(go, ["drawer-a", "drawer-b", "bench-1", "bench-2"], workers)
     for w in workers:
         w.join(timeout=seconds + 120)
         assert w.exitcode == 0, f"worker {w.name} ended with {w.exitcode}"
@@ -137,18 +137,21 @@ def held(tmp_path):
 @pytest.mark.parametrize("command", ["import", "pull"])
 def test_a_database_held_by_another_writer_gives_the_locked_message_after_a_bounded_wait(
         held, monkeypatch, command):
-    db, plan, before, folder, _ = held
+    db, plan, before, folder, holder = held
     monkeypatch.setattr(stock.store.database, "BUSY_TIMEOUT_S", 0.5)
     args = (["import", str(write_bin_sheet(folder / "more.csv", [("M1", "472J", 3)]))]
             if command == "import" else ["kit", "pull", str(plan)])
-    started = time.monotonic()
     result = CliRunner().invoke(app, ["--db", str(db), *args], env=ENV)
-    waited = time.monotonic() - started
     assert result.exit_code == 1, result.output
     assert result.stderr.strip().splitlines()[-1] == (
         f"stock: {db}: the database is locked by another program; waited 0.5 s;"
         " try again when it has finished")
-    assert 0.4 <= waited < 10
+    # the holder still had the lock when the command gave up, and nothing was written
+    assert holder.poll() is None
+    holder.kill()
+    holder.wait()
+    with open_store(db) as store:
+        assert table_counts(store) == before
     monkeypatch.undo()
 
 
@@ -171,6 +174,7 @@ def test_readers_see_the_store_as_it_was_while_held_and_after_the_writer_is_kill
 OPENER = r"""
 import sys, time
 from pathlib import Path
+Path(sys.argv[3]).write_text("ready")
 while not Path(sys.argv[2]).exists():
     time.sleep(0.001)
 from stock.errors import StockError
@@ -189,11 +193,10 @@ except StockError as exc:
 @pytest.mark.parametrize("attempt", range(2))
 def test_four_processes_creating_one_new_database_at_once_all_open_it(tmp_path, attempt):
     db, go = tmp_path / "new.db", tmp_path / "go"
-    children = [subprocess.Popen([sys.executable, "-c", OPENER, str(db), str(go)], text=True,
-                                 stdout=subprocess.PIPE, env=dict(os.environ, PYTHONPATH=str(ROOT)))
-                for _ in range(4)]
-    time.sleep(1.0)
-    go.write_text("go")
+    children = [subprocess.Popen([sys.executable, "-c", OPENER, str(db), str(go), str(ready_file(go, str(i)))],
+                                 text=True, stdout=subprocess.PIPE, env=dict(os.environ, PYTHONPATH=str(ROOT)))
+                for i in range(4)]
+    start_when_ready(go, [str(i) for i in range(4)], children)
     said = [child.communicate(timeout=60)[0].strip() for child in children]
     assert said == ["ok"] * 4
     with open_store(db) as store:

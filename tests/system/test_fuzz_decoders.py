@@ -17,7 +17,7 @@ from hypothesis import strategies as st
 
 from stock.markings.colours import decode_colours
 from stock.decoded import Marking
-from stock.markings.decoder import decode
+from stock.markings.decoder import MAX_MARKING_CHARS, decode
 from tests.helpers_procs import scaled
 from tests.regression_inputs import DECODER_TEXTS
 
@@ -39,7 +39,10 @@ mixed = st.one_of(any_text, marking_like,
 
 def _assert_good_marking(m: object, text: str) -> None:
     assert isinstance(m, Marking)
-    assert m.text == text or isinstance(m.text, str)
+    if m.text != text:
+        # only an over-long marking is cut, to its first MAX_MARKING_CHARS characters, and says so
+        assert len(text) > MAX_MARKING_CHARS and m.text == text[:MAX_MARKING_CHARS], (text, m.text)
+        assert "unreadable" in m.flag_kinds()
     # the JSON contract must hold for whatever was decoded
     data = m.to_json()
     json.dumps(data, ensure_ascii=False)

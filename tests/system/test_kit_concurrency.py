@@ -11,13 +11,13 @@ from __future__ import annotations
 import json
 import subprocess
 import sys
-import time
 from pathlib import Path
 
 import pytest
 
 from stock.kitting.planner import KitOptions, plan_kit
 from stock.store.database import open_store
+from tests.helpers_procs import ready_file, start_when_ready
 from tests.kitting.test_planner import add_bin, bom, ledger_sum, line, on_hand, part
 
 # Each child waits for the go file, then acts; the parent starts both before releasing them,
@@ -32,6 +32,7 @@ from stock.kitting import stored_plans as kit_plans
 
 db, action, arg, go = sys.argv[1:5]
 store = open_store(db)
+Path(sys.argv[5]).write_text("ready")
 while not Path(go).exists():
     time.sleep(0.002)
 try:
@@ -48,11 +49,12 @@ except StockError as exc:
 
 
 def _race(db: Path, action: str, args: list[str], go: Path) -> list[dict]:
-    children = [subprocess.Popen([sys.executable, "-c", CHILD, str(db), action, arg, str(go)],
+    names = [f"child{i}" for i in range(len(args))]
+    children = [subprocess.Popen([sys.executable, "-c", CHILD, str(db), action, arg, str(go),
+                                  str(ready_file(go, name))],
                                  stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
-                for arg in args]
-    time.sleep(1.0)            # let both import and open the store before the start signal
-    go.write_text("go")
+                for arg, name in zip(args, names)]
+    start_when_ready(go, names, children)   # both have imported and opened the store
     results = []
     for child in children:
         out, err = child.communicate(timeout=60)
