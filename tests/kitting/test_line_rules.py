@@ -1,10 +1,11 @@
 """Which part may go on which BOM line: mains and tuned rules first, then polarity, voltage, dielectric, value.
 
-Sources: X/Y classes and "a part without a class never goes on a mains position" (IEC 60384-14);
-C0G Class 1 (0 ±30 ppm/K), X7R −55…+125 °C ±15 % and X5R −55…+85 °C ±15 % (EIA-198); J = ±5 %,
-K = ±10 % (IEC 60062); that a Class 2 part never goes in a tuned circuit, that a higher voltage
-rating is allowed, and the 1 µF threshold for electrolytics at an unnamed position are common
-practice, no published source.
+Sources (docs/sources.md): X/Y classes and "a part without a class never goes on a mains position"
+([IEC 60384-14]); C0G Class 1 (0 ±30 ppm/K), U2J −750 ±120 ppm/K, X7R −55…+125 °C ±15 % and X5R
+−55…+85 °C ±15 % ([EIA-198]); NP0 the old name of C0G ([parameters-page]); J = ±5 %, K = ±10 %
+([IEC 60062]); that a Class 2 part never goes in a tuned circuit, that a higher voltage rating is
+allowed, and the 1 µF threshold for electrolytics at an unnamed position are common practice, no
+published source. Tolerance bands are hand arithmetic (105 nF ±5 % is 99.75…110.25 nF).
 """
 
 from __future__ import annotations
@@ -17,13 +18,18 @@ from stock.kitting.bom import read_bom
 from stock.kitting.line_rules import ALLOWANCES, check_part
 from stock.markings.decoder import decode
 
-BOM = """Designator,Qty,Value,Tolerance,Voltage,Dielectric,Use
-C1,1,100n,10%,50V,X7R,
-C2,1,100p,5%,50V,C0G,tuned
-CX1,1,100n,,275VAC X2,,
-C3,1,10u,,25V,,
-C4,1,100n,5%,50V,,
-C5,1,100n,,,,
+BOM = """Designator,Qty,Value,Tolerance,Voltage,Dielectric,Use,Tempco
+C1,1,100n,10%,50V,X7R,,
+C2,1,100p,5%,50V,C0G,tuned,
+CX1,1,100n,,275VAC X2,,,
+C3,1,10u,,25V,,,
+C4,1,100n,5%,50V,,,
+C5,1,100n,,,,,
+C6,1,100n,10%,,,,
+C7,1,47p,5%,50V,,tuned,-750±120
+C8,1,100p,5%,50V,C0G,,
+C9,1,100n,,230VAC,,,
+C10,1,10u,,25V,tantalum,,
 """
 
 
@@ -103,3 +109,43 @@ def test_in_a_pair_the_value_is_left_to_the_pair(lines):
     m = decode("474K 50V X7R")
     assert check_part(lines["C5"], m, m.capacitance_pf, in_pair=True).refused is None
     assert check_part(lines["C5"], m, Decimal(100_000)).refused is None   # the pair's value is 100 nF
+
+
+# tempco window −750 ±120 = −870…−630 ppm/K (hand arithmetic); U2J, C0G and P100 from [EIA-198]
+@pytest.mark.parametrize("marking, refused", [
+    pytest.param("47J 50V U2J", None, id="u2j-fills-the-window"),
+    pytest.param("47J 50V C0G", "C0G tempco 0±30 ppm/K lies outside −870…−630 ppm/K", id="c0g-outside"),
+    pytest.param("47J 50V P100", "P100 tempco 100 ppm/K lies outside −870…−630 ppm/K", id="p100-outside"),
+])
+def test_a_tempco_window_takes_only_parts_whose_tempco_lies_in_it(lines, marking, refused):
+    assert verdict(lines, "C7", marking).refused == refused
+
+
+def test_an_old_name_without_a_tempco_tolerance_is_judged_on_its_nominal_and_says_so(lines):
+    v = verdict(lines, "C7", "47J 50V N750")
+    assert v.refused is None
+    assert v.notes == ("N750: no tolerance on its tempco is marked; judged on its nominal −750 ppm/K",)
+
+
+def test_np0_for_c0g_is_the_same_characteristic(lines):
+    # [parameters-page]: NP0 is the old name of C0G, 0 ±30 ppm/K
+    assert verdict(lines, "C8", "101J 50V NP0").notes == (
+        "NP0 for C0G: the same characteristic (0±30 ppm/K, EIA-198 Class 1)",)
+
+
+@pytest.mark.parametrize("marking, refused", [
+    pytest.param("104K 250V X7R", "rated for DC only; the line needs an AC rating", id="dc-only"),
+    pytest.param("104K 250VAC X7R", None, id="an-ac-rating-above-230"),
+])
+def test_an_ac_line_needs_an_ac_rating(lines, marking, refused):
+    assert verdict(lines, "C9", marking).refused == refused
+
+
+@pytest.mark.parametrize("marking, refused", [
+    pytest.param("10uF 25V tantalum", None, id="tantalum"),
+    pytest.param("10uF 25V X7R", "not a polarised part; the BOM names tantalum", id="unpolarised-ceramic"),
+    pytest.param("10uF 25V electrolytic", "aluminium electrolytic; the line names tantalum",
+                 id="another-polarised-family"),
+])
+def test_a_line_naming_a_polarised_family_takes_only_that_family(lines, marking, refused):
+    assert verdict(lines, "C10", marking).refused == refused
