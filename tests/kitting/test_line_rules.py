@@ -111,6 +111,22 @@ def test_in_a_pair_the_value_is_left_to_the_pair(lines):
     assert check_part(lines["C5"], m, Decimal(100_000)).refused is None   # the pair's value is 100 nF
 
 
+# 100 nF ±10 % allows 90…110 nF; each part's band by hand from its J (±5 %) letter
+@pytest.mark.parametrize("marking, refused", [
+    pytest.param("95n J 50V", None, id="95nF-J-is-90.25-to-99.75-inside"),
+    pytest.param("0.0948uF J 50V", None, id="94.8nF-J-is-90.06-to-99.54-inside"),
+    pytest.param("0.0947uF J 50V", "nominal 94.7 nF ±5 % can stray outside 100 nF ±10 %",
+                 id="94.7nF-J-reaches-down-to-89.965"),
+    pytest.param("105n J 50V", "nominal 105 nF ±5 % can stray outside 100 nF ±10 %",
+                 id="105nF-J-reaches-up-to-110.25"),
+])
+def test_a_part_off_the_lines_value_goes_only_if_its_whole_band_stays_inside(lines, marking, refused):
+    v = verdict(lines, "C6", marking)
+    assert v.refused == refused
+    if refused is None:
+        assert any(n.endswith("stays within 100 nF ±10 %") for n in v.notes)
+
+
 # tempco window −750 ±120 = −870…−630 ppm/K (hand arithmetic); U2J, C0G and P100 from [EIA-198]
 @pytest.mark.parametrize("marking, refused", [
     pytest.param("47J 50V U2J", None, id="u2j-fills-the-window"),
