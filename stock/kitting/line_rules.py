@@ -38,6 +38,7 @@ from stock.inventory.bins import natural_key, part_marking
 from stock.kitting.bin_order import GRADE_RANK, Candidate, choose_bins
 from stock.kitting.bom import POLARISED_FAMILIES, BomLine
 from stock.markings.safety_classes import MAINS_CAUTION, covers
+from stock.physics.combining import band
 from stock.units import format_capacitance, format_number, format_voltage
 
 ALLOWANCES = ("looser-tolerance", "lower-class")
@@ -241,7 +242,10 @@ def _value_rule(line: BomLine, marking: Marking, capacitance_pf: Decimal | None,
             notes.append("tolerance unknown, allowed by --allow looser-tolerance")
             return None if offset <= line.tol_pct else f"nominal {fmt(capacitance_pf)} is outside"
         return f"tolerance unknown; the line needs {_fmt_pct(line.tol_pct)}"
-    if offset + part_tol > line.tol_pct:
+    # the part's whole band, each side from its own nominal, against the line's band
+    p_lo, p_hi = band(capacitance_pf, *marking.tolerance.as_percent(capacitance_pf))
+    w_lo, w_hi = band(want, line.tol_pct, line.tol_pct)
+    if p_lo < w_lo or p_hi > w_hi:
         if looser_ok and offset <= line.tol_pct:
             notes.append(f"{_fmt_pct(part_tol)} where {_fmt_pct(line.tol_pct)} was asked: a looser"
                          " tolerance, allowed by --allow looser-tolerance")

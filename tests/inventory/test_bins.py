@@ -12,7 +12,7 @@ import json
 
 import pytest
 
-from stock.inventory.bins import bin_detail, list_bins, part_marking, quarantined_rows
+from stock.inventory.bins import bin_detail, list_bins, natural_key, part_marking, quarantined_rows
 from stock.decoded import Marking
 from stock.errors import NotFound
 from stock.inventory.intake import import_file
@@ -109,3 +109,14 @@ def test_part_marking_prefers_a_settled_reading():
     assert float(m.capacitance_pf) == 10000.0
     m = part_marking({"decoded_json": json.dumps(decoded), "settled_json": None})
     assert float(m.capacitance_pf) == 100000.0
+
+
+# natural order, the way a person walks the drawers: common practice, no published source
+@pytest.mark.parametrize("smaller, larger", [
+    pytest.param("A2", "A10", id="A2-before-A10"),
+    pytest.param("cab/A9", "cab/A10", id="inside-a-bin-key"),
+    pytest.param("a1", "B1", id="case-does-not-matter"),
+    pytest.param("Z99", None, id="no-location-last"),
+])
+def test_natural_order_counts_numbers_as_numbers(smaller, larger):
+    assert natural_key(smaller) < natural_key(larger)
