@@ -83,11 +83,15 @@ def test_naming_bins_grades_them_again(shop):
     assert refresh_stored_grades(shop, []) == 0
 
 
-def test_grades_missing_for_a_bin_are_filled_in_by_the_next_refresh(shop):
+def test_grades_missing_for_a_reading_are_filled_in_by_the_next_refresh(shop):
+    # grades are stored per reading (not per bin): lose K1's reading's grades, and only that
+    # reading is graded again
     refresh_stored_grades(shop)
-    bin_id = shop.one("SELECT id FROM bins WHERE location = 'K1'")["id"]
+    reading = shop.one("SELECT p.shown_id FROM bin_parts p JOIN bins b ON b.id = p.bin_id"
+                       " WHERE b.location = 'K1'")["shown_id"]
     with shop.writing():
-        shop.db.conn.execute("DELETE FROM grades WHERE bin_id = ?", (bin_id,))
+        shop.db.conn.execute("DELETE FROM marking_grades WHERE marking_id = ?", (reading,))
     assert _stored(shop, "K1") == {}
+    assert _stored(shop, "K2")["bypass"] == "fit"
     assert refresh_stored_grades(shop) == 1
     assert _stored(shop, "K1")["tuned"] == "fit"
