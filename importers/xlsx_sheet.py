@@ -181,25 +181,35 @@ def _read_worksheet(path: Path, book: Any, worksheet: Any, handle: _BookHandle) 
 
 def _numbered_rows(file: str, sheet: str, worksheet: Any, notes: list[str],
                    handle: _BookHandle) -> Iterator[tuple[int, tuple[Any, ...]]]:
-    number = 0
-    blank_run = 0
+    read = [0]           # rows taken from the file so far, for the damaged-workbook message
     try:
-        for values in worksheet.iter_rows(values_only=True):
-            number += 1
-            cells = tuple(clean_cell(v) for v in values)
-            if all(c is None for c in cells):
-                blank_run += 1
-                if blank_run >= EMPTY_RUN_LIMIT:
-                    notes.append(f"stopped reading sheet {sheet!r} at row {number}: "
-                                 f"{EMPTY_RUN_LIMIT} blank rows in a row; rows below are not read")
-                    return
-                continue
-            blank_run = 0
-            yield number, cells
+        cells = (tuple(clean_cell(v) for v in values) for values in worksheet.iter_rows(values_only=True))
+        yield from _filled_rows(sheet, cells, 1, notes, read)
     except _READ_ERRORS as exc:
-        raise BadSheet(file, f"is a damaged workbook ({_short(exc)})", sheet=sheet, row=number + 1) from None
+        raise BadSheet(file, f"is a damaged workbook ({_short(exc)})", sheet=sheet, row=read[0] + 1) from None
     finally:
         handle.finished()
+
+
+def _filled_rows(sheet: str, rows: Iterator[tuple[Any, ...]], first: int, notes: list[str],
+                 read: list[int]) -> Iterator[tuple[int, tuple[Any, ...]]]:
+    """(row number, cells) of the rows holding something, numbered from ``first``; a run of
+    ``EMPTY_RUN_LIMIT`` blank rows ends the sheet (formatting dragged to the last row) and says so.
+    ``read[0]`` counts the rows taken, blank ones too. Both workbook readers go through here."""
+    blank_run = 0
+    number = first - 1
+    for cells in rows:
+        number += 1
+        read[0] += 1
+        if all(c is None for c in cells):
+            blank_run += 1
+            if blank_run >= EMPTY_RUN_LIMIT:
+                notes.append(f"stopped reading sheet {sheet!r} at row {number}: "
+                             f"{EMPTY_RUN_LIMIT} blank rows in a row; rows below are not read")
+                return
+            continue
+        blank_run = 0
+        yield number, cells
 
 
 def _read_with_calamine(path: Path, sheet: str | None) -> list[RawSheet] | None:
@@ -261,22 +271,10 @@ def _calamine_cell(value: Any) -> Any:
 
 def _calamine_rows(file: str, sheet: str, cells: Any, notes: list[str]) -> Iterator[tuple[int, tuple[Any, ...]]]:
     """(row number, cells) as :func:`_numbered_rows` gives them, from a sheet calamine loaded."""
-    start = cells.start or (0, 0)
-    first_row, left = start
+    first_row, left = cells.start or (0, 0)
     pad = (None,) * left
-    blank_run = 0
-    number = first_row
-    for values in cells.iter_rows():
-        number += 1
-        row = pad + tuple(_calamine_cell(v) for v in values)
-        if all(c is None for c in row):
-            blank_run += 1
-            if blank_run >= EMPTY_RUN_LIMIT:
-                notes.append(f"stopped reading sheet {sheet!r} at row {number}: "
-                             f"{EMPTY_RUN_LIMIT} blank rows in a row; rows below are not read")
-                return
-            continue
-        blank_run = 0
+    rows = (pad + tuple(_calamine_cell(v) for v in values) for values in cells.iter_rows())
+    for number, row in _filled_rows(sheet, rows, first_row + 1, notes, [0]):
         while row and row[-1] is None:
             row = row[:-1]
         yield number, row

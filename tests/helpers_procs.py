@@ -17,6 +17,7 @@ import os
 import random
 import time
 from pathlib import Path
+from collections.abc import Iterable, Sequence
 from typing import Any
 
 
@@ -33,14 +34,19 @@ def scaled(n: int) -> int:
     return n * slow_factor()
 
 
-def write_bin_sheet(path: Path, rows: list[tuple[str, str, Any]], *,
-                    headers: tuple[str, ...] = ("Location", "Marking", "Qty")) -> Path:
-    """A CSV bin sheet of (location, marking, quantity) rows."""
+def write_sheet(path: Path, headers: Sequence[str], rows: Iterable[Sequence[Any]]) -> Path:
+    """A CSV sheet (a bin sheet or a BOM): the header row, then the rows."""
     with open(path, "w", newline="", encoding="utf-8") as fh:
         out = csv.writer(fh)
         out.writerow(headers)
         out.writerows(rows)
     return path
+
+
+def write_bin_sheet(path: Path, rows: list[tuple[str, str, Any]], *,
+                    headers: tuple[str, ...] = ("Location", "Marking", "Qty")) -> Path:
+    """A CSV bin sheet of (location, marking, quantity) rows."""
+    return write_sheet(path, headers, rows)
 
 
 def write_bom(path: Path, qty_per_board: int = 1, value: str = "100n", tolerance: str = "10%") -> Path:

@@ -19,14 +19,11 @@ blank cell means "not counted", never zero; a negative or non-numeric count is r
 
 from __future__ import annotations
 
-import json
 import re
 from dataclasses import replace
 from datetime import date, datetime
 from decimal import Decimal
 from functools import lru_cache
-from json.encoder import encode_basestring  # what json.dumps(..., ensure_ascii=False) uses for text
-from math import isfinite
 from typing import Any
 
 from stock.counts import MAX_COUNT, read_quantity
@@ -229,19 +226,6 @@ def label_value(label: str) -> tuple[str, Decimal] | None:
     return None
 
 
-def _json_value(value: Any) -> str | None:
-    """A cell as JSON exactly as ``json.dumps(..., default=str, ensure_ascii=False)`` writes it,
-    for the common cell types; None for the rest (the caller then uses json.dumps itself)."""
-    t = type(value)
-    if t is str:
-        return encode_basestring(value)
-    if t is int:
-        return int.__repr__(value)
-    if t is float and isfinite(value):
-        return float.__repr__(value)
-    return None
-
-
 class RowReader:
     """What the rows of one sheet say, given its header mapping.
 
@@ -254,7 +238,6 @@ class RowReader:
         self.units: dict[str, str] = dict(getattr(header_map, "units", None) or {})
         self.index: dict[str, int] = dict(header_map.field_to_index)
         self.headers = headers
-        self._header_keys = [encode_basestring(h) + ": " for h in headers]
         self._text_fields = [(n, i) for n, i in self.index.items() if n not in ("quantity", "minimum")]
         column_units = dict(getattr(header_map, "column_units", None) or {})
         # Every column that may carry the value, in the order tried: (field name in texts(),
@@ -384,27 +367,6 @@ class RowReader:
                 flags=marking.flags + (Flag("label-conflict", message),))
             found.append(("label-conflict", message, f"{key}|label-conflict|{text}|{raw}"))
         return marking, found
-
-    def raw_json(self, cells: tuple[Any, ...], extra: tuple[tuple[str, Any], ...] = ()) -> str:
-        """The row's non-blank cells as a JSON object by header (cells right of the header too).
-
-        Written piece by piece for text and number cells, byte for byte what
-        ``json.dumps(raw, default=str, ensure_ascii=False)`` writes, at a fraction of its cost.
-        """
-        if not extra:
-            pieces = []
-            for head, c in zip(self._header_keys, cells):
-                if c is None or c == "":
-                    continue
-                encoded = _json_value(c)
-                if encoded is None:
-                    break
-                pieces.append(head + encoded)
-            else:
-                return "{" + ", ".join(pieces) + "}"
-        raw = {h: c for h, c in zip(self.headers, cells) if c is not None and c != ""}
-        raw.update(extra)  # nothing read is lost
-        return json.dumps(raw, default=str, ensure_ascii=False)
 
 
 __all__ = ["MARKING_FIELDS", "MAX_COUNT", "PART_COLUMNS", "READING_FIELDS", "RowReader", "bin_key",

@@ -7,7 +7,6 @@ rule (cabinet/location, case and spacing ignored) is this project's own.
 
 from __future__ import annotations
 
-import json
 from datetime import date
 from decimal import Decimal
 
@@ -114,9 +113,3 @@ def test_a_value_column_with_a_unit_in_its_header_reads_a_bare_number_in_that_un
     reader = _reader(["Location", "Value (nF)", "Qty"])
     _, marking, _ = reader.reading(reader.texts(("C5", "4.7", 3)))
     assert marking.capacitance_pf == Decimal(4700)   # 4.7 nF
-
-
-def test_the_raw_json_keeps_every_non_blank_cell_by_header():
-    reader = _reader(["Location", "Marking", "Qty"])
-    raw = json.loads(reader.raw_json(("C6", "4n7", None), (("column 4", "note"),)))
-    assert raw == {"Location": "C6", "Marking": "4n7", "column 4": "note"}

@@ -7,8 +7,6 @@ common practice, no published source; counts are hand arithmetic (positions × b
 
 from __future__ import annotations
 
-import csv
-
 import pytest
 
 from stock.errors import NotFound
@@ -16,14 +14,7 @@ from stock.inventory.intake import import_file
 from stock.kitting.pick_list import pick_list, pick_list_text, plan_text
 from stock.kitting.planner import kit_options, plan_kit
 from stock.kitting.stored_plans import load_plan, pull_plan
-
-
-def write(path, header, rows):
-    with open(path, "w", newline="", encoding="utf-8") as fh:
-        w = csv.writer(fh)
-        w.writerow(header)
-        w.writerows(rows)
-    return path
+from tests.helpers_procs import write_sheet as write
 
 
 # 100 nF: C1–C3 need 3 × 2 = 6 and C5 needs 1 × 2 = 2, so both 100 nF bins (3 + 5 = 8) empty and

@@ -7,22 +7,13 @@ two boards of a BOM line with two positions need 2 × 2 = 4 parts.
 
 from __future__ import annotations
 
-import csv
-
 import pytest
 
 from stock.errors import NotFound, Refused
 from stock.inventory.intake import import_file
 from stock.kitting.planner import kit_options, plan_kit
 from stock.kitting.stored_plans import drop_plan, list_plans, load_plan, pull_plan, undo_pull
-
-
-def write(path, header, rows):
-    with open(path, "w", newline="", encoding="utf-8") as fh:
-        w = csv.writer(fh)
-        w.writerow(header)
-        w.writerows(rows)
-    return path
+from tests.helpers_procs import write_sheet as write
 
 
 @pytest.fixture

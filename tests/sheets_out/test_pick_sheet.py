@@ -8,7 +8,6 @@ source.
 
 from __future__ import annotations
 
-import csv
 import gc
 
 import openpyxl
@@ -19,14 +18,7 @@ from stock.inventory.intake import import_file
 from stock.kitting.pick_list import pick_list
 from stock.kitting.planner import kit_options, plan_kit
 from stock.sheets_out.pick_sheet import write_pick_list_xlsx
-
-
-def write(path, header, rows):
-    with open(path, "w", newline="", encoding="utf-8") as fh:
-        w = csv.writer(fh)
-        w.writerow(header)
-        w.writerows(rows)
-    return path
+from tests.helpers_procs import write_sheet as write
 
 
 @pytest.fixture
