@@ -37,7 +37,9 @@ from stock.decoded import Marking
 from stock.inventory.bins import natural_key, part_marking
 from stock.kitting.bin_order import GRADE_RANK, Candidate, choose_bins
 from stock.kitting.bom import POLARISED_FAMILIES, BomLine
+from stock.markings.ceramic_codes import assumed_tempco_tolerance
 from stock.markings.safety_classes import MAINS_CAUTION, covers
+from stock.matching.requirement import tempco_tolerance
 from stock.physics.combining import band
 from stock.units import format_capacitance, format_number, format_voltage
 
@@ -175,13 +177,23 @@ def _dielectric_rule(line: BomLine, marking: Marking, allow: frozenset[str],
                              " --allow lower-class")
                 return None
             return f"{have.code} has no linear tempco; the line needs {_want_text(line)}"
-        lo = have.tempco_ppm_per_k - (have.tempco_tol_ppm_per_k or 0)
-        hi = have.tempco_ppm_per_k + (have.tempco_tol_ppm_per_k or 0)
-        if window is not None and (lo < window[0] or hi > window[1]):
-            return f"{have.code} tempco {_tempco_text(have)} lies outside {_want_text(line)}"
-        if window is None and have.tempco_ppm_per_k != want.tempco_ppm_per_k:
+        if window is not None:
+            # the same band the search judges a part by: an unmarked tolerance on α is assumed
+            # from the one table (stock.markings.ceramic_codes), never taken as zero
+            spread = tempco_tolerance(have)
+            alpha = have.tempco_ppm_per_k
+            judged = _tempco_text(have)
+            if have.tempco_tol_ppm_per_k is None:
+                judged = (f"{format_number(alpha)}±{format_number(spread)} ppm/K "
+                          f"({assumed_tempco_tolerance(alpha)[1]}; no tolerance is marked)")
+            if alpha - spread < window[0] or alpha + spread > window[1]:
+                return f"{have.code} tempco {judged} lies outside {_want_text(line)}"
+            if have.tempco_tol_ppm_per_k is None:
+                notes.append(f"{have.code}: judged at {judged}")
+        elif have.tempco_ppm_per_k != want.tempco_ppm_per_k:
             return f"{have.code} tempco {_tempco_text(have)}; the line names {want.code}"
-        if have.tempco_tol_ppm_per_k is None:
+        elif have.tempco_tol_ppm_per_k is None:
+            # a code asked for: an old name matches its EIA code on the nominal (as the search does)
             notes.append(f"{have.code}: no tolerance on its tempco is marked; judged on its nominal"
                          f" {_tempco_text(have)}")
         if want is not None and have.code != want.code:

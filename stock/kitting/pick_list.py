@@ -101,7 +101,8 @@ def pick_list(store: Store, plan: int | str | KitPlan) -> PickList:
 def pick_list_text(pl: PickList) -> str:
     """Tab-separated rows under a header, then the cautions."""
     out = [f"# pick list for plan {pl.plan} ({pl.boards} board{'s' if pl.boards != 1 else ''},"
-           f" {pl.status}): {pl.total} parts from {len(pl.rows)} bins",
+           f" {pl.status}): {pl.total} part{'s' if pl.total != 1 else ''} from {len(pl.rows)}"
+           f" bin{'s' if len(pl.rows) != 1 else ''}",
            "location\tbin\tmarking\tvalue\tcount\trefs\tpackage"]
     for r in pl.rows:
         out.append(f"{r.location or '-'}\t{r.bin_key}\t{r.marking}\t{r.value}\t{r.count}\t"

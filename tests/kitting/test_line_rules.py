@@ -30,6 +30,7 @@ C7,1,47p,5%,50V,,tuned,-750±120
 C8,1,100p,5%,50V,C0G,,
 C9,1,100n,,230VAC,,,
 C10,1,10u,,25V,tantalum,,
+C11,1,47p,5%,50V,,tuned,-750±60
 """
 
 
@@ -131,16 +132,28 @@ def test_a_part_off_the_lines_value_goes_only_if_its_whole_band_stays_inside(lin
 @pytest.mark.parametrize("marking, refused", [
     pytest.param("47J 50V U2J", None, id="u2j-fills-the-window"),
     pytest.param("47J 50V C0G", "C0G tempco 0±30 ppm/K lies outside −870…−630 ppm/K", id="c0g-outside"),
-    pytest.param("47J 50V P100", "P100 tempco 100 ppm/K lies outside −870…−630 ppm/K", id="p100-outside"),
+    pytest.param("47J 50V P100", "P100 tempco 100±30 ppm/K (as M7G, the EIA-198 code P100 is sold as;"
+                 " no tolerance is marked) lies outside −870…−630 ppm/K", id="p100-outside"),
 ])
 def test_a_tempco_window_takes_only_parts_whose_tempco_lies_in_it(lines, marking, refused):
     assert verdict(lines, "C7", marking).refused == refused
 
 
-def test_an_old_name_without_a_tempco_tolerance_is_judged_on_its_nominal_and_says_so(lines):
-    v = verdict(lines, "C7", "47J 50V N750")
+# An old name carries no tolerance on α; a tempco window judges it at the tolerance of the EIA-198
+# code it is sold as (N750 as U2J, J = ±120 ppm/K [EIA-198]), as the search does, never at zero.
+def test_an_old_name_in_a_tempco_window_is_judged_at_its_usual_tolerance_and_says_so(lines):
+    v = verdict(lines, "C7", "47J 50V N750")          # −750 ± 120 = −870…−630: just inside
     assert v.refused is None
-    assert v.notes == ("N750: no tolerance on its tempco is marked; judged on its nominal −750 ppm/K",)
+    assert v.notes == ("N750: judged at −750±120 ppm/K (as U2J, the EIA-198 code N750 is sold as;"
+                       " no tolerance is marked)",)
+
+
+def test_an_old_name_is_refused_by_a_window_narrower_than_its_usual_tolerance(lines):
+    # −750 ± 60 = −810…−690 (hand arithmetic): U2G (±30) fits, N750 at ±120 does not
+    assert verdict(lines, "C11", "47J 50V U2G").refused is None
+    assert verdict(lines, "C11", "47J 50V N750").refused == (
+        "N750 tempco −750±120 ppm/K (as U2J, the EIA-198 code N750 is sold as; no tolerance is marked)"
+        " lies outside −810…−690 ppm/K")
 
 
 def test_np0_for_c0g_is_the_same_characteristic(lines):

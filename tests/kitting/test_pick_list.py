@@ -63,11 +63,12 @@ def test_the_pick_list_text_is_tab_separated_under_a_header_then_the_cautions(pl
     assert len(lines) == 7
 
 
-def test_one_board_is_said_in_the_singular(store, tmp_path):
+def test_one_board_one_part_and_one_bin_are_said_in_the_singular(store, tmp_path):
     import_file(store, write(tmp_path / "rack.csv", ["Location", "Marking", "Qty"], [["A1", "104K 50V X7R", "4"]]))
     bom = write(tmp_path / "one.csv", ["Designator", "Qty", "Value"], [["C1", "1", "100n"]])
     plan = plan_kit(store, bom, kit_options(1)).id
-    assert pick_list_text(pick_list(store, plan)).startswith(f"# pick list for plan {plan} (1 board, reserved): ")
+    assert pick_list_text(pick_list(store, plan)).startswith(
+        f"# pick list for plan {plan} (1 board, reserved): 1 part from 1 bin\n")
 
 
 def test_the_pick_list_json_keeps_its_contract_keys(planned):
