@@ -2,6 +2,8 @@
 
 Expected sentences are written by hand from the contract in STYLE.md ("an error names the bad
 value and what would have been accepted") and the exit codes in DEVELOPERS.md (1 bad data, 2 bad usage).
+No decoded value or physics is checked here, so no standard applies: the wording is the project's
+own contract (common practice, no published source).
 """
 
 from __future__ import annotations
